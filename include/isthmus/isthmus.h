@@ -1,0 +1,21 @@
+/* isthmus/isthmus.h - the whole public interface of libisthmus and its version. */
+#ifndef ISTHMUS_ISTHMUS_H
+#define ISTHMUS_ISTHMUS_H
+
+#include <isthmus/error.h>
+#include <isthmus/cancel.h>
+#include <isthmus/matrix.h>
+#include <isthmus/vocab.h>
+#include <isthmus/store.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/** Library version, "MAJOR.MINOR.PATCH". */
+IST_API const char *ist_version(void);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

@@ -1,0 +1,326 @@
+/* ofile.c - atomic output files: temporary name, then rename. */
+#include "ofile_int.h"
+
+#include <errno.h>
+#include <fcntl.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include <zlib.h>
+
+#include <isthmus/cancel.h>
+
+#include "alloc_int.h"
+#include "error_int.h"
+
+#define OFILE_BUF (1u << 18)
+
+struct ist_ofile {
+    char *path;         /* final name; NULL for stdout */
+    char *tmp;          /* temporary name */
+    int fd;
+    gzFile gz;
+    unsigned char *buf;
+    size_t used;
+    unsigned long long total;
+    bool failed;
+};
+
+static ist_status
+make_tmp(ist_ofile *f, const char *path, ist_error *err)
+{
+    const char *slash = strrchr(path, '/');
+    size_t dirlen = slash ? (size_t)(slash - path + 1) : 0;
+    const char *base = slash ? slash + 1 : path;
+    size_t n = strlen(path) + 32;
+
+    if (*base == '\0')
+        return ist_error_at(err, IST_ERR_INVALID, path, 0, "output path names a directory");
+    f->tmp = ist_malloc(n);
+    if (!f->tmp)
+        return ist_error_nomem(err);
+    snprintf(f->tmp, n, "%.*s.%s.tmp-XXXXXX", (int)dirlen, path, base);
+    f->fd = mkstemp(f->tmp);
+    if (f->fd < 0) {
+        ist_status rc = ist_error_sys(err, IST_ERR_IO, path, "cannot create output file");
+        ist_free(f->tmp);
+        f->tmp = NULL;
+        return rc;
+    }
+    /* mkstemp makes 0600; give the usual permissions a new file would get. */
+    mode_t um = umask(0);
+    umask(um);
+    (void)fchmod(f->fd, 0666 & ~um);
+    return IST_OK;
+}
+
+ist_status
+ist_ofile_open(const char *path, bool gz, ist_ofile **out, ist_error *err)
+{
+    ist_ofile *f;
+    ist_status rc;
+    struct stat st;
+
+    *out = NULL;
+    f = ist_calloc(1, sizeof *f);
+    if (!f)
+        return ist_error_nomem(err);
+    f->fd = -1;
+    f->buf = ist_malloc(OFILE_BUF);
+    if (!f->buf) {
+        rc = ist_error_nomem(err);
+        goto fail;
+    }
+    if (strcmp(path, "-") == 0) {
+        f->fd = STDOUT_FILENO;
+    } else {
+        if (stat(path, &st) == 0 && S_ISDIR(st.st_mode)) {
+            rc = ist_error_at(err, IST_ERR_INVALID, path, 0, "output path is a directory");
+            goto fail;
+        }
+        f->path = ist_strdup(path);
+        if (!f->path) {
+            rc = ist_error_nomem(err);
+            goto fail;
+        }
+        rc = make_tmp(f, path, err);
+        if (rc != IST_OK)
+            goto fail;
+    }
+    if (gz) {
+        int fd2 = dup(f->fd);
+        if (fd2 < 0 || !(f->gz = gzdopen(fd2, "wb6"))) {
+            if (fd2 >= 0)
+                close(fd2);
+            rc = ist_error_sys(err, IST_ERR_IO, path, "cannot start gzip stream");
+            goto fail;
+        }
+        gzbuffer(f->gz, 1u << 17);
+    }
+    *out = f;
+    return IST_OK;
+fail:
+    ist_ofile_abort(f);
+    return rc;
+}
+
+static ist_status
+write_fd(ist_ofile *f, const unsigned char *p, size_t n, ist_error *err)
+{
+    while (n > 0) {
+        ssize_t w = write(f->fd, p, n);
+        if (w < 0) {
+            if (errno == EINTR && !ist_cancel_requested())
+                continue;
+            return ist_error_sys(err, IST_ERR_IO, f->path ? f->path : "<stdout>",
+                                 "cannot write");
+        }
+        p += w;
+        n -= (size_t)w;
+    }
+    return IST_OK;
+}
+
+static ist_status
+flush_buf(ist_ofile *f, ist_error *err)
+{
+    ist_status rc = IST_OK;
+
+    if (f->used == 0)
+        return IST_OK;
+    if (ist_cancel_requested()) {
+        f->failed = true;
+        return ist_error_set(err, IST_ERR_CANCELLED, "stopped on request while writing %s",
+                             f->path ? f->path : "<stdout>");
+    }
+    if (f->gz) {
+        size_t off = 0;
+        while (off < f->used) {
+            unsigned chunk = (unsigned)((f->used - off) > (1u << 30) ? (1u << 30) : f->used - off);
+            int w = gzwrite(f->gz, f->buf + off, chunk);
+            if (w <= 0) {
+                int ze;
+                const char *zmsg = gzerror(f->gz, &ze);
+                if (ze == Z_ERRNO)
+                    rc = ist_error_sys(err, IST_ERR_IO, f->path ? f->path : "<stdout>",
+                                       "cannot write");
+                else
+                    rc = ist_error_at(err, IST_ERR_IO, f->path ? f->path : "<stdout>", 0,
+                                      "gzip write failed: %s", zmsg);
+                break;
+            }
+            off += (size_t)w;
+        }
+    } else {
+        rc = write_fd(f, f->buf, f->used, err);
+    }
+    f->used = 0;
+    if (rc != IST_OK)
+        f->failed = true;
+    return rc;
+}
+
+ist_status
+ist_ofile_write(ist_ofile *f, const void *buf, size_t n, ist_error *err)
+{
+    const unsigned char *p = buf;
+    ist_status rc;
+
+    if (f->failed)
+        return ist_error_set(err, IST_ERR_IO, "write after a failed write");
+    f->total += n;
+    while (n > 0) {
+        size_t room = OFILE_BUF - f->used;
+        size_t take = n < room ? n : room;
+        memcpy(f->buf + f->used, p, take);
+        f->used += take;
+        p += take;
+        n -= take;
+        if (f->used == OFILE_BUF) {
+            rc = flush_buf(f, err);
+            if (rc != IST_OK)
+                return rc;
+        }
+    }
+    return IST_OK;
+}
+
+ist_status
+ist_ofile_puts(ist_ofile *f, const char *s, ist_error *err)
+{
+    return ist_ofile_write(f, s, strlen(s), err);
+}
+
+ist_status
+ist_ofile_printf(ist_ofile *f, ist_error *err, const char *fmt, ...)
+{
+    char small[1024];
+    va_list ap;
+    int n;
+
+    va_start(ap, fmt);
+    n = vsnprintf(small, sizeof small, fmt, ap);
+    va_end(ap);
+    if (n < 0)
+        return ist_error_set(err, IST_ERR_INTERNAL, "bad format string");
+    if ((size_t)n < sizeof small)
+        return ist_ofile_write(f, small, (size_t)n, err);
+    char *big = ist_malloc((size_t)n + 1);
+    if (!big)
+        return ist_error_nomem(err);
+    va_start(ap, fmt);
+    vsnprintf(big, (size_t)n + 1, fmt, ap);
+    va_end(ap);
+    ist_status rc = ist_ofile_write(f, big, (size_t)n, err);
+    ist_free(big);
+    return rc;
+}
+
+unsigned long long
+ist_ofile_tell(const ist_ofile *f)
+{
+    return f->total;
+}
+
+bool
+ist_ofile_is_tty(const ist_ofile *f)
+{
+    return f->path == NULL && isatty(f->fd);
+}
+
+static void
+release(ist_ofile *f)
+{
+    if (f->gz)
+        gzclose(f->gz);
+    if (f->fd >= 0 && f->path)
+        close(f->fd);
+    ist_free(f->buf);
+    ist_free(f->tmp);
+    ist_free(f->path);
+    ist_free(f);
+}
+
+ist_status
+ist_ofile_commit(ist_ofile *f, ist_error *err)
+{
+    const char *name = f->path ? f->path : "<stdout>";
+    ist_status rc = flush_buf(f, err);
+
+    if (rc != IST_OK)
+        goto fail;
+    if (f->gz) {
+        int zr = gzclose(f->gz);
+        f->gz = NULL;
+        if (zr != Z_OK) {
+            rc = zr == Z_ERRNO ? ist_error_sys(err, IST_ERR_IO, name, "cannot write")
+                               : ist_error_at(err, IST_ERR_IO, name, 0, "gzip stream failed");
+            goto fail;
+        }
+    }
+    if (!f->path) {
+        release(f);
+        return IST_OK;
+    }
+    if (fsync(f->fd) != 0 && errno != EINVAL && errno != EROFS) {
+        rc = ist_error_sys(err, IST_ERR_IO, name, "cannot flush to disk");
+        goto fail;
+    }
+    if (close(f->fd) != 0) {
+        f->fd = -1;
+        rc = ist_error_sys(err, IST_ERR_IO, name, "cannot write");
+        goto fail;
+    }
+    f->fd = -1;
+    if (ist_cancel_requested()) {
+        rc = ist_error_set(err, IST_ERR_CANCELLED, "stopped on request while writing %s", name);
+        goto fail;
+    }
+    if (rename(f->tmp, f->path) != 0) {
+        rc = ist_error_sys(err, IST_ERR_IO, name, "cannot move the finished file into place");
+        goto fail;
+    }
+    release(f);
+    return IST_OK;
+fail:
+    ist_ofile_abort(f);
+    return rc;
+}
+
+void
+ist_ofile_abort(ist_ofile *f)
+{
+    if (!f)
+        return;
+    if (f->gz) {
+        gzclose(f->gz);
+        f->gz = NULL;
+    }
+    if (f->fd >= 0 && f->path) {
+        close(f->fd);
+        f->fd = -1;
+    }
+    if (f->tmp)
+        unlink(f->tmp);
+    release(f);
+}
+
+ist_status
+ist_ofile_write_all(const char *path, const void *buf, size_t n, ist_error *err)
+{
+    ist_ofile *f;
+    ist_status rc = ist_ofile_open(path, false, &f, err);
+
+    if (rc != IST_OK)
+        return rc;
+    rc = ist_ofile_write(f, buf, n, err);
+    if (rc != IST_OK) {
+        ist_ofile_abort(f);
+        return rc;
+    }
+    return ist_ofile_commit(f, err);
+}

@@ -1,0 +1,221 @@
+/* cli.c - shared helpers of the isthmus subcommands. */
+#include "cli.h"
+
+#include <errno.h>
+#include <math.h>
+#include <signal.h>
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+
+cli_globals cli_g = {0, CLI_PROGRESS_AUTO};
+
+int
+cli_usage_error(const char *cmd, const char *fmt, ...)
+{
+    va_list ap;
+
+    fprintf(stderr, "isthmus%s%s: ", cmd ? " " : "", cmd ? cmd : "");
+    va_start(ap, fmt);
+    vfprintf(stderr, fmt, ap);
+    va_end(ap);
+    if (cmd)
+        fprintf(stderr, "\nTry 'isthmus %s --help'.\n", cmd);
+    else
+        fprintf(stderr, "\nTry 'isthmus --help'.\n");
+    return CLI_EXIT_USAGE;
+}
+
+int
+cli_report(const char *cmd, const ist_error *err)
+{
+    char buf[1024];
+
+    cli_progress_done();
+    ist_error_format(err, buf, sizeof buf);
+    fprintf(stderr, "isthmus %s: %s\n", cmd, buf);
+    if (err->code == IST_ERR_CANCELLED) {
+        fprintf(stderr, "isthmus %s: stopped; no output file was written\n", cmd);
+        return 130;
+    }
+    return CLI_EXIT_ERROR;
+}
+
+bool
+cli_parse_u64(const char *cmd, const char *opt, const char *s, uint64_t lo, uint64_t hi,
+              uint64_t *out)
+{
+    char *end;
+    unsigned long long v;
+
+    errno = 0;
+    if (!s || !*s || *s == '-' || *s == '+' || *s == ' ')
+        goto bad;
+    v = strtoull(s, &end, 10);
+    if (errno || *end)
+        goto bad;
+    if (v < lo || v > hi) {
+        cli_usage_error(cmd, "%s: expected a whole number from %llu to %llu, got '%s'", opt,
+                        (unsigned long long)lo, (unsigned long long)hi, s);
+        return false;
+    }
+    *out = v;
+    return true;
+bad:
+    cli_usage_error(cmd, "%s: expected a whole number, got '%s'", opt, s ? s : "");
+    return false;
+}
+
+bool
+cli_parse_size(const char *cmd, const char *opt, const char *s, size_t lo, size_t hi,
+               size_t *out)
+{
+    uint64_t v;
+
+    if (!cli_parse_u64(cmd, opt, s, lo, hi, &v))
+        return false;
+    *out = (size_t)v;
+    return true;
+}
+
+bool
+cli_parse_double(const char *cmd, const char *opt, const char *s, double lo, double hi,
+                 double *out)
+{
+    char *end;
+    double v;
+
+    errno = 0;
+    if (!s || !*s)
+        goto bad;
+    v = strtod(s, &end);
+    if (errno || *end || !isfinite(v))
+        goto bad;
+    if (v < lo || v > hi) {
+        cli_usage_error(cmd, "%s: expected a number from %g to %g, got '%s'", opt, lo, hi, s);
+        return false;
+    }
+    *out = v;
+    return true;
+bad:
+    cli_usage_error(cmd, "%s: expected a number, got '%s'", opt, s ? s : "");
+    return false;
+}
+
+bool
+cli_parse_choice(const char *cmd, const char *opt, const char *s, const char *const *choices,
+                 int *out)
+{
+    char list[256] = "";
+
+    for (int i = 0; choices[i]; i++) {
+        if (strcmp(s, choices[i]) == 0) {
+            *out = i;
+            return true;
+        }
+        if (i)
+            strncat(list, ", ", sizeof list - strlen(list) - 1);
+        strncat(list, choices[i], sizeof list - strlen(list) - 1);
+    }
+    cli_usage_error(cmd, "%s: expected one of %s, got '%s'", opt, list, s);
+    return false;
+}
+
+static volatile sig_atomic_t signals_seen;
+
+static void
+on_signal(int sig)
+{
+    if (signals_seen++ > 0) {
+        signal(sig, SIG_DFL);
+        raise(sig);
+        return;
+    }
+    ist_cancel_request();
+}
+
+void
+cli_install_signals(void)
+{
+    struct sigaction sa;
+
+    memset(&sa, 0, sizeof sa);
+    sa.sa_handler = on_signal;
+    sigemptyset(&sa.sa_mask);
+    sigaction(SIGINT, &sa, NULL);
+    sigaction(SIGTERM, &sa, NULL);
+}
+
+double
+cli_now(void)
+{
+    struct timespec ts;
+
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + (double)ts.tv_nsec * 1e-9;
+}
+
+static double last_progress = -1;
+static int progress_shown;
+
+bool
+cli_progress_enabled(void)
+{
+    if (cli_g.verbosity < 0 || cli_g.progress == CLI_PROGRESS_NEVER)
+        return false;
+    if (cli_g.progress == CLI_PROGRESS_ALWAYS)
+        return true;
+    return isatty(STDERR_FILENO);
+}
+
+void
+cli_progress_update(const char *fmt, ...)
+{
+    va_list ap;
+    double t;
+
+    if (!cli_progress_enabled())
+        return;
+    t = cli_now();
+    if (last_progress >= 0 && t - last_progress < 0.25)
+        return;
+    last_progress = t;
+    fputs("\r\033[K", stderr);
+    va_start(ap, fmt);
+    vfprintf(stderr, fmt, ap);
+    va_end(ap);
+    fflush(stderr);
+    progress_shown = 1;
+}
+
+void
+cli_progress_done(void)
+{
+    if (progress_shown) {
+        fputs("\r\033[K", stderr);
+        fflush(stderr);
+    }
+    progress_shown = 0;
+    last_progress = -1;
+}
+
+void
+cli_info(const char *fmt, ...)
+{
+    va_list ap;
+
+    if (cli_g.verbosity < 0)
+        return;
+    cli_progress_done();
+    va_start(ap, fmt);
+    vfprintf(stderr, fmt, ap);
+    va_end(ap);
+}
+
+void
+cli_help_common(FILE *out)
+{
+    fputs("  -h, --help              show this help and exit\n", out);
+}

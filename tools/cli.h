@@ -1,0 +1,77 @@
+/* cli.h - what every subcommand shares: usage errors, numbers, progress, signals.
+ * Tools parse options, call the library and print; no numeric or parsing logic
+ * of the trade lives here. */
+#ifndef ISTHMUS_CLI_H
+#define ISTHMUS_CLI_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+
+#include <isthmus/isthmus.h>
+
+enum {
+    CLI_EXIT_OK = 0,
+    CLI_EXIT_ERROR = 1,    /* bad input, I/O, numeric failure */
+    CLI_EXIT_USAGE = 2,
+    CLI_EXIT_GATE = 3      /* a check or gate rule failed */
+};
+
+typedef enum cli_progress_mode { CLI_PROGRESS_AUTO, CLI_PROGRESS_ALWAYS, CLI_PROGRESS_NEVER } cli_progress_mode;
+
+/* Global settings, parsed before the subcommand name. */
+typedef struct cli_globals {
+    int verbosity;                 /* -q: -1, default 0, -v: 1.. */
+    cli_progress_mode progress;
+} cli_globals;
+
+extern cli_globals cli_g;
+
+typedef struct cli_command {
+    const char *name;
+    const char *summary;
+    int (*run)(int argc, char **argv);     /* argv[0] is the command name */
+    void (*help)(FILE *out);               /* full help text */
+} cli_command;
+
+/* Print "isthmus CMD: message" and the hint to stderr; returns CLI_EXIT_USAGE. */
+int cli_usage_error(const char *cmd, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
+
+/* Print the formatted error as "isthmus CMD: file:line: message"; returns the
+ * exit status for it (CLI_EXIT_ERROR, or 130 when cancelled). */
+int cli_report(const char *cmd, const ist_error *err);
+
+/* Whole-string numbers with range checks; on failure they print a usage error
+ * naming the option and return false. */
+bool cli_parse_size(const char *cmd, const char *opt, const char *s, size_t lo, size_t hi,
+                    size_t *out);
+bool cli_parse_u64(const char *cmd, const char *opt, const char *s, uint64_t lo, uint64_t hi,
+                   uint64_t *out);
+bool cli_parse_double(const char *cmd, const char *opt, const char *s, double lo, double hi,
+                      double *out);
+/* One of a fixed set of words; *out gets its index. */
+bool cli_parse_choice(const char *cmd, const char *opt, const char *s,
+                      const char *const *choices, int *out);
+
+/* Ctrl-C and SIGTERM ask the library to stop (ist_cancel_request); a second
+ * Ctrl-C exits at once. */
+void cli_install_signals(void);
+
+/* Progress on stderr: one "\r" line, at most 4 updates a second, cleared by
+ * cli_progress_done(). Shown only when stderr is a terminal (or
+ * --progress=always) and not -q. */
+bool cli_progress_enabled(void);
+void cli_progress_update(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+void cli_progress_done(void);
+
+/* Diagnostics to stderr unless -q. */
+void cli_info(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+
+/* Seconds on a monotonic clock. */
+double cli_now(void);
+
+/* Help helpers: the standard option lines every command prints. */
+void cli_help_common(FILE *out);
+
+#endif

@@ -1,0 +1,10 @@
+/* commands.h - the subcommands of isthmus, one cmd_<name>.c each. */
+#ifndef ISTHMUS_COMMANDS_H
+#define ISTHMUS_COMMANDS_H
+
+#include "cli.h"
+
+extern const cli_command cmd_inspect;
+extern const cli_command cmd_convert;
+
+#endif

@@ -1,0 +1,107 @@
+/* isthmus.c - the isthmus program: global options, then a subcommand. */
+#include <getopt.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+#include "commands.h"
+
+static const cli_command *const commands[] = {
+    &cmd_inspect,
+    &cmd_convert,
+    NULL,
+};
+
+static void
+usage(FILE *out)
+{
+    fprintf(out,
+            "Usage: isthmus [-q|-v] [--progress=WHEN] COMMAND [OPTIONS] [ARGS]\n"
+            "Train word vectors for a new language, map them onto a home language's vectors,\n"
+            "measure how well the two line up, and gate a release on the figures.\n"
+            "\n"
+            "Commands:\n");
+    for (int i = 0; commands[i]; i++)
+        fprintf(out, "  %-10s %s\n", commands[i]->name, commands[i]->summary);
+    fprintf(out,
+            "  %-10s %s\n"
+            "\n"
+            "Global options:\n"
+            "  -q, --quiet             no progress and no diagnostics but errors\n"
+            "  -v, --verbose           more diagnostics\n"
+            "      --progress=WHEN     auto (stderr is a terminal), always or never [default: auto]\n"
+            "  -h, --help              show this help and exit\n"
+            "      --version           show the version and exit\n"
+            "\n"
+            "'isthmus help COMMAND' or 'isthmus COMMAND --help' explains one command.\n"
+            "Exit status: 0 ok, 1 error (bad input, I/O, numeric failure), 2 bad usage,\n"
+            "3 a check or gate rule failed.\n",
+            "help", "explain a command");
+}
+
+static const cli_command *
+find_command(const char *name)
+{
+    for (int i = 0; commands[i]; i++)
+        if (strcmp(commands[i]->name, name) == 0)
+            return commands[i];
+    return NULL;
+}
+
+int
+main(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"quiet", no_argument, NULL, 'q'},
+        {"verbose", no_argument, NULL, 'v'},
+        {"progress", required_argument, NULL, 'P'},
+        {"help", no_argument, NULL, 'h'},
+        {"version", no_argument, NULL, 'V'},
+        {NULL, 0, NULL, 0},
+    };
+    static const char *const when[] = {"auto", "always", "never", NULL};
+    const cli_command *cmd;
+    int c, w;
+
+    opterr = 0;
+    while ((c = getopt_long(argc, argv, "+qvh", opts, NULL)) != -1) {
+        switch (c) {
+        case 'q': cli_g.verbosity = -1; break;
+        case 'v': cli_g.verbosity++; break;
+        case 'P':
+            if (!cli_parse_choice(NULL, "--progress", optarg, when, &w))
+                return CLI_EXIT_USAGE;
+            cli_g.progress = (cli_progress_mode)w;
+            break;
+        case 'h': usage(stdout); return CLI_EXIT_OK;
+        case 'V': printf("isthmus %s\n", ist_version()); return CLI_EXIT_OK;
+        default:
+            return cli_usage_error(NULL, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (optind >= argc) {
+        usage(stderr);
+        return CLI_EXIT_USAGE;
+    }
+    if (strcmp(argv[optind], "help") == 0) {
+        if (optind + 1 >= argc) {
+            usage(stdout);
+            return CLI_EXIT_OK;
+        }
+        cmd = find_command(argv[optind + 1]);
+        if (!cmd)
+            return cli_usage_error(NULL, "no command named '%s'", argv[optind + 1]);
+        cmd->help(stdout);
+        return CLI_EXIT_OK;
+    }
+    cmd = find_command(argv[optind]);
+    if (!cmd)
+        return cli_usage_error(NULL, "no command named '%s'", argv[optind]);
+    cli_install_signals();
+    argv += optind;
+    argc -= optind;
+    optind = 0;   /* reset getopt for the subcommand (GNU: 0 re-initialises) */
+    opterr = 0;
+    return cmd->run(argc, argv);
+}
