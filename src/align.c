@@ -33,6 +33,7 @@ ist_map_free(ist_map *m)
     ist_matrix_free(m->w0);
     ist_norm_free(m->ns);
     ist_norm_free(m->nt);
+    ist_pairs_free(m->seeds);
     ist_free(m);
 }
 
@@ -228,6 +229,16 @@ seed_rows(const ist_pairs *seeds, size_t **arow, size_t **brow, size_t *n, ist_e
     return IST_OK;
 }
 
+static ist_status
+copy_seed_words(const ist_pairs *seeds, ist_pairs **out, ist_error *err)
+{
+    ist_status rc = ist_pairs_new(out, err);
+    for (size_t i = 0; rc == IST_OK && i < ist_pairs_count(seeds); i++)
+        if (ist_pairs_source_row(seeds, i) >= 0 && ist_pairs_target_row(seeds, i) >= 0)
+            rc = ist_pairs_add(*out, ist_pairs_source(seeds, i), ist_pairs_target(seeds, i), err);
+    return rc;
+}
+
 ist_status
 ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds,
               const ist_align_opts *opts, ist_map **out, ist_error *err)
@@ -263,6 +274,8 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     if ((rc = seed_rows(seeds, &arow, &brow, &n, err)) != IST_OK)
         goto fail;
     m->seed_n = n;
+    if ((rc = copy_seed_words(seeds, &m->seeds, err)) != IST_OK)
+        goto fail;
     if ((rc = ist_align_copy_store(src, &xn, err)) != IST_OK ||
         (rc = ist_align_copy_store(tgt, &zn, err)) != IST_OK)
         goto fail;
@@ -329,6 +342,12 @@ ist_map_target_fingerprint(const ist_map *m)
     return m->fp_t;
 }
 
+const ist_pairs *
+ist_map_seeds(const ist_map *m)
+{
+    return m->seeds;
+}
+
 uint64_t
 ist_map_seed_checksum(const ist_map *m)
 {
@@ -391,8 +410,10 @@ ist_map_seed_only(const ist_map *m, ist_map **out, ist_error *err)
     *c = *m;
     c->w = c->w0 = NULL;
     c->ns = c->nt = NULL;
+    c->seeds = NULL;
     c->nrounds = 0;
-    if ((rc = ist_matrix_new(m->dim, m->dim, &c->w, err)) != IST_OK ||
+    if ((rc = copy_seed_words(m->seeds, &c->seeds, err)) != IST_OK ||
+        (rc = ist_matrix_new(m->dim, m->dim, &c->w, err)) != IST_OK ||
         (rc = ist_matrix_new(m->dim, m->dim, &c->w0, err)) != IST_OK ||
         (rc = clone_norm(m->ns, &c->ns, err)) != IST_OK ||
         (rc = clone_norm(m->nt, &c->nt, err)) != IST_OK) {

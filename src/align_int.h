@@ -18,6 +18,7 @@ struct ist_map {
     ist_procrustes_info fit0;
     ist_align_round rounds[IST_MAP_MAX_ROUNDS];
     size_t nrounds;
+    ist_pairs *seeds;       /* the kept seed pairs (words only), for leakage checks */
 };
 
 /* Copy a store's matrix into a new own matrix. */

@@ -115,12 +115,12 @@ write_side(ist_jw *w, const char *key, uint64_t fp, size_t rows, const ist_norm 
 }
 
 static ist_status
-meta_json(const ist_map *m, char **out, ist_error *err)
+meta_json(const ist_map *m, bool with_seeds, char **out, ist_error *err)
 {
     ist_jw w;
     char hx[17];
 
-    ist_jw_init(&w, true);
+    ist_jw_init(&w, with_seeds);   /* file metadata indented; the summary compact */
     ist_jw_obj_begin(&w, NULL);
     ist_jw_str(&w, "format", "isthmus map");
     ist_jw_uint(&w, "version", MAP_VERSION);
@@ -131,6 +131,16 @@ meta_json(const ist_map *m, char **out, ist_error *err)
     ist_jw_uint(&w, "pairs", m->seed_n);
     hex64(hx, m->seed_ck);
     ist_jw_str(&w, "checksum", hx);
+    if (with_seeds && m->seeds) {
+        ist_jw_arr_begin(&w, "list");
+        for (size_t i = 0; i < ist_pairs_count(m->seeds); i++) {
+            ist_jw_arr_begin(&w, NULL);
+            ist_jw_str(&w, NULL, ist_pairs_source(m->seeds, i));
+            ist_jw_str(&w, NULL, ist_pairs_target(m->seeds, i));
+            ist_jw_arr_end(&w);
+        }
+        ist_jw_arr_end(&w);
+    }
     ist_jw_obj_end(&w);
     ist_jw_obj_begin(&w, "seed_fit");
     ist_jw_num(&w, "orthogonality_error", m->fit0.orth_error);
@@ -184,11 +194,23 @@ put_means(buf *b, const ist_norm *n)
 }
 
 ist_status
+ist_map_describe(const ist_map *m, char **json, ist_error *err)
+{
+    return meta_json(m, false, json, err);
+}
+
+void
+ist_map_free_text(char *text)
+{
+    ist_free(text);
+}
+
+ist_status
 ist_map_save(const ist_map *m, const char *path, ist_error *err)
 {
     char *meta = NULL;
     buf b = {0};
-    ist_status rc = meta_json(m, &meta, err);
+    ist_status rc = meta_json(m, true, &meta, err);
     static const unsigned char zero[8] = {0};
 
     if (rc != IST_OK)
@@ -304,8 +326,8 @@ read_matrix(ist_matrix *w, const unsigned char *p)
             w->data[i * w->stride + j] = (float)get_f64(p + 8 * (i * w->cols + j));
 }
 
-static void
-read_rounds(ist_map *m, const ist_jv *meta)
+static ist_status
+read_rounds(ist_map *m, const ist_jv *meta, const char *path, ist_error *err)
 {
     const ist_jv *ref = ist_jv_get(meta, "refinement"), *rounds = ist_jv_get(ref, "rounds");
     const ist_jv *fit = ist_jv_get(meta, "seed_fit");
@@ -327,9 +349,22 @@ read_rounds(ist_map *m, const ist_jv *meta)
     m->fit0.residual = ist_jv_num(ist_jv_get(fit, "residual"), NAN);
     m->fit0.sv_min = ist_jv_num(ist_jv_get(fit, "singular_value_min"), NAN);
     m->fit0.sv_max = ist_jv_num(ist_jv_get(fit, "singular_value_max"), NAN);
+    const ist_jv *list = ist_jv_get(ist_jv_get(meta, "seeds"), "list");
+    if (ist_pairs_new(&m->seeds, err) != IST_OK)
+        return ist_error_nomem(err);
+    for (size_t i = 0; i < ist_jv_len(list); i++) {
+        const ist_jv *pr = ist_jv_at(list, i);
+        const char *a = ist_jv_str(ist_jv_at(pr, 0), NULL), *b = ist_jv_str(ist_jv_at(pr, 1), NULL);
+        if (!a || !b)
+            return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(pr),
+                                "map metadata: seed %zu: expected two words", i + 1);
+        if (ist_pairs_add(m->seeds, a, b, err) != IST_OK)
+            return IST_ERR_NOMEM;
+    }
     m->seed_n = (size_t)ist_jv_num(ist_jv_get(ist_jv_get(meta, "seeds"), "pairs"), 0);
     m->seed_ck = strtoull(ist_jv_str(ist_jv_get(ist_jv_get(meta, "seeds"), "checksum"), "0"),
                           NULL, 16);
+    return IST_OK;
 }
 
 static ist_status
@@ -378,7 +413,7 @@ parse_map(const unsigned char *p, size_t len, const char *path, ist_map *m, ist_
                           "map file holds %zu bytes more than its metadata describes",
                           (size_t)(end - means));
     if (rc == IST_OK)
-        read_rounds(m, meta);
+        rc = read_rounds(m, meta, path, err);
 done:
     ist_jv_free(meta);
     return rc;

@@ -8,6 +8,7 @@
 #include "alloc_int.h"
 #include "error_int.h"
 #include "hash_int.h"
+#include "ofile_int.h"
 #include "pairs_int.h"
 #include "reader_int.h"
 
@@ -628,4 +629,41 @@ ist_pairs_sources_hash(const ist_pairs *p)
     ist_free(k);
     ist_free(h);
     return r;
+}
+
+ist_status
+ist_pairs_find_word(const ist_store *s, const char *word, ptrdiff_t *row, ist_error *err)
+{
+    ist_pairs_norm *nz = NULL;
+    bool exact;
+    const char *w = word;
+    size_t len = strlen(word);
+    ist_status rc = ist_pairs_norm_open(s, &nz, &exact, err);
+
+    *row = -1;
+    if (rc == IST_OK && !exact)
+        rc = ist_pairs_norm_word(nz, word, len, &w, &len, err);
+    if (rc == IST_OK)
+        *row = ist_store_find(s, w);
+    ist_pairs_norm_close(nz);
+    return rc;
+}
+
+ist_status
+ist_pairs_save(const ist_pairs *p, const char *path, ist_error *err)
+{
+    ist_ofile *f;
+    ist_status rc = ist_ofile_open(path, false, &f, err);
+
+    if (rc != IST_OK)
+        return rc;
+    for (size_t i = 0; rc == IST_OK && i < p->n; i++)
+        if (is_kept(p, i))
+            rc = ist_ofile_printf(f, err, "%s\t%s\n", ist_pairs_source(p, i),
+                                  ist_pairs_target(p, i));
+    if (rc != IST_OK) {
+        ist_ofile_abort(f);
+        return rc;
+    }
+    return ist_ofile_commit(f, err);
 }

@@ -6,5 +6,8 @@
 
 extern const cli_command cmd_inspect;
 extern const cli_command cmd_convert;
+extern const cli_command cmd_align;
+extern const cli_command cmd_score;
+extern const cli_command cmd_lookup;
 
 #endif

@@ -81,6 +81,14 @@ IST_API uint64_t ist_map_source_fingerprint(const ist_map *map);
 IST_API uint64_t ist_map_target_fingerprint(const ist_map *map);
 IST_API uint64_t ist_map_seed_checksum(const ist_map *map);
 IST_API size_t ist_map_seed_pairs(const ist_map *map);
+/** The seed pairs the map was fitted on (words, not resolved), for leakage
+ *  checks with ist_pairs_overlap(). Borrowed; valid until ist_map_free(). */
+IST_API const ist_pairs *ist_map_seeds(const ist_map *map);
+/** The map's metadata as a JSON object text (fingerprints, normalisation,
+ *  seed fit, refinement rounds; not the matrix or the seed words).
+ *  Success: *json is the caller's; release with ist_map_free_text(). */
+IST_API ist_status ist_map_describe(const ist_map *map, char **json, ist_error *err);
+IST_API void ist_map_free_text(char *text);        /* NULL: no-op */
 /** Fit of the Procrustes map on the seeds (before refinement). */
 IST_API ist_procrustes_info ist_map_seed_fit(const ist_map *map);
 /** Refinement history: rounds run (kept or not) and round i. */

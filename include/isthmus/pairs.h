@@ -66,6 +66,10 @@ IST_API ist_status ist_pairs_resolve(ist_pairs *p, const ist_store *src, const i
  *  (or the list is not resolved). */
 IST_API ptrdiff_t ist_pairs_source_row(const ist_pairs *p, size_t i);
 IST_API ptrdiff_t ist_pairs_target_row(const ist_pairs *p, size_t i);
+/** Write the kept pairs (all when not resolved) as a pair file, one
+ *  "source<TAB>target" line each, atomically. */
+IST_API ist_status ist_pairs_save(const ist_pairs *p, const char *path, ist_error *err);
+
 /** Number of kept pairs (all pairs when not resolved). */
 IST_API size_t ist_pairs_kept(const ist_pairs *p);
 
@@ -89,6 +93,12 @@ IST_API size_t ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, const c
  *  upper-case letter. The list comes resolved. */
 IST_API ist_status ist_pairs_identical(const ist_store *src, const ist_store *tgt,
                                        uint64_t min_count, bool marked_only, ist_pairs **out,
+                                       ist_error *err);
+
+/** Row of one word in a vector file after normalising it as that file's
+ *  vocabulary was (exact match when the file carries no text options); -1
+ *  when absent. */
+IST_API ist_status ist_pairs_find_word(const ist_store *s, const char *word, ptrdiff_t *row,
                                        ist_error *err);
 
 /** Order-independent checksum of the kept (source, target) pairs. */
