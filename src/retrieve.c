@@ -85,33 +85,61 @@ heap_replace(entry *h, size_t k, entry e)
     h[i] = e;
 }
 
+/* Largest of 16 floats; written so the compiler can keep it in vector registers. */
+static inline float
+max16(const float *x)
+{
+    float m[8];
+    for (int i = 0; i < 8; i++)
+        m[i] = x[i] > x[i + 8] ? x[i] : x[i + 8];
+    for (int i = 0; i < 4; i++)
+        m[i] = m[i] > m[i + 4] ? m[i] : m[i + 4];
+    m[0] = m[0] > m[2] ? m[0] : m[2];
+    m[1] = m[1] > m[3] ? m[1] : m[3];
+    return m[0] > m[1] ? m[0] : m[1];
+}
+
+static inline void
+offer(entry *h, size_t k, float s, size_t j)
+{
+    if (s >= h[0].s) {
+        entry e = {s, (uint32_t)j};
+        if (worse(h[0], e))
+            heap_replace(h, k, e);
+    }
+}
+
+/* Plain scores: most blocks of 16 fall below the heap's worst and are skipped
+ * after one vector maximum. */
 static void
-scan_tile(const job *jb, entry *heaps, const float *tile, size_t q0, size_t nq, size_t t0,
-          size_t nt)
+scan_plain(entry *h, size_t k, const float *row, size_t t0, size_t nt)
+{
+    size_t j = 0;
+    for (; j + 16 <= nt; j += 16) {
+        if (max16(row + j) < h[0].s)
+            continue;
+        for (size_t a = 0; a < 16; a++)
+            offer(h, k, row[j + a], t0 + j + a);
+    }
+    for (; j < nt; j++)
+        offer(h, k, row[j], t0 + j);
+}
+
+static void
+scan_tile(const job *jb, entry *heaps, float *tile, size_t q0, size_t nq, size_t t0, size_t nt)
 {
     size_t k = jb->k;
     for (size_t i = 0; i < nq; i++) {
         entry *h = heaps + (q0 + i) * k;
-        const float *row = tile + i * nt;
+        float *row = tile + i * nt;
         float qs = jb->qsub ? jb->qsub[q0 + i] : 0.0f;
-        if (!jb->tsub && jb->scale == 1.0f && qs == 0.0f) {
-            for (size_t j = 0; j < nt; j++) {
-                if (row[j] >= h[0].s) {
-                    entry e = {row[j], (uint32_t)(t0 + j)};
-                    if (worse(h[0], e))
-                        heap_replace(h, k, e);
-                }
-            }
-            continue;
+        if (jb->tsub || jb->scale != 1.0f || qs != 0.0f) {
+            /* scale * dot - qsub - tsub, in place, then as plain scores */
+            const float *ts = jb->tsub ? jb->tsub + t0 : NULL;
+            for (size_t j = 0; j < nt; j++)
+                row[j] = jb->scale * row[j] - qs - (ts ? ts[j] : 0.0f);
         }
-        for (size_t j = 0; j < nt; j++) {
-            float s = jb->scale * row[j] - qs - (jb->tsub ? jb->tsub[t0 + j] : 0.0f);
-            if (s >= h[0].s) {
-                entry e = {s, (uint32_t)(t0 + j)};
-                if (worse(h[0], e))
-                    heap_replace(h, k, e);
-            }
-        }
+        scan_plain(h, k, row, t0, nt);
     }
 }
 
@@ -140,7 +168,7 @@ work(void *arg)
         cblas_sgemm(CblasRowMajor, CblasNoTrans, CblasTrans, (int)nq, (int)nt, (int)d, 1.0f,
                     jb->q.data + q0 * jb->q.stride, (int)jb->q.stride,
                     jb->t.data + t0 * jb->t.stride, (int)jb->t.stride, 0.0f, w->tile, (int)nt);
-        scan_tile(jb, w->heaps, w->tile, q0, nq, t0, nt);
+            scan_tile(jb, w->heaps, w->tile, q0, nq, t0, nt);
     }
     return NULL;
 }
