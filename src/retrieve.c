@@ -168,7 +168,7 @@ work(void *arg)
         cblas_sgemm(CblasRowMajor, CblasNoTrans, CblasTrans, (int)nq, (int)nt, (int)d, 1.0f,
                     jb->q.data + q0 * jb->q.stride, (int)jb->q.stride,
                     jb->t.data + t0 * jb->t.stride, (int)jb->t.stride, 0.0f, w->tile, (int)nt);
-            scan_tile(jb, w->heaps, w->tile, q0, nq, t0, nt);
+        scan_tile(jb, w->heaps, w->tile, q0, nq, t0, nt);
     }
     return NULL;
 }
