@@ -1,0 +1,2 @@
+#include "harness.h"
+int main(void){return 77;}
