@@ -257,8 +257,13 @@ read_file(build *b, const char *path, ist_error *err)
                                b->bytes_total);
         }
     }
-    bool gz = ist_reader_is_gzip(r);
+    ist_corpus_source src = {path, 0, ist_reader_bytes(r), crc, ist_reader_is_gzip(r),
+                             b->c->st.lines - lines0, ist_normalizer_replaced(b->nz) - repl0};
     ist_reader_close(r);
+    if (rc != IST_OK)
+        return rc;
+    src.bytes = bytes;
+    rc = ist_corpus_add_source(b->c, &src, err);
     if (rc != IST_OK)
         return rc;
     b->bytes_before += bytes;
@@ -269,9 +274,10 @@ read_file(build *b, const char *path, ist_error *err)
     ist_jw_str(&b->sources, "path", path);
     ist_jw_uint(&b->sources, "bytes", bytes);
     ist_jw_str(&b->sources, "crc32", hex);
-    ist_jw_bool(&b->sources, "gzip", gz);
-    ist_jw_uint(&b->sources, "lines", b->c->st.lines - lines0);
-    ist_jw_uint(&b->sources, "replaced_utf8", ist_normalizer_replaced(b->nz) - repl0);
+    ist_jw_uint(&b->sources, "text_bytes", src.text_bytes);
+    ist_jw_bool(&b->sources, "gzip", src.gzip);
+    ist_jw_uint(&b->sources, "lines", src.lines);
+    ist_jw_uint(&b->sources, "replaced_utf8", src.replaced_utf8);
     ist_jw_obj_end(&b->sources);
     return IST_OK;
 }
@@ -391,11 +397,49 @@ done:
     return IST_OK;
 }
 
+ist_status
+ist_corpus_add_source(ist_corpus *c, const ist_corpus_source *s, ist_error *err)
+{
+    if (c->n_src == c->src_cap) {
+        size_t nc = c->src_cap ? 2 * c->src_cap : 4;
+        ist_corpus_source *ns = ist_realloc(c->src, nc * sizeof *ns);
+        if (!ns)
+            return ist_error_nomem(err);
+        c->src = ns;
+        c->src_cap = nc;
+    }
+    c->src[c->n_src] = *s;
+    c->src[c->n_src].path = ist_strdup(s->path ? s->path : "");
+    if (!c->src[c->n_src].path)
+        return ist_error_nomem(err);
+    c->n_src++;
+    return IST_OK;
+}
+
+size_t
+ist_corpus_n_sources(const ist_corpus *c)
+{
+    return c->n_src;
+}
+
+ist_status
+ist_corpus_source_get(const ist_corpus *c, size_t i, ist_corpus_source *out, ist_error *err)
+{
+    if (i >= c->n_src)
+        return ist_error_set(err, IST_ERR_INVALID, "source %zu out of range, expected below %zu",
+                             i, c->n_src);
+    *out = c->src[i];
+    return IST_OK;
+}
+
 void
 ist_corpus_free(ist_corpus *c)
 {
     if (!c)
         return;
+    for (size_t i = 0; i < c->n_src; i++)
+        ist_free((void *)c->src[i].path);
+    ist_free(c->src);
     ist_vocab_free(c->vocab);
     ist_free(c->ids);
     if (c->map)

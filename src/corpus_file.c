@@ -5,6 +5,7 @@
 
 #include <errno.h>
 #include <fcntl.h>
+#include <stdlib.h>
 #include <string.h>
 #include <sys/mman.h>
 #include <sys/stat.h>
@@ -312,6 +313,19 @@ load_meta(ist_corpus *c, const unsigned char *p, const header *h, const char *pa
         if (rc == IST_OK) {
             ist_free(c->sources_json);
             c->sources_json = json;
+        }
+        for (size_t i = 0; i < ist_jv_len(src) && rc == IST_OK; i++) {
+            const ist_jv *e = ist_jv_at(src, i);
+            ist_corpus_source s = {
+                ist_jv_str(ist_jv_get(e, "path"), ""),
+                (uint64_t)ist_jv_num(ist_jv_get(e, "bytes"), 0),
+                (uint64_t)ist_jv_num(ist_jv_get(e, "text_bytes"), 0),
+                (uint32_t)strtoul(ist_jv_str(ist_jv_get(e, "crc32"), "0"), NULL, 16),
+                ist_jv_bool(ist_jv_get(e, "gzip"), false),
+                (uint64_t)ist_jv_num(ist_jv_get(e, "lines"), 0),
+                (uint64_t)ist_jv_num(ist_jv_get(e, "replaced_utf8"), 0),
+            };
+            rc = ist_corpus_add_source(c, &s, err);
         }
     }
     ist_jv_free(root);

@@ -17,6 +17,8 @@ struct ist_corpus {
     uint64_t min_count;          /* pruning that made the vocabulary */
     size_t max_vocab;
     char *sources_json;          /* never NULL once built or opened */
+    ist_corpus_source *src;      /* paths owned (ist_strdup) */
+    size_t n_src, src_cap;
 };
 
 /* An empty corpus with a vocabulary and "[]" as sources. */
@@ -24,6 +26,9 @@ ist_status ist_corpus_alloc(ist_corpus **out, ist_error *err);
 
 /* Provenance of the preparation as JSON: {"text":..,"prune":..,"stats":..,"sources":..}.
  * Release with ist_free. */
+/* Append a source (path copied). */
+ist_status ist_corpus_add_source(ist_corpus *c, const ist_corpus_source *s, ist_error *err);
+
 /* Unmap a file mapped by ist_corpus_open. */
 void ist_corpus_unmap(void *map, size_t len);
 

@@ -210,14 +210,14 @@ unicode_pass(ist_normalizer *nz, const unsigned char *s, size_t n, size_t *n_cps
     return IST_OK;
 }
 
-/* Encode the code points (or copy the clean bytes) into nz->out, masking
+/* Append the code points to nz->out (at *out_len, which is advanced), masking
  * decimal digits (general category Nd) when asked. */
 static ist_status
 encode_out(ist_normalizer *nz, size_t n_cps, size_t *out_len, ist_error *err)
 {
-    size_t o = 0;
+    size_t o = *out_len;
 
-    if (!reserve((void **)&nz->out, &nz->out_cap, 4 * n_cps + 1, 1))
+    if (!reserve((void **)&nz->out, &nz->out_cap, o + 4 * n_cps + 1, 1))
         return ist_error_nomem(err);
     for (size_t i = 0; i < n_cps; i++) {
         uint32_t cp = (uint32_t)nz->cps[i];
@@ -232,12 +232,58 @@ encode_out(ist_normalizer *nz, size_t n_cps, size_t *out_len, ist_error *err)
     return IST_OK;
 }
 
+/* Normalise valid UTF-8 that holds non-ASCII bytes. ASCII characters are
+ * starters that nothing composes onto, so normalisation, case folding and
+ * mark stripping act independently on the pieces between them: each run of
+ * non-ASCII characters goes through utf8proc together with the one ASCII
+ * character before it (a base that a combining mark may compose with); the
+ * other ASCII characters take the ASCII pass. */
+static ist_status
+mixed_pass(ist_normalizer *nz, const unsigned char *s, size_t n, size_t *out_len,
+           ist_error *err)
+{
+    size_t i = 0, o = 0, n_cps = 0;
+    ist_status rc;
+
+    if (!reserve((void **)&nz->out, &nz->out_cap, n + 1, 1))
+        return ist_error_nomem(err);
+    while (i < n) {
+        size_t j = i;
+        while (j < n && s[j] < 0x80)
+            j++;
+        if (j == n) {
+            if (!reserve((void **)&nz->out, &nz->out_cap, o + (n - i) + 1, 1))
+                return ist_error_nomem(err);
+            ascii_pass(&nz->o, s + i, n - i, nz->out + o);
+            o += n - i;
+            break;
+        }
+        size_t base = j > i ? j - 1 : j, k = j;
+        while (k < n && s[k] >= 0x80)
+            k++;
+        if (!reserve((void **)&nz->out, &nz->out_cap, o + (base - i) + 1, 1))
+            return ist_error_nomem(err);
+        ascii_pass(&nz->o, s + i, base - i, nz->out + o);
+        o += base - i;
+        rc = unicode_pass(nz, s + base, k - base, &n_cps, err);
+        if (rc != IST_OK)
+            return rc;
+        rc = encode_out(nz, n_cps, &o, err);
+        if (rc != IST_OK)
+            return rc;
+        i = k;
+    }
+    nz->out[o] = '\0';
+    *out_len = o;
+    return IST_OK;
+}
+
 ist_status
 ist_normalize(ist_normalizer *nz, const char *in, size_t len, const char **out, size_t *out_len,
               ist_error *err)
 {
     const unsigned char *s = (const unsigned char *)in, *src = NULL;
-    size_t src_len = 0, n_cps = 0;
+    size_t src_len = 0;
     ist_status rc;
 
     *out = NULL;
@@ -262,10 +308,7 @@ ist_normalize(ist_normalizer *nz, const char *in, size_t len, const char **out, 
         *out_len = src_len;
     } else {
         /* with flags 0 (digit masking alone) utf8proc only decodes */
-        rc = unicode_pass(nz, src, src_len, &n_cps, err);
-        if (rc != IST_OK)
-            return rc;
-        rc = encode_out(nz, n_cps, out_len, err);
+        rc = mixed_pass(nz, src, src_len, out_len, err);
         if (rc != IST_OK)
             return rc;
     }

@@ -159,6 +159,17 @@ ist_segment_all(const char *text, size_t len, ist_segment_fn fn, void *ctx, ist_
     while (pos < len) {
         size_t adv;
         uint32_t cp;
+        /* Fast path: an ASCII letter or digit right after one never breaks (WB5,
+         * WB8, WB9, WB10; no earlier rule can apply between two of them). */
+        if (s[pos] < 0x80 && (st.raw == IST_WB_ALETTER || st.raw == IST_WB_NUMERIC)) {
+            unsigned a = ist_wb_prop(s[pos]);
+            if (a == IST_WB_ALETTER || a == IST_WB_NUMERIC) {
+                st.p0 = st.p1;
+                st.p1 = st.raw = a;
+                pos++;
+                continue;
+            }
+        }
         unsigned prop = prop_at(s + pos, len - pos, &adv, &cp);
         if (prop == NONE)
             return ist_error_at_offset(err, IST_ERR_INVALID, NULL, pos,

@@ -139,6 +139,17 @@ gzip_equals_plain_and_sources(void **state)
              crc32(0, (const unsigned char *)shop_text, sizeof shop_text - 1));
     assert_non_null(strstr(ist_corpus_sources_json(a), crc));
     assert_non_null(strstr(ist_corpus_sources_json(b), "\"gzip\":true"));
+    ist_corpus_source sa, sb;
+    assert_int_equal(ist_corpus_n_sources(b), 1);
+    assert_int_equal(ist_corpus_source_get(a, 0, &sa, NULL), IST_OK);
+    assert_int_equal(ist_corpus_source_get(b, 0, &sb, NULL), IST_OK);
+    assert_int_equal(ist_corpus_source_get(b, 1, &sb, NULL), IST_ERR_INVALID);
+    assert_false(sa.gzip);
+    assert_true(sb.gzip);
+    assert_int_equal(sa.bytes, sizeof shop_text - 1);
+    assert_int_equal(sb.text_bytes, sizeof shop_text - 1);
+    assert_int_equal(sa.crc32, crc32(0, (const unsigned char *)shop_text, sizeof shop_text - 1));
+    assert_int_equal(sb.lines, 6);
     ist_corpus_free(a);
     ist_corpus_free(b);
 
@@ -262,6 +273,13 @@ save_open_round_trip(void **state)
     assert_memory_equal(&s1, &s2, sizeof s1);
     assert_memory_equal(ist_corpus_text_opts(c), ist_corpus_text_opts(d), sizeof(ist_text_opts));
     assert_string_equal(ist_corpus_sources_json(c), ist_corpus_sources_json(d));
+    ist_corpus_source sc, sd;
+    assert_int_equal(ist_corpus_n_sources(d), 1);
+    assert_int_equal(ist_corpus_source_get(c, 0, &sc, NULL), IST_OK);
+    assert_int_equal(ist_corpus_source_get(d, 0, &sd, NULL), IST_OK);
+    assert_string_equal(sc.path, sd.path);
+    assert_int_equal(sc.crc32, sd.crc32);
+    assert_int_equal(sc.text_bytes, sd.text_bytes);
     ist_corpus_free(d);
     ist_corpus_free(c);
     free(p);

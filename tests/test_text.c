@@ -10,6 +10,8 @@
 
 #include <isthmus/text.h>
 
+#include <utf8proc.h>
+
 #include "text_int.h"
 
 static const char *
@@ -151,6 +153,58 @@ strict_utf8_reports_offset(void **state)
     assert_int_equal(ist_normalizer_replaced(nz), 0);
     ist_normalizer_free(nz);
     ist_normalizer_free(NULL);
+}
+
+/* The piecewise fast path must equal utf8proc run over the whole string (utf8proc's
+ * own utf8proc_map is the reference) on random mixes of ASCII, combining marks,
+ * compatibility characters, case pairs and Hangul jamo. */
+static void
+piecewise_equals_whole_string(void **state)
+{
+    static const char *const alphabet[] = {
+        "a", "e", "E", "i", "I", " ", "1", "-", "\xcc\x81", "\xcc\x88", "\xcc\xa3", "\xc3\xa9",
+        "\xc3\x89", "\xc3\x9f", "\xef\xac\x81", "\xef\xbc\xab", "\xc4\xb0", "\xed\x95\x9c",
+        "\xe1\x84\x80", "\xe1\x85\xa1", "\xe1\x86\xa8", "\xd9\xa3", "\xe2\x84\xab", "\xe2\x91\xa0",
+    };
+    const size_t n_alpha = sizeof alphabet / sizeof alphabet[0];
+    const utf8proc_option_t flag_sets[4] = {
+        UTF8PROC_STABLE | UTF8PROC_COMPOSE | UTF8PROC_COMPAT | UTF8PROC_CASEFOLD,
+        UTF8PROC_STABLE | UTF8PROC_COMPOSE | UTF8PROC_COMPAT,
+        UTF8PROC_STABLE | UTF8PROC_COMPOSE | UTF8PROC_COMPAT | UTF8PROC_CASEFOLD
+            | UTF8PROC_STRIPMARK,
+        UTF8PROC_CASEFOLD,
+    };
+    uint64_t seed = 12345;
+    char text[256];
+
+    (void)state;
+    for (int f = 0; f < 4; f++) {
+        ist_text_opts o;
+        ist_normalizer *nz;
+        ist_text_opts_init(&o);
+        o.casefold = (flag_sets[f] & UTF8PROC_CASEFOLD) != 0;
+        o.nfkc = (flag_sets[f] & UTF8PROC_COMPAT) != 0;
+        o.strip_marks = (flag_sets[f] & UTF8PROC_STRIPMARK) != 0;
+        assert_int_equal(ist_normalizer_new(&o, &nz, NULL), IST_OK);
+        for (int t = 0; t < 3000; t++) {
+            size_t len = 0, k = 1 + harness_rand(&seed) % 12;
+            for (size_t i = 0; i < k; i++) {
+                const char *piece = alphabet[harness_rand(&seed) % n_alpha];
+                memcpy(text + len, piece, strlen(piece));
+                len += strlen(piece);
+            }
+            text[len] = '\0';
+            utf8proc_uint8_t *want = NULL;
+            assert_true(utf8proc_map((const utf8proc_uint8_t *)text, (utf8proc_ssize_t)len,
+                                     &want, flag_sets[f]) >= 0);
+            const char *got;
+            size_t got_len;
+            assert_int_equal(ist_normalize(nz, text, len, &got, &got_len, NULL), IST_OK);
+            assert_string_equal(got, (const char *)want);
+            free(want);
+        }
+        ist_normalizer_free(nz);
+    }
 }
 
 typedef struct words {
@@ -441,6 +495,7 @@ main(void)
         cmocka_unit_test(strip_marks_and_mask_digits),
         cmocka_unit_test(invalid_utf8_replaced_and_counted),
         cmocka_unit_test(strict_utf8_reports_offset),
+        cmocka_unit_test(piecewise_equals_whole_string),
         cmocka_unit_test(segment_words_keeps_words),
         cmocka_unit_test(segment_words_stops_and_rejects),
         cmocka_unit_test(opts_json_round_trip),

@@ -74,8 +74,27 @@ IST_API void ist_corpus_stats_get(const ist_corpus *c, ist_corpus_stats *st);
 
 /** Per-input-file facts for provenance, a JSON array
  *  [{"path":..,"bytes":..,"crc32":"hex","lines":..,"replaced_utf8":..}]
+ *  (also "text_bytes" and "gzip", as in ist_corpus_source)
  *  (bytes and crc32 of the file as stored on disk). Borrowed; never NULL. */
 IST_API const char *ist_corpus_sources_json(const ist_corpus *c);
+
+/* Facts about one input file (see ist_corpus_source_get). */
+typedef struct ist_corpus_source {
+    const char *path;             /* as given to ist_corpus_build; borrowed */
+    uint64_t bytes;               /* size on disk */
+    uint64_t text_bytes;          /* bytes of text after gzip decompression */
+    uint32_t crc32;               /* CRC-32 (ISO 3309, as zlib) of the file on disk */
+    bool gzip;
+    uint64_t lines;
+    uint64_t replaced_utf8;       /* invalid sequences replaced by U+FFFD */
+} ist_corpus_source;
+
+/** Number of input files the corpus was prepared from. */
+IST_API size_t ist_corpus_n_sources(const ist_corpus *c);
+/** Facts about input file i (0-based) into *out; IST_ERR_INVALID when i is out of
+ *  range. out->path is borrowed until ist_corpus_free(). */
+IST_API ist_status ist_corpus_source_get(const ist_corpus *c, size_t i, ist_corpus_source *out,
+                                         ist_error *err);
 
 /** Save the prepared corpus (layout in docs/formats.md, "Prepared corpus",
  *  checksummed). Atomic: on failure path is untouched. */
