@@ -19,7 +19,7 @@ void
 ist_store_opts_init(ist_store_opts *opts)
 {
     memset(opts, 0, sizeof *opts);
-    opts->verify = true;
+    opts->verify = false;
     opts->max_dim = IST_STORE_MAX_DIM_DEFAULT;
     opts->max_line = IST_STORE_MAX_LINE_DEFAULT;
 }

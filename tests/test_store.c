@@ -88,7 +88,13 @@ round_trips_are_bit_exact(void **state)
     assert_false(ist_store_source_header(t));
     assert_same(s, t, false);
 
+    ist_store_opts vo;
+    ist_store_opts_init(&vo);
+    vo.verify = true;
     assert_int_equal(ist_store_open(nat, NULL, &n, NULL), IST_OK);
+    assert_int_equal(ist_store_checked(n), IST_STORE_CHECK_META);
+    ist_store_free(n);
+    assert_int_equal(ist_store_open(nat, &vo, &n, NULL), IST_OK);
     assert_int_equal(ist_store_source_format(n), IST_STORE_NATIVE);
     assert_int_equal(ist_store_checked(n), IST_STORE_CHECK_FULL);
     assert_same(s, n, true);
@@ -252,7 +258,10 @@ native_files_refuse_damage(void **state)
     expect_bad("version.isv", c, n, NULL, "version 9, this build reads version 1");
     memcpy(c, b, n);
     c[128 + 4 * 3] ^= 0x40;             /* a matrix byte */
-    expect_bad("crc.isv", c, n, NULL, "matrix checksum mismatch");
+    ist_store_opts vo;
+    ist_store_opts_init(&vo);
+    vo.verify = true;
+    expect_bad("crc.isv", c, n, &vo, "matrix checksum mismatch");
     memcpy(c, b, n);
     c[n - 3] ^= 1;                      /* a provenance/word byte */
     expect_bad("meta.isv", c, n, NULL, "checksum mismatch in header, words or provenance");
