@@ -18,6 +18,7 @@
 #include "hash_int.h"
 #include "json_int.h"
 #include "reader_int.h"
+#include "wordtab_int.h"
 
 #define POLL_LINES 1024
 
@@ -106,6 +107,7 @@ typedef struct build {
     ist_corpus *c;
     ist_normalizer *nz;
     hashset seen;
+    ist_wordtab words;
     ist_jw sources;
     uint64_t bytes_total, bytes_before;   /* on disk, for progress */
     ist_status cb_rc;                     /* failure inside the word callback */
@@ -135,7 +137,7 @@ on_word(void *ctx, const char *word, size_t len)
     build *b = ctx;
     uint32_t id;
 
-    b->cb_rc = ist_vocab_add(b->c->vocab, word, len, 1, &id, b->err);
+    b->cb_rc = ist_wordtab_add(&b->words, word, len, &id, b->err);
     if (b->cb_rc == IST_OK)
         b->cb_rc = push_id(b->c, id, b->err);
     if (b->cb_rc != IST_OK)
@@ -282,6 +284,23 @@ read_file(build *b, const char *path, ist_error *err)
     return IST_OK;
 }
 
+/* Hand the counted words to the vocabulary in id order, so ids stay the same. */
+static ist_status
+to_vocab(const ist_wordtab *t, ist_vocab *v, ist_error *err)
+{
+    for (size_t i = 0; i < t->n; i++) {
+        const char *w = ist_wordtab_word(t, (uint32_t)i);
+        size_t len = (i + 1 < t->n ? t->off[i + 1] : t->pool_used) - t->off[i] - 1;
+        uint32_t id;
+        ist_status rc = ist_vocab_add(v, w, len, t->count[i], &id, err);
+        if (rc != IST_OK)
+            return rc;
+        if (id != i)
+            return ist_error_set(err, IST_ERR_INTERNAL, "vocabulary id %u for word %zu", id, i);
+    }
+    return IST_OK;
+}
+
 /* Sort and prune the vocabulary, renumber the stream and drop pruned words. */
 static ist_status
 prune(ist_corpus *c, uint64_t min_count, size_t max_vocab, ist_error *err)
@@ -357,6 +376,8 @@ ist_corpus_build(const char *const *paths, size_t n_paths, const ist_corpus_opts
     rc = ist_corpus_alloc(&b.c, err);
     if (rc == IST_OK)
         rc = ist_normalizer_new(&o->text, &b.nz, err);
+    if (rc == IST_OK)
+        rc = ist_wordtab_init(&b.words, err);
     if (rc != IST_OK)
         goto done;
     b.c->text = o->text;
@@ -384,10 +405,13 @@ ist_corpus_build(const char *const *paths, size_t n_paths, const ist_corpus_opts
     if (rc != IST_OK)
         goto done;
     b.c->st.replaced_utf8 = ist_normalizer_replaced(b.nz);
-    rc = prune(b.c, o->min_count, o->max_vocab, err);
+    rc = to_vocab(&b.words, b.c->vocab, err);
+    if (rc == IST_OK)
+        rc = prune(b.c, o->min_count, o->max_vocab, err);
 done:
     ist_jw_discard(&b.sources);
     ist_free(b.seen.slot);
+    ist_wordtab_free(&b.words);
     ist_normalizer_free(b.nz);
     if (rc != IST_OK) {
         ist_corpus_free(b.c);

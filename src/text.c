@@ -119,17 +119,20 @@ is_ascii(const unsigned char *s, size_t n)
 static void
 ascii_pass(const ist_text_opts *o, const unsigned char *in, size_t n, unsigned char *out)
 {
-    if (!o->casefold && !o->mask_digits) {
+    /* branch-free so that the compiler can vectorise the loop */
+    const unsigned fold = o->casefold ? 0x20u : 0u, mask = o->mask_digits ? 0xffu : 0u;
+
+    if (!fold && !mask) {
         memcpy(out, in, n);
         return;
     }
     for (size_t i = 0; i < n; i++) {
-        unsigned char c = in[i];
-        if (o->casefold && c >= 'A' && c <= 'Z')
-            c |= 0x20;
-        else if (o->mask_digits && c >= '1' && c <= '9')
-            c = '0';
-        out[i] = c;
+        unsigned c = in[i];
+        unsigned upper = (unsigned char)(c - 'A') < 26u;
+        unsigned digit = (unsigned char)(c - '0') < 10u;
+        c |= upper * fold;
+        c -= (digit * mask) & (c - '0');
+        out[i] = (unsigned char)c;
     }
 }
 
