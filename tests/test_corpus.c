@@ -6,6 +6,7 @@
 
 #include <zlib.h>
 
+#include <isthmus/cancel.h>
 #include <isthmus/corpus.h>
 
 static const char shop_text[] =
@@ -347,6 +348,58 @@ damaged_file_rejected(void **state)
     harness_rmdir(dir);
 }
 
+typedef struct prog {
+    int calls;
+    uint64_t last, total;
+    bool monotone;
+} prog;
+
+static void
+on_progress(void *ctx, uint64_t done, uint64_t total)
+{
+    prog *p = ctx;
+    p->monotone = p->monotone && done >= p->last && done <= total;
+    p->last = done;
+    p->total = total;
+    p->calls++;
+}
+
+static void
+progress_and_cancel(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "many.txt");
+    size_t n = 5000 * (sizeof "blue mug number 12345\n" - 1);
+    char *text = malloc(n + 1), *q = text;
+    ist_corpus_opts o;
+    ist_corpus *c = NULL;
+    ist_error err;
+    prog pr = {0, 0, 0, true};
+
+    (void)state;
+    for (int i = 0; i < 5000; i++)
+        q += sprintf(q, "blue mug number %05d\n", i);
+    harness_write(p, text, n);
+    ist_corpus_opts_init(&o);
+    o.progress = on_progress;
+    o.progress_ctx = &pr;
+    const char *paths[] = {p};
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_OK);
+    assert_true(pr.calls >= 4);         /* every 1024 lines and at the end of the file */
+    assert_true(pr.monotone);
+    assert_int_equal(pr.last, n);
+    assert_int_equal(pr.total, n);
+    ist_corpus_free(c);
+    c = NULL;
+
+    ist_cancel_request();
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_ERR_CANCELLED);
+    ist_cancel_reset();
+    assert_null(c);
+    free(text);
+    free(p);
+    harness_rmdir(dir);
+}
+
 int
 main(void)
 {
@@ -358,6 +411,7 @@ main(void)
         cmocka_unit_test(long_line_and_missing_file),
         cmocka_unit_test(save_open_round_trip),
         cmocka_unit_test(damaged_file_rejected),
+        cmocka_unit_test(progress_and_cancel),
     };
     HARNESS_RUN("corpus", tests);
 }
