@@ -371,8 +371,12 @@ ist_text_opts_from_provenance(const char *provenance_json, ist_text_opts *o, ist
     if (!provenance_json)
         return ist_error_set(err, IST_ERR_FORMAT, "no provenance, expected text options in it");
     rc = ist_json_parse(provenance_json, strlen(provenance_json), NULL, &root, err);
+    if (rc == IST_ERR_NOMEM)
+        return rc;
     if (rc != IST_OK) {
         ist_error_prefix(err, "provenance");
+        if (err)
+            err->code = IST_ERR_FORMAT;
         return IST_ERR_FORMAT;
     }
     t = find_opts(root);

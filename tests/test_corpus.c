@@ -8,6 +8,7 @@
 
 #include <isthmus/cancel.h>
 #include <isthmus/corpus.h>
+#include <isthmus/testing.h>
 
 static const char shop_text[] =
     "The blue MUG is on sale.\n"
@@ -400,6 +401,54 @@ progress_and_cancel(void **state)
     harness_rmdir(dir);
 }
 
+/* Every allocation failure on the way is reported as IST_ERR_NOMEM and leaves
+ * nothing behind (ASan in the sanitizer build checks the "nothing"). */
+static void
+allocation_failures_are_clean(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    char *q = harness_path(dir, "shop.prep");
+    ist_corpus_opts o;
+    int failures = 0;
+
+    (void)state;
+    if (!ist_testing_fault_injection_enabled()) {
+        free(p);
+        free(q);
+        harness_rmdir(dir);
+        skip();
+    }
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 1;
+    o.dedup_lines = true;
+    const char *paths[] = {p};
+    for (long n = 0;; n++) {
+        ist_corpus *c = NULL, *d = NULL;
+        ist_error err;
+        ist_testing_fail_alloc_after(n);
+        ist_status rc = ist_corpus_build(paths, 1, &o, &c, &err);
+        if (rc == IST_OK)
+            rc = ist_corpus_save(c, q, &err);
+        if (rc == IST_OK)
+            rc = ist_corpus_open(q, &d, &err);
+        ist_testing_fail_alloc_after(-1);
+        ist_corpus_free(c);
+        ist_corpus_free(d);
+        if (rc == IST_OK)
+            break;
+        assert_int_equal(rc, IST_ERR_NOMEM);
+        assert_null(d);
+        failures++;
+        unlink(q);
+        assert_int_equal(harness_count_entries(dir), 1);   /* no temporary left */
+    }
+    assert_true(failures > 10);
+    free(p);
+    free(q);
+    harness_rmdir(dir);
+}
+
 int
 main(void)
 {
@@ -412,6 +461,7 @@ main(void)
         cmocka_unit_test(save_open_round_trip),
         cmocka_unit_test(damaged_file_rejected),
         cmocka_unit_test(progress_and_cancel),
+        cmocka_unit_test(allocation_failures_are_clean),
     };
     HARNESS_RUN("corpus", tests);
 }
