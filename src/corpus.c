@@ -193,8 +193,8 @@ take_line(build *b, ist_reader *r, const char *line, size_t len, ist_error *err)
             char msg[IST_ERROR_MSG_CAP];
             snprintf(msg, sizeof msg, "%s", err->msg);
             ist_error_at(err, IST_ERR_FORMAT, ist_reader_path(r), ist_reader_lineno(r),
-                         "%s (byte %llu of the line, byte %llu of the text)", msg,
-                         (unsigned long long)col + 1,
+                         "%s (byte offset %llu in the line, %llu in the text)", msg,
+                         (unsigned long long)col,
                          (unsigned long long)(ist_reader_offset(r) + col));
             err->offset = ist_reader_offset(r) + col;
             err->has_offset = 1;
