@@ -207,6 +207,69 @@ piecewise_equals_whole_string(void **state)
     }
 }
 
+typedef struct cover {
+    size_t next;
+    bool contiguous;
+} cover;
+
+static int
+check_cover(void *ctx, size_t start, size_t len, bool wordlike)
+{
+    cover *c = ctx;
+    (void)wordlike;
+    c->contiguous = c->contiguous && start == c->next && len > 0;
+    c->next = start + len;
+    return 0;
+}
+
+/* Random bytes (mostly ill-formed) and random well-formed text: normalising
+ * never fails by default, gives well-formed UTF-8, and the segments of the
+ * result tile it exactly. */
+static void
+random_input_properties(void **state)
+{
+    uint64_t seed = 777;
+    unsigned char in[200];
+    ist_text_opts o;
+    ist_normalizer *nz;
+
+    (void)state;
+    ist_text_opts_init(&o);
+    o.mask_digits = true;
+    assert_int_equal(ist_normalizer_new(&o, &nz, NULL), IST_OK);
+    for (int t = 0; t < 20000; t++) {
+        size_t len = harness_rand(&seed) % sizeof in;
+        for (size_t i = 0; i < len; i++) {
+            uint64_t r = harness_rand(&seed);
+            if (t % 2) {
+                in[i] = (unsigned char)r;                  /* any byte */
+            } else if (i + 4 <= len && r % 3 == 0) {      /* any scalar value, encoded */
+                uint32_t cp = (uint32_t)((r >> 8) % 0x110000);
+                if (cp >= 0xd800 && cp <= 0xdfff)
+                    cp = 'x';
+                i += ist_utf8_encode(cp, in + i) - 1;
+            } else {
+                in[i] = (unsigned char)(' ' + r % 95);
+            }
+        }
+        const char *out;
+        size_t out_len, pos = 0;
+        uint32_t cp;
+        assert_int_equal(ist_normalize(nz, (const char *)in, len, &out, &out_len, NULL), IST_OK);
+        while (pos < out_len) {
+            size_t k = ist_utf8_decode((const unsigned char *)out + pos, out_len - pos, &cp);
+            assert_true(k > 0);
+            pos += k;
+        }
+        cover c = {0, true};
+        assert_int_equal(ist_segment_all(out, out_len, check_cover, &c, NULL), IST_OK);
+        assert_true(c.contiguous);
+        assert_int_equal(c.next, out_len);
+    }
+    assert_true(ist_normalizer_replaced(nz) > 10000);
+    ist_normalizer_free(nz);
+}
+
 typedef struct words {
     char buf[1024];
     size_t len;
@@ -490,6 +553,7 @@ main(void)
         cmocka_unit_test(invalid_utf8_replaced_and_counted),
         cmocka_unit_test(strict_utf8_reports_offset),
         cmocka_unit_test(piecewise_equals_whole_string),
+        cmocka_unit_test(random_input_properties),
         cmocka_unit_test(segment_words_keeps_words),
         cmocka_unit_test(segment_words_stops_and_rejects),
         cmocka_unit_test(opts_json_round_trip),
