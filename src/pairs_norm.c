@@ -5,39 +5,60 @@
 
 #include <utf8proc.h>
 
+#include <isthmus/text.h>
+
 #include "alloc_int.h"
 #include "error_int.h"
 
 struct ist_pairs_norm {
-    int unused;
+    ist_normalizer *nz;
 };
 
 ist_status
 ist_pairs_norm_open(const ist_store *s, ist_pairs_norm **out, bool *exact, ist_error *err)
 {
-    (void)s;
-    (void)err;
-    /* no text options can be read yet: words are matched as they are */
+    ist_text_opts o;
+    ist_pairs_norm *p;
+    ist_status rc;
+
     *out = NULL;
     *exact = true;
+    ist_text_opts_init(&o);
+    /* no text options in the provenance (e.g. a table from elsewhere): exact match */
+    if (ist_text_opts_from_provenance(ist_store_provenance(s), &o, NULL) != IST_OK)
+        return IST_OK;
+    p = ist_calloc(1, sizeof *p);
+    if (!p)
+        return ist_error_nomem(err);
+    rc = ist_normalizer_new(&o, &p->nz, err);
+    if (rc != IST_OK) {
+        ist_free(p);
+        return rc;
+    }
+    *exact = false;
+    *out = p;
     return IST_OK;
 }
 
 ist_status
-ist_pairs_norm_word(ist_pairs_norm *nz, const char *in, size_t len, const char **out,
+ist_pairs_norm_word(ist_pairs_norm *p, const char *in, size_t len, const char **out,
                     size_t *out_len, ist_error *err)
 {
-    (void)nz;
-    (void)err;
-    *out = in;
-    *out_len = len;
-    return IST_OK;
+    if (!p) {
+        *out = in;
+        *out_len = len;
+        return IST_OK;
+    }
+    return ist_normalize(p->nz, in, len, out, out_len, err);
 }
 
 void
-ist_pairs_norm_close(ist_pairs_norm *nz)
+ist_pairs_norm_close(ist_pairs_norm *p)
 {
-    ist_free(nz);
+    if (!p)
+        return;
+    ist_normalizer_free(p->nz);
+    ist_free(p);
 }
 
 bool

@@ -16,8 +16,10 @@
 #include "alloc_int.h"
 #include "error_int.h"
 
-#define TILE_QUERIES_MAX 1024
-#define TILE_TARGETS_MAX 4096
+/* 512 x 2048 floats = 4 MiB per thread: the tile a thread has just written is
+ * still in cache when its top-k scan reads it */
+#define TILE_QUERIES_MAX 512
+#define TILE_TARGETS_MAX 2048
 #define TILE_TARGETS_MIN 16
 #define THREADS_MAX 64
 

@@ -218,6 +218,45 @@ test_identical_seeds(void **state)
     ist_store_free(tgt);
 }
 
+static void
+test_normalised_like_vocabulary(void **state)
+{
+    (void)state;
+    static const char *const sw[] = {"casa", "niño", "ﬁn"};
+    static const char *const tw[] = {"house", "child", "end"};
+    ist_store *src = store_of(sw, NULL, 3), *tgt = store_of(tw, NULL, 3);
+    ist_pairs_coverage c;
+    ist_error err;
+    ptrdiff_t row;
+
+    /* the source side says how its vocabulary was normalised (NFKC + case folding,
+     * UAX #15); the target side says nothing and is matched exactly */
+    assert_int_equal(ist_store_set_provenance(src,
+                         "{\"kind\":\"test\",\"text\":{\"nfkc\":true,\"casefold\":true,"
+                         "\"strip_marks\":false,\"mask_digits\":false,\"strict_utf8\":false}}",
+                         &err),
+                     IST_OK);
+    ist_pairs *p = read_text("CASA house\n"
+                             "Nin\xcc\x83o child\n"     /* n + combining tilde: NFKC composes */
+                             "fin end\n"                  /* the vocabulary keeps U+FB01 */
+                             "casa HOUSE\n",              /* target side exact: missing */
+                             IST_OK, &err);
+    assert_int_equal(ist_pairs_resolve(p, src, tgt, &c, &err), IST_OK);
+    assert_false(c.source_exact);
+    assert_true(c.target_exact);
+    assert_string_equal(ist_pairs_source(p, 0), "casa");
+    assert_string_equal(ist_pairs_source(p, 1), "niño");
+    assert_int_equal(ist_pairs_source_row(p, 1), 1);
+    assert_int_equal(c.kept, 2);
+    assert_int_equal(c.missing_source, 1);   /* "fin" is not the ligature word */
+    assert_int_equal(c.missing_target, 1);   /* HOUSE */
+    assert_int_equal(ist_pairs_find_word(src, "NIÑO", &row, &err), IST_OK);
+    assert_int_equal(row, 1);
+    ist_pairs_free(p);
+    ist_store_free(src);
+    ist_store_free(tgt);
+}
+
 int
 main(void)
 {
@@ -227,6 +266,7 @@ main(void)
         cmocka_unit_test(test_split_deterministic),
         cmocka_unit_test(test_leakage_listed),
         cmocka_unit_test(test_identical_seeds),
+        cmocka_unit_test(test_normalised_like_vocabulary),
     };
     HARNESS_RUN("pairs", tests);
 }

@@ -9,5 +9,6 @@ extern const cli_command cmd_convert;
 extern const cli_command cmd_align;
 extern const cli_command cmd_score;
 extern const cli_command cmd_lookup;
+extern const cli_command cmd_prepare;
 
 #endif

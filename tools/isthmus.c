@@ -13,6 +13,7 @@ static const cli_command *const commands[] = {
     &cmd_align,
     &cmd_score,
     &cmd_lookup,
+    &cmd_prepare,
     NULL,
 };
 

@@ -12,6 +12,8 @@
 #include <isthmus/pairs.h>
 #include <isthmus/align.h>
 #include <isthmus/metrics.h>
+#include <isthmus/text.h>
+#include <isthmus/corpus.h>
 
 #ifdef __cplusplus
 extern "C" {
