@@ -149,7 +149,7 @@ copy_w(ist_matrix *dst, const ist_matrix *src)
 
 static ist_status
 refine(ist_map *m, const ist_matrix *xn, const ist_matrix *zn, const ist_align_opts *o,
-       ist_error *err)
+       const size_t *sa, const size_t *sb, size_t ns, ist_error *err)
 {
     size_t n = o->refine_vocab, np = 0;
     size_t *arow = NULL, *brow = NULL;
@@ -161,8 +161,11 @@ refine(ist_map *m, const ist_matrix *xn, const ist_matrix *zn, const ist_align_o
         n = xn->rows;
     if (n > zn->rows)
         n = zn->rows;
-    arow = ist_malloc((n + 1) * sizeof *arow);
-    brow = ist_malloc((n + 1) * sizeof *brow);
+    if (!o->refine_keep_seeds)
+        ns = 0;
+    /* induced pairs first, then (with refine_keep_seeds) the seed pairs */
+    arow = ist_malloc((n + ns + 1) * sizeof *arow);
+    brow = ist_malloc((n + ns + 1) * sizeof *brow);
     if (!arow || !brow) {
         rc = ist_error_nomem(err);
         goto done;
@@ -186,7 +189,9 @@ refine(ist_map *m, const ist_matrix *xn, const ist_matrix *zn, const ist_align_o
         } else if (r <= o->refine_rounds && np > 0) {
             ist_procrustes_info info;
             copy_w(prev, m->w);
-            rc = fit_rows(xn, zn, arow, brow, np, m->w, &info, err);
+            memcpy(arow + np, sa, ns * sizeof *arow);
+            memcpy(brow + np, sb, ns * sizeof *brow);
+            rc = fit_rows(xn, zn, arow, brow, np + ns, m->w, &info, err);
             if (rc != IST_OK)
                 goto done;
             rd.seed_cos = info.seed_cos;
@@ -289,7 +294,7 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     if (rc != IST_OK)
         goto fail;
     copy_w(m->w, m->w0);
-    if (opts->refine_rounds > 0 && (rc = refine(m, xn, zn, opts, err)) != IST_OK)
+    if (opts->refine_rounds > 0 && (rc = refine(m, xn, zn, opts, arow, brow, n, err)) != IST_OK)
         goto fail;
     ist_free(arow);
     ist_free(brow);

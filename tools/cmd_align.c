@@ -35,6 +35,8 @@ help(FILE *out)
           "      --refine-rounds=N   at most N refinement rounds, 0 = none [default: 5]\n"
           "      --refine-vocab=N    refine among the N most frequent words of each side\n"
           "                          [default: 5000]\n"
+          "      --refine-keep-seeds refit on the induced pairs and the seed pairs together\n"
+          "                          [default: induced pairs only]\n"
           "      --mapped-out=FILE   also write the mapped source vectors as a vector file\n",
           out);
     ac_common_help(out, true);
@@ -63,11 +65,12 @@ enum {
     OPT_ROUNDS,
     OPT_RVOCAB,
     OPT_MAPPED,
+    OPT_KEEP_SEEDS,
 };
 
 typedef struct args {
     const char *src, *tgt, *out, *seeds, *test, *write_test, *mapped, *normalise;
-    bool ident, ident_marked;
+    bool ident, ident_marked, keep_seeds;
     uint64_t ident_min, split_seed;
     double hold_out;
     size_t rounds, rvocab;
@@ -107,6 +110,7 @@ parse(int argc, char **argv, args *a)
         {"refine-rounds", required_argument, NULL, OPT_ROUNDS},
         {"refine-vocab", required_argument, NULL, OPT_RVOCAB},
         {"mapped-out", required_argument, NULL, OPT_MAPPED},
+        {"refine-keep-seeds", no_argument, NULL, OPT_KEEP_SEEDS},
         {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
         {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
         {"memory", required_argument, NULL, AC_OPT_MEMORY},
@@ -155,6 +159,7 @@ parse(int argc, char **argv, args *a)
                 return CLI_EXIT_USAGE;
             break;
         case OPT_MAPPED: a->mapped = optarg; break;
+        case OPT_KEEP_SEEDS: a->keep_seeds = true; break;
         case 'h': help(stdout); return -1;
         default:
             if (c >= 1000) {
@@ -273,9 +278,10 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     snprintf(extra, sizeof extra,
              "\"normalise\":\"%s\",\"refine_rounds\":%zu,\"refine_vocab\":%zu,"
              "\"identical_seeds\":%s,\"identical_min_count\":%" PRIu64 ",\"identical_marked\":%s,"
-             "\"hold_out\":%g,\"split_seed\":%" PRIu64,
+             "\"hold_out\":%g,\"split_seed\":%" PRIu64 ",\"refine_keep_seeds\":%s",
              a->normalise, a->rounds, a->rvocab, a->ident ? "true" : "false", a->ident_min,
-             a->ident_marked ? "true" : "false", a->hold_out, a->split_seed);
+             a->ident_marked ? "true" : "false", a->hold_out, a->split_seed,
+             a->keep_seeds ? "true" : "false");
     ac_options_json(&a->c, extra, opts, sizeof opts);
     if (ist_map_describe(map, &mj, &err) != IST_OK)
         return cli_report(CMD, &err);
@@ -344,6 +350,7 @@ run(int argc, char **argv)
     ao.source_norm = ao.target_norm = a.normalise;
     ao.refine_rounds = a.rounds;
     ao.refine_vocab = a.rvocab;
+    ao.refine_keep_seeds = a.keep_seeds;
     ao.neighbourhood = a.c.eval.neighbourhood;
     ao.retrieve = a.c.eval.retrieve;
     ao.on_round = on_round;
