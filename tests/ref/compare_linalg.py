@@ -12,7 +12,7 @@ try:
     from scipy.linalg import orthogonal_procrustes
 except ImportError:
     print("1..0 # SKIP numpy/scipy not installed")
-    sys.exit(77)
+    sys.exit(77)   # the test runs with protocol exitcode: 77 = skipped
 
 TOL = 1e-5
 
