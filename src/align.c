@@ -273,7 +273,8 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     m->fp_t = ist_store_fingerprint(tgt);
     m->rows_s = ist_store_rows(src);
     m->rows_t = ist_store_rows(tgt);
-    m->seed_ck = ist_pairs_checksum(seeds);
+    if ((rc = ist_pairs_checksum(seeds, &m->seed_ck, err)) != IST_OK)
+        goto fail;
     m->refine_vocab = opts->refine_vocab;
     m->neighbourhood = opts->neighbourhood;
     if ((rc = seed_rows(seeds, &arow, &brow, &n, err)) != IST_OK)

@@ -483,17 +483,19 @@ fail:
     return rc;
 }
 
-size_t
-ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, const char **first, size_t cap)
+ist_status
+ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, const char **first, size_t cap,
+                  size_t *shared_out, ist_error *err)
 {
     size_t na, nb, shared = 0, listed = 0;
     keyed *ka = collect_sources(a, true, &na);
     keyed *kb = collect_sources(b, true, &nb);
 
+    *shared_out = 0;
     if (!ka || !kb) {
         ist_free(ka);
         ist_free(kb);
-        return 0;
+        return ist_error_nomem(err);
     }
     /* kb sorted by word: walk distinct words, binary-search them in ka */
     for (size_t i = 0; i < nb; i++) {
@@ -525,7 +527,8 @@ ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, const char **first, si
         first[listed++] = kb[i].word;
     ist_free(ka);
     ist_free(kb);
-    return shared;
+    *shared_out = shared;
+    return IST_OK;
 }
 
 ist_status
@@ -587,13 +590,14 @@ hash_sorted(uint64_t *h, size_t n)
     return acc ^ (uint64_t)n;
 }
 
-uint64_t
-ist_pairs_checksum(const ist_pairs *p)
+ist_status
+ist_pairs_checksum(const ist_pairs *p, uint64_t *out, ist_error *err)
 {
-    uint64_t *h = ist_malloc((p->n + 1) * sizeof *h), r;
+    uint64_t *h = ist_malloc((p->n + 1) * sizeof *h);
     size_t n = 0;
+    *out = 0;
     if (!h)
-        return 0;
+        return ist_error_nomem(err);
     for (size_t i = 0; i < p->n; i++) {
         if (!is_kept(p, i))
             continue;
@@ -606,29 +610,30 @@ ist_pairs_checksum(const ist_pairs *p)
         }
         h[n++] = ist_hash_bytes(b, sizeof b);
     }
-    r = hash_sorted(h, n);
+    *out = hash_sorted(h, n);
     ist_free(h);
-    return r;
+    return IST_OK;
 }
 
-uint64_t
-ist_pairs_sources_hash(const ist_pairs *p)
+ist_status
+ist_pairs_sources_hash(const ist_pairs *p, uint64_t *out, ist_error *err)
 {
-    size_t nk, n = 0;
+    size_t nk = 0, n = 0;
     keyed *k = collect_sources(p, true, &nk);
-    uint64_t *h = ist_malloc((nk + 1) * sizeof *h), r;
+    uint64_t *h = ist_malloc((nk + 1) * sizeof *h);
+    *out = 0;
     if (!k || !h) {
         ist_free(k);
         ist_free(h);
-        return 0;
+        return ist_error_nomem(err);
     }
     for (size_t i = 0; i < nk; i++)
         if (i == 0 || strcmp(k[i].word, k[i - 1].word) != 0)
             h[n++] = ist_hash_bytes(k[i].word, strlen(k[i].word));
-    r = hash_sorted(h, n);
+    *out = hash_sorted(h, n);
     ist_free(k);
     ist_free(h);
-    return r;
+    return IST_OK;
 }
 
 ist_status

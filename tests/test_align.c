@@ -5,6 +5,7 @@
 #include <math.h>
 
 #include <isthmus/isthmus.h>
+#include <isthmus/testing.h>
 
 /* ---- helpers ------------------------------------------------------------ */
 
@@ -379,8 +380,12 @@ test_map_file_round_trip(void **state)
         for (size_t j = 0; j < 16; j++)
             assert_true(a.data[i * a.stride + j] == b.data[i * b.stride + j]);
     assert_int_equal(ist_map_source_fingerprint(back), ist_store_fingerprint(sy.src));
-    assert_int_equal(ist_map_seed_checksum(back), ist_pairs_checksum(seeds));
+    uint64_t ck;
+    assert_int_equal(ist_pairs_checksum(seeds, &ck, &err), IST_OK);
+    assert_int_equal(ist_map_seed_checksum(back), ck);
     assert_int_equal(ist_map_rounds(back), ist_map_rounds(map));
+    assert_int_equal(ist_pairs_count(ist_map_seeds(back)), 200);
+    assert_string_equal(ist_pairs_source(ist_map_seeds(back), 7), "w7");
     assert_string_equal(ist_norm_spec(ist_map_source_norm(back)), "unit,centre,unit");
     const double *m1 = ist_norm_step_mean(ist_map_source_norm(map), 1);
     const double *m2 = ist_norm_step_mean(ist_map_source_norm(back), 1);
@@ -441,6 +446,46 @@ test_procrustes_input_checks(void **state)
     assert_float_equal(info.seed_cos, 1.0, 1e-6);
 }
 
+/* Every allocation failure during fitting, saving and loading is reported, not crashed on
+ * (effective in a -Dfault_injection=true build; elsewhere the first round succeeds). */
+static void
+test_allocation_failures(void **state)
+{
+    (void)state;
+    synth sy;
+    ist_align_opts ao;
+    ist_error err;
+    char *dir = harness_tmpdir(), *path = harness_path(dir, "f.map");
+    make_synth(&sy, 300, 8, 0.05, 4);
+    ist_pairs *seeds = range_pairs(&sy, 0, 100);
+    ist_align_opts_init(&ao);
+    ao.refine_rounds = 1;
+    ao.retrieve.threads = 1;
+    for (long n = 0;; n++) {
+        ist_map *map = NULL, *back = NULL;
+        ist_testing_fail_alloc_after(n);
+        ist_status rc = ist_align_fit(sy.src, sy.tgt, seeds, &ao, &map, &err);
+        if (rc == IST_OK)
+            rc = ist_map_save(map, path, &err);
+        if (rc == IST_OK)
+            rc = ist_map_load(path, &back, &err);
+        ist_testing_fail_alloc_after(-1);
+        ist_map_free(map);
+        ist_map_free(back);
+        if (rc == IST_OK) {
+            /* with injection on, many allocations were failed one by one first */
+            assert_true(!ist_testing_fault_injection_enabled() || n > 20);
+            break;
+        }
+        assert_int_equal(rc, IST_ERR_NOMEM);
+        assert_null(back);
+    }
+    ist_pairs_free(seeds);
+    free_synth(&sy);
+    free(path);
+    harness_rmdir(dir);
+}
+
 int
 main(void)
 {
@@ -451,6 +496,7 @@ main(void)
         cmocka_unit_test(test_normalisation),
         cmocka_unit_test(test_map_file_round_trip),
         cmocka_unit_test(test_procrustes_input_checks),
+        cmocka_unit_test(test_allocation_failures),
     };
     HARNESS_RUN("align", tests);
 }

@@ -2,6 +2,7 @@
 #include "harness.h"
 
 #include <isthmus/isthmus.h>
+#include <isthmus/testing.h>
 
 static ist_store *
 store_of(const char *const *words, const uint64_t *counts, size_t n)
@@ -149,14 +150,26 @@ test_split_deterministic(void **state)
     assert_int_equal(ist_pairs_count(t1), 200);
     assert_int_equal(ist_pairs_count(s1), 400);
     /* the same seed gives the same parts whatever the line order */
-    assert_int_equal(ist_pairs_checksum(t1), ist_pairs_checksum(t2));
-    assert_int_equal(ist_pairs_sources_hash(t1), ist_pairs_sources_hash(t2));
-    assert_int_equal(ist_pairs_checksum(s1), ist_pairs_checksum(s2));
+    uint64_t a, b;
+    size_t n;
+    assert_int_equal(ist_pairs_checksum(t1, &a, &err), IST_OK);
+    assert_int_equal(ist_pairs_checksum(t2, &b, &err), IST_OK);
+    assert_int_equal(a, b);
+    assert_int_equal(ist_pairs_sources_hash(t1, &a, &err), IST_OK);
+    assert_int_equal(ist_pairs_sources_hash(t2, &b, &err), IST_OK);
+    assert_int_equal(a, b);
+    assert_int_equal(ist_pairs_checksum(s1, &a, &err), IST_OK);
+    assert_int_equal(ist_pairs_checksum(s2, &b, &err), IST_OK);
+    assert_int_equal(a, b);
     /* another seed, another split */
-    assert_true(ist_pairs_sources_hash(t1) != ist_pairs_sources_hash(t3));
+    assert_int_equal(ist_pairs_sources_hash(t1, &a, &err), IST_OK);
+    assert_int_equal(ist_pairs_sources_hash(t3, &b, &err), IST_OK);
+    assert_true(a != b);
     /* no source word on both sides */
-    assert_int_equal(ist_pairs_overlap(s1, t1, shared, 4), 0);
-    assert_int_equal(ist_pairs_overlap(s3, t3, shared, 4), 0);
+    assert_int_equal(ist_pairs_overlap(s1, t1, shared, 4, &n, &err), IST_OK);
+    assert_int_equal(n, 0);
+    assert_int_equal(ist_pairs_overlap(s3, t3, shared, 4, &n, &err), IST_OK);
+    assert_int_equal(n, 0);
     ist_pairs *bad;
     assert_int_equal(ist_pairs_split(p, 1.5, 1, &bad, &bad, &err), IST_ERR_INVALID);
     ist_pairs_free(s1), ist_pairs_free(t1), ist_pairs_free(s2), ist_pairs_free(t2);
@@ -181,7 +194,9 @@ test_leakage_listed(void **state)
     ist_pairs_add(test, "uno", "one", &err);
     ist_pairs_add(test, "tres", "three", &err);
     ist_pairs_add(test, "dos", "two", &err);
-    assert_int_equal(ist_pairs_overlap(seed, test, shared, 2), 3);
+    size_t n;
+    assert_int_equal(ist_pairs_overlap(seed, test, shared, 2, &n, &err), IST_OK);
+    assert_int_equal(n, 3);
     assert_string_equal(shared[0], "tres");   /* in the test list's order, first two */
     assert_string_equal(shared[1], "uno");
     ist_pairs_free(seed);
@@ -257,6 +272,54 @@ test_normalised_like_vocabulary(void **state)
     ist_store_free(tgt);
 }
 
+/* Every allocation failure in reading, resolving, splitting and saving is reported
+ * (effective in a -Dfault_injection=true build; elsewhere the first round succeeds). */
+static void
+test_allocation_failures(void **state)
+{
+    (void)state;
+    static const char *const sw[] = {"casa", "perro", "gato", "agua"};
+    static const char *const tw[] = {"house", "dog", "cat", "water"};
+    ist_store *src = store_of(sw, NULL, 4), *tgt = store_of(tw, NULL, 4);
+    char *dir = harness_tmpdir();
+    assert_non_null(dir);
+    char *path = harness_path(dir, "p.txt"), *out = harness_path(dir, "o");
+    static const char text[] = "casa house\nperro dog\ngato cat\nagua water\nsol sun\n";
+    ist_error err;
+    harness_write(path, text, sizeof text - 1);
+    for (long n = 0;; n++) {
+        ist_pairs *p = NULL, *a = NULL, *b = NULL, *id = NULL;
+        uint64_t h;
+        size_t shared;
+        ist_testing_fail_alloc_after(n);
+        ist_status rc = ist_pairs_read(path, &p, &err);
+        if (rc == IST_OK)
+            rc = ist_pairs_resolve(p, src, tgt, NULL, &err);
+        if (rc == IST_OK)
+            rc = ist_pairs_split(p, 0.5, 3, &a, &b, &err);
+        if (rc == IST_OK)
+            rc = ist_pairs_overlap(a, b, NULL, 0, &shared, &err);
+        if (rc == IST_OK)
+            rc = ist_pairs_sources_hash(b, &h, &err);
+        if (rc == IST_OK)
+            rc = ist_pairs_identical(src, tgt, 0, false, &id, &err);
+        if (rc == IST_OK)
+            rc = ist_pairs_save(p, out, &err);
+        ist_testing_fail_alloc_after(-1);
+        ist_pairs_free(p), ist_pairs_free(a), ist_pairs_free(b), ist_pairs_free(id);
+        if (rc == IST_OK) {
+            assert_true(!ist_testing_fault_injection_enabled() || n > 10);
+            break;
+        }
+        assert_int_equal(rc, IST_ERR_NOMEM);
+    }
+    free(path);
+    free(out);
+    harness_rmdir(dir);
+    ist_store_free(src);
+    ist_store_free(tgt);
+}
+
 int
 main(void)
 {
@@ -267,6 +330,7 @@ main(void)
         cmocka_unit_test(test_leakage_listed),
         cmocka_unit_test(test_identical_seeds),
         cmocka_unit_test(test_normalised_like_vocabulary),
+        cmocka_unit_test(test_allocation_failures),
     };
     HARNESS_RUN("pairs", tests);
 }

@@ -156,8 +156,11 @@ ac_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test,
                  size_t *shared)
 {
     const char *first[OVERLAP_SHOWN];
-    size_t n = ist_pairs_overlap(seeds, test, first, OVERLAP_SHOWN);
+    ist_error err;
+    size_t n;
 
+    if (ist_pairs_overlap(seeds, test, first, OVERLAP_SHOWN, &n, &err) != IST_OK)
+        return cli_report(cmd, &err);
     *shared = n;
     if (n == 0)
         return 0;

@@ -257,8 +257,8 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     ist_error err;
     int rc;
 
-    if (test)
-        shared = ist_pairs_overlap(seeds, test, NULL, 0);
+    if (test && ist_pairs_overlap(seeds, test, NULL, 0, &shared, &err) != IST_OK)
+        return cli_report(CMD, &err);
     if (test) {
         if (ist_map_seed_only(map, &seed_only, &err) != IST_OK)
             return cli_report(CMD, &err);
@@ -295,8 +295,11 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     info.seeds_checksum = ist_map_seed_checksum(map);
     if (test) {
         info.test_path = a->test ? a->test : "(held out from the seeds)";
-        info.test_checksum = ist_pairs_checksum(test);
-        info.test_sources_hash = ist_pairs_sources_hash(test);
+        if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
+            ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
+            ist_map_free_text(mj);
+            return cli_report(CMD, &err);
+        }
         info.test_sources = nruns ? runs[0].m.queries : 0;
         info.test_coverage = *tcov;
     }

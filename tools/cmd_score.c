@@ -60,8 +60,11 @@ write_json(const ac_common *c, char **argv, const char *mpath, const char *tpath
     info.source_fingerprint = ist_map_source_fingerprint(map);
     info.target_fingerprint = ist_map_target_fingerprint(map);
     info.seeds_checksum = ist_map_seed_checksum(map);
-    info.test_checksum = ist_pairs_checksum(test);
-    info.test_sources_hash = ist_pairs_sources_hash(test);
+    if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
+        ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
+        ist_map_free_text(mj);
+        return cli_report(CMD, &err);
+    }
     info.test_sources = cov->sources_kept;
     info.test_coverage = *cov;
     info.overlap = shared;

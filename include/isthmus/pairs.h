@@ -82,10 +82,10 @@ IST_API ist_status ist_pairs_split(const ist_pairs *p, double test_fraction, uin
                                    ist_pairs **seeds, ist_pairs **test, ist_error *err);
 
 /** Source words of b also found among the source words of a (kept pairs of
- *  resolved lists). Returns their count; the first up to cap of them (in b's
- *  order) go to first[] (borrowed from b). */
-IST_API size_t ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, const char **first,
-                                 size_t cap);
+ *  resolved lists): *shared gets their count, and the first up to cap of them
+ *  (in b's order) go to first[] (borrowed from b; may be NULL when cap is 0). */
+IST_API ist_status ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, const char **first,
+                                     size_t cap, size_t *shared, ist_error *err);
 
 /** Seed pairs (w, w) for every word w in both vector files whose count is at
  *  least min_count on both sides (the floor is ignored for a file that carries
@@ -102,9 +102,9 @@ IST_API ist_status ist_pairs_find_word(const ist_store *s, const char *word, ptr
                                        ist_error *err);
 
 /** Order-independent checksum of the kept (source, target) pairs. */
-IST_API uint64_t ist_pairs_checksum(const ist_pairs *p);
+IST_API ist_status ist_pairs_checksum(const ist_pairs *p, uint64_t *out, ist_error *err);
 /** Order-independent hash of the distinct source words of the kept pairs. */
-IST_API uint64_t ist_pairs_sources_hash(const ist_pairs *p);
+IST_API ist_status ist_pairs_sources_hash(const ist_pairs *p, uint64_t *out, ist_error *err);
 
 #ifdef __cplusplus
 }
