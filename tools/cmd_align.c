@@ -45,10 +45,10 @@ help(FILE *out)
           "Refinement stops early when the mean CSLS of the induced pairs stops rising.\n"
           "All files are written to a temporary name and renamed into place when complete.\n"
           "\n"
-          "Example:\n"
-          "  isthmus align data-samples/shop-en.vec data-samples/shop-es.vec \\\n"
-          "      --seeds=data-samples/seed-en-es.txt --test=data-samples/test-en-es.txt \\\n"
-          "      -o shop.map\n",
+          "Example (en.isv, es.isv from 'isthmus train -o en.isv data-samples/tillwick-en.txt.gz'\n"
+          "and the same for es):\n"
+          "  isthmus align en.isv es.isv --seeds=data-samples/demo-seed.pairs \\\n"
+          "      --test=data-samples/demo-test.pairs -o shop.map\n",
           out);
 }
 

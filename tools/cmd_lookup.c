@@ -32,8 +32,7 @@ help(FILE *out)
           "before it drives anything customer-facing.\n"
           "\n"
           "Example:\n"
-          "  isthmus lookup data-samples/shop-en.vec data-samples/shop-es.vec --map=shop.map \\\n"
-          "      kettle blue\n",
+          "  isthmus lookup en.isv es.isv --map=shop.map --top=3 kettle blue\n",
           out);
 }
 

@@ -30,8 +30,8 @@ help(FILE *out)
           "figures meaningless; score refuses such a list unless --allow-overlap is given.\n"
           "\n"
           "Example:\n"
-          "  isthmus score data-samples/shop-en.vec data-samples/shop-es.vec --map=shop.map \\\n"
-          "      --test=data-samples/test-en-es.txt --json-out=result.json\n",
+          "  isthmus score en.isv es.isv --map=shop.map --test=data-samples/demo-test.pairs \\\n"
+          "      --json-out=result.json\n",
           out);
 }
 
