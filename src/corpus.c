@@ -288,17 +288,22 @@ read_file(build *b, const char *path, ist_error *err)
 static ist_status
 to_vocab(const ist_wordtab *t, ist_vocab *v, ist_error *err)
 {
-    for (size_t i = 0; i < t->n; i++) {
+    uint64_t *count = ist_malloc((t->n ? t->n : 1) * sizeof *count);
+    ist_status rc = IST_OK;
+
+    if (!count)
+        return ist_error_nomem(err);
+    ist_wordtab_counts(t, count);
+    for (size_t i = 0; i < t->n && rc == IST_OK; i++) {
         const char *w = ist_wordtab_word(t, (uint32_t)i);
         size_t len = (i + 1 < t->n ? t->off[i + 1] : t->pool_used) - t->off[i] - 1;
         uint32_t id;
-        ist_status rc = ist_vocab_add(v, w, len, t->count[i], &id, err);
-        if (rc != IST_OK)
-            return rc;
-        if (id != i)
-            return ist_error_set(err, IST_ERR_INTERNAL, "vocabulary id %u for word %zu", id, i);
+        rc = ist_vocab_add(v, w, len, count[i], &id, err);
+        if (rc == IST_OK && id != i)
+            rc = ist_error_set(err, IST_ERR_INTERNAL, "vocabulary id %u for word %zu", id, i);
     }
-    return IST_OK;
+    ist_free(count);
+    return rc;
 }
 
 /* Sort and prune the vocabulary, renumber the stream and drop pruned words. */

@@ -175,8 +175,7 @@ run(int argc, char **argv)
         ist_corpus_free(corpus);
         return cli_report("prepare", &err);
     }
-    if (cli_g.verbosity >= 0)
-        summary(corpus, out, secs);
+    summary(corpus, out, secs);     /* the result of the command: printed also with -q */
     ist_corpus_free(corpus);
     return CLI_EXIT_OK;
 }
