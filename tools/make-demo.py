@@ -1287,6 +1287,7 @@ def tiny_table(L, rng):
         n = math.sqrt(sum(x * x for x in v))
         centre[k] = [x / n for x in v]
     rows = []
+    seen = set()
     for k in kinds:
         if k == "colour":
             words = [c.en[0]["w"] for c in list(L.colours.values())[:6]]
@@ -1296,6 +1297,9 @@ def tiny_table(L, rng):
             words = [c.en[0]["sg"] for c in L.items if c.cat == k][:6]
         for w in words:
             v = [x + rng.gauss(0, 0.25) for x in centre[k]]
+            if w in seen:    # 'glass' is an item and a material: one row per word
+                continue
+            seen.add(w)
             rows.append((w, v))
     lines = ["%d 8" % len(rows)]
     for w, v in rows:
