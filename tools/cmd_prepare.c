@@ -36,7 +36,8 @@ help(FILE *out)
           "The output is written to a temporary file and renamed into place when complete.\n"
           "\n"
           "Example:\n"
-          "  isthmus prepare --min-freq 3 --dedup-lines -o shop-es.prep data-samples/shop-es.txt\n",
+          "  isthmus prepare --min-freq 3 --dedup-lines -o tillwick-es.prep \\\n"
+          "      data-samples/tillwick-es.txt.gz\n",
           out);
 }
 
