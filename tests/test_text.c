@@ -148,6 +148,8 @@ strict_utf8_reports_offset(void **state)
     assert_true(err.has_offset);
     assert_int_equal(err.offset, 6);
     assert_non_null(strstr(err.msg, "invalid UTF-8"));
+    assert_int_equal(ist_normalize(nz, NULL, 0, &out, &len, &err), IST_OK);
+    assert_string_equal(out, "");
     assert_int_equal(ist_normalize(nz, "ni\xc3\xb1o", 5, &out, &len, &err), IST_OK);
     assert_string_equal(out, "ni\xc3\xb1o");
     assert_int_equal(ist_normalizer_replaced(nz), 0);
