@@ -612,6 +612,21 @@ NOT_IN_TITLES = {"easy", "useful", "perfect", "good", "bad", "hot", "cold", "dir
                  "safe", "noisy", "fragile", "flimsy", "ugly", "old", "cheap", "expensive"}
 
 HAND_VERBS = {"wash", "dry", "rinse", "sew", "polish", "sharpen", "scrub", "fold", "iron"}
+CARE_VERBS = HAND_VERBS | {"clean", "soak", "empty", "store"}
+
+# Uses written in the plural ("for books and toys"); the others are mass nouns.
+USE_PLURAL = {"egg", "biscuit", "vegetable", "herb", "spice", "flower", "plant", "book", "toy",
+              "shoe", "cake", "floor", "window", "wall", "door", "shelf", "bed", "sofa",
+              "chair", "seed"}
+
+
+def use_noun(lg, c, f=None):
+    """The word for a use: plural for countable things, singular for mass nouns."""
+    if c is None:
+        return None
+    if f is not None:
+        return lg.noun(f, plural=c.key in USE_PLURAL)
+    return lg.noun(c, plural=c.key in USE_PLURAL)
 
 
 SLOT_NAMES = {}
@@ -656,15 +671,17 @@ def en_slots(lg, p):
     fault = pr["fault"].draw(lg.rng)
     place = pr["place"].draw(lg.rng)
     appl = pr["appliance"].draw(lg.rng)
-    mat = pr["material"].draw(lg.rng)
+    # Mostly the product's own material, so a listing does not contradict itself.
+    mat = p["material"] if lg.chance(0.8) else pr["material"].draw(lg.rng)
     s = {
         "item": lg.noun(it, plural), "items": lg.noun(it, True), "one_item": lg.noun(it),
         "pron": lg.pron(plural), "Pron": "They" if plural else "It",
         "be": lg.be(plural), "was": lg.be(plural, past=True),
-        "use1": u1 and lg.noun(u1), "use2": u2 and lg.noun(u2),
+        "use1": use_noun(lg, u1), "use2": use_noun(lg, u2),
         "adj1": a1 and lg.adj(a1), "adj2": a2 and lg.adj(a2),
         "verb1": v1 and v1.en[0]["base"], "verb2": v2 and v2.en[0]["base"],
         "hand_verb": v1 and v1.key in HAND_VERBS and cap(v1.en[0]["base"]),
+        "care_verb": v1 and v1.key in CARE_VERBS and v1.en[0]["base"],
         "col1": c1 and lg.adj(c1), "col2": c2 and lg.adj(c2),
         "mate": mate and lg.noun(mate), "mates": mate and lg.noun(mate, True),
         "part": part and lg.noun(part), "fault": fault and lg.adj(fault),
@@ -683,7 +700,7 @@ EN_LISTING = [
     "Made from {mat}.", "Made of {adj1} {mat}.", "Solid {mat} {part}.",
     "{appl_cap} safe.", "Safe in the {appl}.", "Not suitable for the {appl}.",
     "Easy to {verb1}.", "Simple to {verb1} and {verb2}.", "{hand_verb} by hand.",
-    "Easy to {verb1} after use.",
+    "Easy to {care_verb} after use.",
     "Looks great in any {place}.", "A must for the {place}.", "Brings warmth to your {place}.",
     "{adj1_cap} and {adj2}.", "{adj1_cap}, {adj2} and built to last.", "Really {adj1}.",
     "{Pron} {be} {adj1} and {adj2}.",
@@ -775,8 +792,7 @@ def en_support(lg):
     s["Np_the"] = cap(s["np_the"])
     s["period"] = lg.one(["week", "day", "month", "wash", "use"])
     s["defect"] = lg.noun(lg.one([lg.L.nouns[k] for k in (
-        "crack", "scratch", "dent", "stain", "leak", "hole", "smell", "noise", "rust",
-        "mark")]))
+        "crack", "scratch", "dent", "stain", "leak", "hole", "smell", "noise", "mark")]))
     greet = lg.one(["Hi,", "Hello,", "Hi there,", "Hello team,", "Good morning,", "", "Hey,",
                     "Dear Tillwick,"])
     out = [greet, fill(lg, EN_SUPPORT_PROBLEM, s), fill(lg, EN_SUPPORT_CLOSE, s)]
@@ -828,7 +844,7 @@ EN_REVIEW_GOOD = [
 ]
 EN_REVIEW_BAD = [
     "{Fault} after two weeks.", "Came {fault}, disappointed.", "The {part} was {fault}.",
-    "The {one_item} {was} {fault} on arrival.", "Not worth {price}.",
+    "The {item} {was} {fault} on arrival.", "Not worth {price}.",
     "Would not buy again.", "Expected better quality.", "Customer service was helpful though.",
     "Too {adj1} for my {place}.", "Hard to {verb1}.",
 ]
@@ -839,7 +855,8 @@ def en_review(lg):
     s = en_slots(lg, p)
     s["Fault"] = s["fault"] and cap(s["fault"])
     stars = lg.rng.choice([5, 5, 5, 4, 4, 3, 2, 1])
-    out = [lg.one(["%d stars.", "%d/5", "Rated %d out of 5.", "%d*"]) % stars]
+    out = [lg.one(["%d stars." if stars > 1 else "%d star.", "%d/5", "Rated %d out of 5.",
+                   "%d*"]) % stars]
     pool = EN_REVIEW_GOOD if stars >= 4 else EN_REVIEW_BAD
     for _ in range(lg.rng.randint(1, 3)):
         sent = fill(lg, pool, s)
@@ -887,7 +904,8 @@ def es_slots(lg, p, f, plural):
     fault = pr["fault"].draw(lg.rng)
     place = pr["place"].draw(lg.rng)
     appl = pr["appliance"].draw(lg.rng)
-    mat = pr["material"].draw(lg.rng)
+    # Mostly the product's own material, so a listing does not contradict itself.
+    mat = p["material"] if lg.chance(0.8) else pr["material"].draw(lg.rng)
     pf = part and lg.form(part)
     s = {
         "item": lg.noun(f, plural), "one_item": lg.noun(f),
@@ -898,12 +916,16 @@ def es_slots(lg, p, f, plural):
         "estar": "están" if plural else "está",
         "llegar": "llegaron" if plural else "llegó", "Llegar": "Llegaron" if plural else "Llegó",
         "romper": "rompieron" if plural else "rompió",
-        "use1": u1 and lg.noun(lg.form(u1)), "use2": u2 and lg.noun(lg.form(u2)),
+        "use1": u1 and use_noun(lg, u1, lg.form(u1)),
+        "use2": u2 and use_noun(lg, u2, lg.form(u2)),
         "adj1": a1 and lg.agree(a1, f, plural), "adj2": a2 and lg.agree(a2, f, plural),
         "verb1": v1 and v1.es[0]["inf"], "verb2": v2 and v2.es[0]["inf"],
         "hand_verb": v1 and v1.key in HAND_VERBS and cap(v1.es[0]["inf"]),
+        "care_verb": v1 and v1.key in CARE_VERBS and v1.es[0]["inf"],
         "col1": c1 and lg.agree(c1, f, plural), "col2": c2 and lg.agree(c2, f, plural),
         "col1_sg": c1 and lg.agree(c1, f, False),
+        # A colour named as such ("en azul") takes the masculine singular.
+        "col1_name": c1 and c1.es[0]["forms"][0], "col2_name": c2 and c2.es[0]["forms"][0],
         "the_mate": mate and es_the(lg, mate), "the_mates": mate and es_the(lg, mate, True),
         "the_part": part and "%s %s" % (lg.det("the", pf, False), lg.noun(pf)),
         "a_part": part and "%s %s" % (lg.det("a", pf, False), lg.noun(pf)),
@@ -932,14 +954,14 @@ ES_LISTING = [
     "{made} en {mat}.", "{made} en {mat}, {adj1} y {adj2}.", "{Ser} de {mat}.",
     "{apto} para {appl}.", "Se puede meter en {the_appl}.", "No {apto_lc} para {appl}.",
     "Fácil de {verb1}.", "Muy fácil de {verb1} y de {verb2}.", "{hand_verb} a mano.",
-    "Se recomienda {verb1} después de cada uso.",
+    "Se recomienda {care_verb} después de cada uso.",
     "Queda genial en {the_place}.", "Imprescindible en cualquier {place}.",
     "Dale un toque cálido a tu {place}.",
     "{Ser} {adj1} y {adj2}.", "{Ser} muy {adj1}, además de {adj2}.", "Realmente {adj1}.",
     "Con {a_part} {part_adj}.", "{The_part} es {part_adj}.",
     "Combina con {our} {mate_noun}.", "A juego con {the_mate} de la colección.",
     "Combina con {the_mates}.",
-    "{disp} también en {col1}.", "{disp} en {col1} y {col2}.",
+    "{disp} también en {col1_name}.", "{disp} en {col1_name} y {col2_name}.",
     "Medidas: {size}.", "Tamaño: {size}.",
     "Garantía de {n} años.", "Entrega en {n} días laborables.",
 ]
@@ -1000,7 +1022,7 @@ ES_SUPPORT_PROBLEM = [
     "¿Cuál es la mejor forma de {verb1} {np_the}? ¿Va en {the_appl}?",
     "¿{np_the_cap} se puede meter en {the_appl}?",
     "El color de {np_the} no es como en la foto, parece más {col1}.",
-    "Quería {np_the} en {col1_sg} pero me {llegar} en otro color.",
+    "Quería {np_the} en {col1_name} pero me {llegar} en otro color.",
     "¿Puedo devolver {np_the}? {Ser} demasiado {adj1} para mi {place}.",
     "Necesito {np_the} en una talla más grande que {size}.",
 ]
@@ -1029,7 +1051,7 @@ def es_support(lg):
     s["The_part"] = s["the_part"] and cap(s["the_part"])
     s["period"] = lg.one(["semana", "lavada", "vez"])
     s["a_defect"] = es_a(lg, lg.L.nouns[lg.one(["crack", "scratch", "dent", "stain", "leak",
-                                                "hole", "smell", "noise", "rust", "mark"])])
+                                                "hole", "smell", "noise", "mark"])])
     greet = lg.one(["Hola,", "Hola.", "Buenas,", "Buenos días,", "Buenas tardes,", "",
                     "Hola equipo de Tillwick,", "Estimados señores:"])
     body = fill(lg, ES_SUPPORT_PROBLEM, s)
@@ -1078,7 +1100,7 @@ ES_REVIEW_GOOD = [
     "Me encanta {this_item}, {ser} {adj1} y {adj2}.", "{This_item} {ser} muy {adj1}.",
     "¡Qué {one_item} tan {bonito}!", "{Pron} usamos para {use1} todos los {days}.",
     "{Pron} uso para {use1} y para {use2}.", "{Perfecto} para {use1} los {days}.",
-    "Compré {pron} en {col1} para {the_place}.", "Queda muy bien con {the_mates}.",
+    "{Pron} compré en {col1_name} para {the_place}.", "Queda muy bien con {the_mates}.",
     "Muy fácil de {verb1}.",
 ]
 ES_REVIEW_BAD = [
@@ -1103,7 +1125,8 @@ def es_review(lg):
         return s
 
     stars = lg.rng.choice([5, 5, 5, 5, 4, 4, 3, 2, 1])
-    out = [lg.one(["%d estrellas.", "%d/5", "Nota: %d de 5.", "%d*"]) % stars]
+    out = [lg.one(["%d estrellas." if stars > 1 else "%d estrella.", "%d/5", "Nota: %d de 5.",
+                   "%d*"]) % stars]
     pool = ES_REVIEW_GOOD if stars >= 4 else ES_REVIEW_BAD
     for _ in range(lg.rng.randint(1, 3)):
         sent = contract(fill(lg, pool, slots()))
