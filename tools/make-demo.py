@@ -329,12 +329,21 @@ def build_catalogue(L, rng):
     return products
 
 
+# Items sold by what they hold (500ml, 1.5L); the others by a length (30cm) or, for flat
+# and large goods, by two lengths (140x200cm).
+VESSELS = {"pot", "saucepan", "casserole", "wok", "kettle", "steamer", "roaster", "bowl",
+           "mug", "cup", "glass", "goblet", "jug", "teapot", "coffeepot", "ramekin", "carafe",
+           "jar", "tin", "box", "basket", "container", "bottle", "flask", "lunchbox", "bucket",
+           "bin", "dispenser", "planter", "blender", "fryer", "juicer", "humidifier", "mould",
+           "colander", "eggcup", "tray", "platter"}
+FLAT = {"textiles", "furniture", "garden"}
+
+
 def make_size(item, rng):
-    cat = item.cat
-    if cat in ("cookware", "tableware", "storage") and rng.random() < 0.7:
+    if item.key in VESSELS:
         ml = rng.choice([150, 200, 250, 300, 350, 400, 500, 750, 1000, 1500, 2000, 3000])
         return ("ml", ml)
-    if cat in ("textiles", "furniture", "garden"):
+    if item.cat in FLAT:
         a, b = rng.choice([40, 50, 60, 80, 90, 120, 140, 160]), rng.choice([40, 60, 90, 200])
         return ("cm2", (a, b))
     return ("cm", rng.choice([10, 12, 15, 18, 20, 24, 26, 28, 30, 32, 40, 45]))
@@ -687,6 +696,8 @@ def en_slots(lg, p):
         "part": part and lg.noun(part), "fault": fault and lg.adj(fault),
         "place": place and lg.noun(place), "appl": appl and lg.noun(appl),
         "mat": mat and lg.material(mat), "size": en_size(lg, p["size"]),
+        "capacity": p["size"][0] == "ml" and en_size(lg, p["size"]),
+        "dims": p["size"][0] != "ml" and en_size(lg, p["size"]),
         "price": en_price(lg, p["price"]), "sale": en_price(lg, p["price"] * 0.8),
         "date": en_date(lg), "order": order_no(lg), "code": code_variant(lg, p["code"]),
         "n": str(lg.rng.randint(2, 5)),
@@ -707,7 +718,7 @@ EN_LISTING = [
     "{adj1_cap} {part}.", "With a {adj1} {part}.", "The {part} is {adj1}.",
     "Pairs well with our {mates}.", "Matches the {mate}.", "Try it with a {mate}.",
     "Also available in {col1}.", "Comes in {col1} and {col2}.",
-    "Dimensions: {size}.", "Size: {size}.",
+    "Dimensions: {dims}.", "Size: {size}.", "Capacity: {capacity}.",
     "{n}-year warranty.", "Ships in {n} days.",
 ]
 
@@ -937,6 +948,8 @@ def es_slots(lg, p, f, plural):
         "the_appl": appl and es_the(lg, appl), "appl": appl and lg.noun(lg.form(appl)),
         "mat": mat and lg.pick(mat.es, mat)["w"],
         "size": es_size(lg, p["size"]), "price": es_price(lg, p["price"]),
+        "capacity": p["size"][0] == "ml" and es_size(lg, p["size"]),
+        "dims": p["size"][0] != "ml" and es_size(lg, p["size"]),
         "date": es_date(lg).replace("el ", ""), "order": order_no(lg),
         "code": code_variant(lg, p["code"]), "n": str(lg.rng.randint(2, 5)),
         "days": es_plural(lg.L.days[lg.rng.randrange(7)].es[0]["w"]),
@@ -962,7 +975,7 @@ ES_LISTING = [
     "Combina con {our} {mate_noun}.", "A juego con {the_mate} de la colección.",
     "Combina con {the_mates}.",
     "{disp} también en {col1_name}.", "{disp} en {col1_name} y {col2_name}.",
-    "Medidas: {size}.", "Tamaño: {size}.",
+    "Medidas: {dims}.", "Tamaño: {size}.", "Capacidad: {capacity}.",
     "Garantía de {n} años.", "Entrega en {n} días laborables.",
 ]
 
