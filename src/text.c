@@ -299,6 +299,13 @@ ist_normalize(ist_normalizer *nz, const char *in, size_t len, const char **out, 
 
     *out = NULL;
     *out_len = 0;
+    if (len == 0) {
+        if (!reserve((void **)&nz->out, &nz->out_cap, 1, 1))
+            return ist_error_nomem(err);
+        nz->out[0] = '\0';
+        *out = (const char *)nz->out;
+        return IST_OK;
+    }
     if (is_ascii(s, len)) {
         if (!reserve((void **)&nz->out, &nz->out_cap, len + 1, 1))
             return ist_error_nomem(err);

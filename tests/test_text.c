@@ -148,6 +148,8 @@ strict_utf8_reports_offset(void **state)
     assert_true(err.has_offset);
     assert_int_equal(err.offset, 6);
     assert_non_null(strstr(err.msg, "invalid UTF-8"));
+    assert_int_equal(ist_normalize(nz, NULL, 0, &out, &len, &err), IST_OK);
+    assert_string_equal(out, "");
     assert_int_equal(ist_normalize(nz, "ni\xc3\xb1o", 5, &out, &len, &err), IST_OK);
     assert_string_equal(out, "ni\xc3\xb1o");
     assert_int_equal(ist_normalizer_replaced(nz), 0);
@@ -270,6 +272,52 @@ random_input_properties(void **state)
     ist_normalizer_free(nz);
 }
 
+typedef struct bounds {
+    size_t at[256];
+    size_t n;
+} bounds;
+
+static int
+record_bound(void *ctx, size_t start, size_t len, bool wordlike)
+{
+    bounds *b = ctx;
+    (void)wordlike;
+    if (b->n < 256)
+        b->at[b->n++] = start + len;
+    return 0;
+}
+
+/* The ASCII fast paths of the segmenter must give the boundaries of the plain
+ * rules on text dense in the characters the rules treat specially. */
+static void
+fast_segmenter_equals_rules(void **state)
+{
+    static const char *const alphabet[] = {
+        "a", "Z", "7", " ", "  ", ".", ",", ":", ";", "'", "\"", "_", "-", "!", "\r", "\n",
+        "\r\n", "\t", "\xd7\x90", "\xcc\x81", "\xe2\x80\x8d", "\xf0\x9f\x91\x8d",
+        "\xe3\x82\xab", "\xf0\x9f\x87\xaa", "\xc2\xa0", "\xe2\x80\x99",
+    };
+    const size_t n_alpha = sizeof alphabet / sizeof alphabet[0];
+    uint64_t seed = 4242;
+    char text[256];
+
+    (void)state;
+    for (int t = 0; t < 50000; t++) {
+        size_t len = 0, k = 1 + harness_rand(&seed) % 16;
+        for (size_t i = 0; i < k; i++) {
+            const char *piece = alphabet[harness_rand(&seed) % n_alpha];
+            memcpy(text + len, piece, strlen(piece));
+            len += strlen(piece);
+        }
+        bounds fast = {{0}, 0}, plain = {{0}, 0};
+        assert_int_equal(ist_segment_all(text, len, record_bound, &fast, NULL), IST_OK);
+        assert_int_equal(ist_segment_all_reference(text, len, record_bound, &plain, NULL),
+                         IST_OK);
+        assert_int_equal(fast.n, plain.n);
+        assert_memory_equal(fast.at, plain.at, fast.n * sizeof fast.at[0]);
+    }
+}
+
 typedef struct words {
     char buf[1024];
     size_t len;
@@ -308,11 +356,15 @@ segment_words_keeps_words(void **state)
     check_words("model TK-500ml e.g. x_y", "model|TK|500ml|e.g|x_y");    /* WB9/10, WB13a/b */
     check_words("--- !!! ... ***", "");
     /* ideographs break one by one (WB999), katakana stay together (WB13) */
-    check_words("\xe6\x97\xa5\xe6\x9c\xac\xe3\x81\xae\xe3\x83\x86\xe3\x82\xad\xe3\x82\xb9\xe3\x83\x88",
-                "\xe6\x97\xa5|\xe6\x9c\xac|\xe3\x81\xae|\xe3\x83\x86\xe3\x82\xad\xe3\x82\xb9\xe3\x83\x88");
+    check_words("\xe6\x97\xa5\xe6\x9c\xac\xe3\x81\xae"
+                "\xe3\x83\x86\xe3\x82\xad\xe3\x82\xb9\xe3\x83\x88",
+                "\xe6\x97\xa5|\xe6\x9c\xac|\xe3\x81\xae|"
+                "\xe3\x83\x86\xe3\x82\xad\xe3\x82\xb9\xe3\x83\x88");
     /* emoji with a skin-tone modifier (Extend, WB4) and a ZWJ sequence (WB3c) */
-    check_words("tea \xf0\x9f\x91\x8d\xf0\x9f\x8f\xbd ok \xf0\x9f\x91\xa9\xe2\x80\x8d\xf0\x9f\x92\xbb",
-                "tea|\xf0\x9f\x91\x8d\xf0\x9f\x8f\xbd|ok|\xf0\x9f\x91\xa9\xe2\x80\x8d\xf0\x9f\x92\xbb");
+    check_words("tea \xf0\x9f\x91\x8d\xf0\x9f\x8f\xbd ok "
+                "\xf0\x9f\x91\xa9\xe2\x80\x8d\xf0\x9f\x92\xbb",
+                "tea|\xf0\x9f\x91\x8d\xf0\x9f\x8f\xbd|ok|"
+                "\xf0\x9f\x91\xa9\xe2\x80\x8d\xf0\x9f\x92\xbb");
     /* two flags: regional indicators pair up (WB15/16) */
     check_words("\xf0\x9f\x87\xaa\xf0\x9f\x87\xb8\xf0\x9f\x87\xac\xf0\x9f\x87\xa7",
                 "\xf0\x9f\x87\xaa\xf0\x9f\x87\xb8|\xf0\x9f\x87\xac\xf0\x9f\x87\xa7");
@@ -402,21 +454,6 @@ hex_to_utf8(const char *s, char *out, size_t cap, size_t *len)
     out[o] = '\0';
     *len = o;
     return true;
-}
-
-typedef struct bounds {
-    size_t at[256];
-    size_t n;
-} bounds;
-
-static int
-record_bound(void *ctx, size_t start, size_t len, bool wordlike)
-{
-    bounds *b = ctx;
-    (void)wordlike;
-    if (b->n < 256)
-        b->at[b->n++] = start + len;
-    return 0;
 }
 
 /* One line of WordBreakTest.txt: "÷ 0001 × 0308 ÷ 0020 ÷ # comment". */
@@ -554,6 +591,7 @@ main(void)
         cmocka_unit_test(strict_utf8_reports_offset),
         cmocka_unit_test(piecewise_equals_whole_string),
         cmocka_unit_test(random_input_properties),
+        cmocka_unit_test(fast_segmenter_equals_rules),
         cmocka_unit_test(segment_words_keeps_words),
         cmocka_unit_test(segment_words_stops_and_rejects),
         cmocka_unit_test(opts_json_round_trip),
