@@ -7,6 +7,8 @@
 #include <isthmus/isthmus.h>
 #include <isthmus/testing.h>
 
+#include "json_int.h"
+
 /* ---- helpers ------------------------------------------------------------ */
 
 static double
@@ -486,6 +488,88 @@ test_allocation_failures(void **state)
     harness_rmdir(dir);
 }
 
+/* The result file holds the figures and the identity of the test list. */
+static void
+test_result_json(void **state)
+{
+    (void)state;
+    synth sy;
+    ist_align_opts ao;
+    ist_eval_opts eo;
+    ist_map *map;
+    ist_matrix *xs, *zt;
+    ist_error err;
+    ist_result_run runs[1];
+    ist_result_info info;
+    char *dir = harness_tmpdir(), path[512];
+    ist_jv *root;
+
+    snprintf(path, sizeof path, "%s/r.json", dir);
+    make_synth(&sy, 800, 12, 0.01, 21);
+    ist_pairs *seeds = range_pairs(&sy, 0, 200), *test = range_pairs(&sy, 600, 700);
+    ist_align_opts_init(&ao);
+    ao.refine_rounds = 0;
+    assert_int_equal(ist_align_fit(sy.src, sy.tgt, seeds, &ao, &map, &err), IST_OK);
+    assert_int_equal(ist_map_apply(map, sy.src, sy.tgt, &xs, &zt, &err), IST_OK);
+    ist_eval_opts_init(&eo);
+    eo.band_edges[0] = 650;   /* ranks 1-650 and 651+: 50 test words in each */
+    eo.nedges = 1;
+    runs[0].label = "procrustes";
+    assert_int_equal(ist_eval_run(ist_matrix_cview(xs), ist_matrix_cview(zt), test, &eo,
+                                  &runs[0].m, &err), IST_OK);
+    assert_int_equal(runs[0].m.band[0].queries, 50);
+    assert_int_equal(runs[0].m.band[1].queries, 50);
+    memset(&info, 0, sizeof info);
+    info.command = "score";
+    info.source_fingerprint = ist_store_fingerprint(sy.src);
+    assert_int_equal(ist_pairs_checksum(test, &info.test_checksum, &err), IST_OK);
+    assert_int_equal(ist_pairs_sources_hash(test, &info.test_sources_hash, &err), IST_OK);
+    info.options_json = "{\"retrieval\":\"csls\"}";
+    assert_int_equal(ist_result_write(path, &info, runs, 1, &err), IST_OK);
+    assert_int_equal(ist_json_parse_file(path, &root, &err), IST_OK);
+    char hex[17];
+    snprintf(hex, sizeof hex, "%016llx", (unsigned long long)info.test_checksum);
+    assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(root, "test"), "checksum"), ""), hex);
+    snprintf(hex, sizeof hex, "%016llx", (unsigned long long)info.source_fingerprint);
+    assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(ist_jv_get(root, "inputs"), "source"),
+                                              "fingerprint"), ""), hex);
+    const ist_jv *run = ist_jv_at(ist_jv_get(root, "runs"), 0);
+    assert_string_equal(ist_jv_str(ist_jv_get(run, "retrieval"), ""), "csls");
+    assert_float_equal(ist_jv_num(ist_jv_get(ist_jv_get(run, "precision"), "p@1"), -1),
+                       runs[0].m.p[0], 1e-12);
+    assert_int_equal(ist_jv_len(ist_jv_get(run, "bands")), 2);
+    assert_int_equal(ist_jv_type(ist_jv_get(ist_jv_at(ist_jv_get(run, "bands"), 1), "rank_to")),
+                     IST_JNULL);
+    assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(root, "options"), "retrieval"), ""),
+                        "csls");
+    ist_jv_free(root);
+    ist_matrix_free(xs);
+    ist_matrix_free(zt);
+    ist_map_free(map);
+    ist_pairs_free(seeds);
+    ist_pairs_free(test);
+    free_synth(&sy);
+    harness_rmdir(dir);
+}
+
+/* A stop request ends retrieval with IST_ERR_CANCELLED. */
+static void
+test_cancel(void **state)
+{
+    (void)state;
+    float q[32 * 8] = {0}, t[64 * 8] = {0};
+    ist_cmatview qv = {q, 32, 8, 8}, tv = {t, 64, 8, 8};
+    ist_topk *tk;
+    ist_error err;
+    ist_cancel_request();
+    assert_int_equal(ist_retrieve_topk(qv, tv, 3, 1.0f, NULL, NULL, NULL, &tk, &err),
+                     IST_ERR_CANCELLED);
+    assert_null(tk);
+    ist_cancel_reset();
+    assert_int_equal(ist_retrieve_topk(qv, tv, 3, 1.0f, NULL, NULL, NULL, &tk, &err), IST_OK);
+    ist_topk_free(tk);
+}
+
 int
 main(void)
 {
@@ -497,6 +581,8 @@ main(void)
         cmocka_unit_test(test_map_file_round_trip),
         cmocka_unit_test(test_procrustes_input_checks),
         cmocka_unit_test(test_allocation_failures),
+        cmocka_unit_test(test_result_json),
+        cmocka_unit_test(test_cancel),
     };
     HARNESS_RUN("align", tests);
 }
