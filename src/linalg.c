@@ -41,16 +41,20 @@ ist_linalg_gemm(bool ta, bool tb, float alpha, ist_cmatview a, ist_cmatview b, f
  * rectangular double matrix a (rows x cols, row-major, destroyed). */
 static ist_status
 svd_double(char jobz, double *a, size_t rows, size_t cols, double *s, double *u, double *vt,
-           ist_error *err)
+           bool *no_convergence, ist_error *err)
 {
     lapack_int info = LAPACKE_dgesdd(LAPACK_ROW_MAJOR, jobz, (lapack_int)rows, (lapack_int)cols,
                                      a, (lapack_int)cols, s, u, (lapack_int)rows, vt,
                                      (lapack_int)cols);
     if (info == 0)
         return IST_OK;
+    if (info == LAPACK_WORK_MEMORY_ERROR || info == LAPACK_TRANSPOSE_MEMORY_ERROR)
+        return ist_error_set(err, IST_ERR_NOMEM, "LAPACKE_dgesdd: out of memory for workspace");
     if (info < 0)
-        return ist_error_set(err, IST_ERR_INTERNAL, "LAPACKE_dgesdd: argument %d is invalid",
+        return ist_error_set(err, IST_ERR_NUMERIC, "LAPACKE_dgesdd: argument %d is invalid",
                              (int)-info);
+    if (no_convergence)
+        *no_convergence = true;
     return ist_error_set(err, IST_ERR_NUMERIC,
                          "LAPACKE_dgesdd: the SVD did not converge (info %d)", (int)info);
 }
@@ -72,7 +76,7 @@ ist_linalg_singular_values(ist_cmatview a, double *out, ist_error *err)
     for (size_t i = 0; i < a.rows; i++)
         for (size_t j = 0; j < a.cols; j++)
             d[i * a.cols + j] = a.data[i * a.stride + j];
-    rc = svd_double('N', d, a.rows, a.cols, out, NULL, NULL, err);
+    rc = svd_double('N', d, a.rows, a.cols, out, NULL, NULL, NULL, err);
     ist_free(d);
     return rc;
 }
@@ -184,8 +188,9 @@ ist_linalg_procrustes(ist_cmatview x, ist_cmatview z, ist_matview w, ist_procrus
     if (rc != IST_OK)
         goto done;
     memcpy(keep, m, d * d * sizeof *m);
-    rc = svd_double('A', m, d, d, s, u, vt, err);
-    if (rc == IST_ERR_NUMERIC) {
+    bool no_conv = false;
+    rc = svd_double('A', m, d, d, s, u, vt, &no_conv, err);
+    if (no_conv) {
         /* dgesdd's divide and conquer can fail where the QR iteration does not */
         double *superb = ist_malloc(d * sizeof *superb);
         if (!superb) {
