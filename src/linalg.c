@@ -1,6 +1,7 @@
 /* linalg.c - checked CBLAS/LAPACKE wrappers and orthogonal Procrustes. */
 #include <isthmus/linalg.h>
 
+#include <limits.h>
 #include <math.h>
 #include <string.h>
 
@@ -23,6 +24,9 @@ ist_linalg_gemm(bool ta, bool tb, float alpha, ist_cmatview a, ist_cmatview b, f
         return ist_error_set(err, IST_ERR_INVALID,
                              "gemm: shapes do not agree: %zu x %zu times %zu x %zu into %zu x %zu",
                              m, ka, kb, n, c.rows, c.cols);
+    if (m > INT_MAX || n > INT_MAX || ka > INT_MAX || a.stride > INT_MAX || b.stride > INT_MAX ||
+        c.stride > INT_MAX)
+        return ist_error_set(err, IST_ERR_INVALID, "gemm: a dimension exceeds the BLAS int range");
     if (m == 0 || n == 0)
         return IST_OK;
     if (ka == 0) {
