@@ -30,6 +30,7 @@ ist_eval_opts_init(ist_eval_opts *o)
     o->band_edges[0] = 5000;
     o->band_edges[1] = 20000;
     o->nedges = 2;
+    o->keep_queries = true;
     ist_retrieve_opts_init(&o->retrieve);
 }
 
@@ -88,7 +89,16 @@ setup_bands(ist_metrics *m, const ist_eval_opts *o)
     m->nbands++;
 }
 
-static void
+void
+ist_metrics_release(ist_metrics *m)
+{
+    ist_free(m->query_row);
+    ist_free(m->query_place);
+    m->query_row = NULL;
+    m->query_place = NULL;
+}
+
+static size_t
 tally(ist_metrics *m, const gold *g, size_t ng, const uint32_t *top, size_t k)
 {
     size_t pos = k, rank = g[0].s + 1;
@@ -111,6 +121,7 @@ tally(ist_metrics *m, const gold *g, size_t ng, const uint32_t *top, size_t k)
             m->hits[i]++;
             band->hits[i]++;
         }
+    return pos;
 }
 
 static void
@@ -181,8 +192,23 @@ ist_eval_run(ist_cmatview xs, ist_cmatview zt, const ist_pairs *test, const ist_
                            opts->neighbourhood, &opts->retrieve, &tk, err);
     if (rc != IST_OK)
         goto done;
-    for (size_t i = 0; i < nq; i++)
-        tally(out, g + first[i], first[i + 1] - first[i], ist_topk_index(tk, i), ist_topk_k(tk));
+    if (opts->keep_queries) {
+        out->query_row = ist_malloc((nq + 1) * sizeof *out->query_row);
+        out->query_place = ist_malloc(nq + 1);
+        if (!out->query_row || !out->query_place) {
+            ist_metrics_release(out);
+            rc = ist_error_nomem(err);
+            goto done;
+        }
+    }
+    for (size_t i = 0; i < nq; i++) {
+        size_t pos = tally(out, g + first[i], first[i + 1] - first[i], ist_topk_index(tk, i),
+                           ist_topk_k(tk));
+        if (out->query_row) {
+            out->query_row[i] = g[first[i]].s;
+            out->query_place[i] = (uint8_t)pos;
+        }
+    }
     finish(out);
 done:
     ist_topk_free(tk);

@@ -40,7 +40,27 @@ write_precision(ist_jw *w, const size_t *hits, const double *p)
 }
 
 static void
-write_run(ist_jw *w, const ist_result_run *r)
+write_queries(ist_jw *w, const ist_metrics *m, const ist_store *src)
+{
+    if (!m->query_row)
+        return;
+    ist_jw_arr_begin(w, "per_query");
+    for (size_t i = 0; i < m->queries; i++) {
+        ist_jw_obj_begin(w, NULL);
+        if (src && m->query_row[i] < ist_store_rows(src))
+            ist_jw_str(w, "source", ist_store_word(src, m->query_row[i]));
+        ist_jw_uint(w, "rank", m->query_row[i] + 1);
+        if (m->query_place[i] < ist_metrics_k(IST_METRICS_NK - 1))
+            ist_jw_uint(w, "first_gold", (uint64_t)m->query_place[i] + 1);
+        else
+            ist_jw_null(w, "first_gold");
+        ist_jw_obj_end(w);
+    }
+    ist_jw_arr_end(w);
+}
+
+static void
+write_run(ist_jw *w, const ist_result_run *r, const ist_store *src)
 {
     const ist_metrics *m = &r->m;
     ist_jw_obj_begin(w, NULL);
@@ -64,6 +84,7 @@ write_run(ist_jw *w, const ist_result_run *r)
         ist_jw_obj_end(w);
     }
     ist_jw_arr_end(w);
+    write_queries(w, m, src);
     ist_jw_obj_end(w);
 }
 
@@ -127,7 +148,7 @@ ist_result_write(const char *path, const ist_result_info *in, const ist_result_r
         ist_jw_raw(&w, "map", in->map_json);
     ist_jw_arr_begin(&w, "runs");
     for (size_t i = 0; i < nruns; i++)
-        write_run(&w, &runs[i]);
+        write_run(&w, &runs[i], in->source);
     ist_jw_arr_end(&w);
     ist_jw_obj_end(&w);
     rc = ist_jw_finish(&w, &text, err);

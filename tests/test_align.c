@@ -161,6 +161,9 @@ test_synthetic_rotation(void **state)
         assert_true(m.coverage == 1.0);
         assert_true(m.p[0] >= 0.99);
         assert_int_equal(m.band[0].queries, 2500);   /* all ranks below 5000 */
+        assert_int_equal(m.query_row[0], 500);
+        assert_int_equal(m.query_place[0], 0);
+        ist_metrics_release(&m);
     }
     ist_matrix_free(xs);
     ist_matrix_free(zt);
@@ -542,7 +545,11 @@ test_result_json(void **state)
                      IST_JNULL);
     assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(root, "options"), "retrieval"), ""),
                         "csls");
+    const ist_jv *pq = ist_jv_get(run, "per_query");
+    assert_int_equal(ist_jv_len(pq), 100);
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "rank"), 0), 601);
     ist_jv_free(root);
+    ist_metrics_release(&runs[0].m);
     ist_matrix_free(xs);
     ist_matrix_free(zt);
     ist_map_free(map);

@@ -249,9 +249,9 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
 
 static int
 evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
-         const ist_pairs *seeds, ist_pairs *test, const ist_pairs_coverage *tcov)
+         const ist_pairs *seeds, ist_pairs *test, const ist_pairs_coverage *tcov,
+         ist_result_run *runs, size_t *nrun_out)
 {
-    ist_result_run runs[4];
     size_t nruns = 0, shared = 0;
     ist_map *seed_only = NULL;
     ist_error err;
@@ -266,6 +266,7 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
         ist_map_free(seed_only);
         if (rc == 0 && ist_map_rounds(map) > 0)
             rc = ac_score(CMD, "refined", &a->c, map, s, t, test, runs, &nruns);
+        *nrun_out = nruns;
         if (rc != 0)
             return rc;
         ac_print_runs(runs, nruns);
@@ -307,6 +308,7 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     info.overlap_allowed = a->c.allow_overlap;
     info.options_json = opts;
     info.map_json = mj;
+    info.source = s;
     rc = ist_result_write(a->c.json_out, &info, runs, nruns, &err) == IST_OK
              ? 0
              : cli_report(CMD, &err);
@@ -321,6 +323,8 @@ run(int argc, char **argv)
     ist_store *s = NULL, *t = NULL;
     ist_pairs *seeds = NULL, *test = NULL;
     ist_pairs_coverage tcov;
+    ist_result_run runs[4];
+    size_t nruns = 0;
     ist_align_opts ao;
     ist_map *map = NULL;
     ist_error err;
@@ -382,8 +386,10 @@ run(int argc, char **argv)
         }
         ist_matrix_free(xs);
     }
-    rc = evaluate(&a, map, s, t, seeds, test, &tcov);
+    rc = evaluate(&a, map, s, t, seeds, test, &tcov, runs, &nruns);
 done:
+    for (size_t i = 0; i < nruns; i++)
+        ist_metrics_release(&runs[i].m);
     ist_map_free(map);
     ist_pairs_free(seeds);
     ist_pairs_free(test);

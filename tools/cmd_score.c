@@ -38,7 +38,7 @@ help(FILE *out)
 enum { OPT_MAP = 1, OPT_TEST, OPT_STAGE };
 
 static int
-write_json(const ac_common *c, char **argv, const char *mpath, const char *tpath, const ist_map *map,
+write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath, const char *tpath, const ist_map *map,
            const ist_pairs *test, const ist_pairs_coverage *cov, size_t shared,
            const ist_result_run *runs, size_t nruns, const char *stage)
 {
@@ -71,6 +71,7 @@ write_json(const ac_common *c, char **argv, const char *mpath, const char *tpath
     info.overlap_allowed = c->allow_overlap;
     info.options_json = opts;
     info.map_json = mj;
+    info.source = src;
     rc = ist_result_write(c->json_out, &info, runs, nruns, &err) == IST_OK
              ? 0
              : cli_report(CMD, &err);
@@ -157,8 +158,10 @@ run(int argc, char **argv)
         goto done;
     ac_print_runs(runs, nruns);
     if (c.json_out)
-        rc = write_json(&c, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns, stages[stage]);
+        rc = write_json(&c, s, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns, stages[stage]);
 done:
+    for (size_t i = 0; i < nruns; i++)
+        ist_metrics_release(&runs[i].m);
     ist_map_free(seed_only);
     ist_map_free(map);
     ist_pairs_free(test);

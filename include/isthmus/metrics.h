@@ -19,6 +19,7 @@
 #include <isthmus/matrix.h>
 #include <isthmus/pairs.h>
 #include <isthmus/retrieve.h>
+#include <isthmus/store.h>
 
 #ifdef __cplusplus
 extern "C" {
@@ -47,13 +48,23 @@ typedef struct ist_metrics {
     double p[IST_METRICS_NK];
     size_t nbands;
     ist_band band[IST_METRICS_MAX_BANDS];
+    /* per query (when ist_eval_opts.keep_queries): its source row, ascending, and the
+     * 0-based place of its first gold target in its top 10 (10: none). Owned; release
+     * with ist_metrics_release(). They let two runs on one list be compared query by
+     * query (paired resampling). */
+    size_t *query_row;
+    uint8_t *query_place;
 } ist_metrics;
+
+/** Release the per-query arrays of m (and set them to NULL). */
+IST_API void ist_metrics_release(ist_metrics *m);
 
 typedef struct ist_eval_opts {
     ist_retrieval method;          /* [CSLS] */
     size_t neighbourhood;          /* CSLS k [10] */
     size_t band_edges[IST_METRICS_MAX_BANDS - 1];  /* upper ranks of the bands [5000, 20000] */
     size_t nedges;                 /* [2] */
+    bool keep_queries;             /* fill query_row / query_place [true] */
     ist_retrieve_opts retrieve;
 } ist_eval_opts;
 
@@ -87,6 +98,7 @@ typedef struct ist_result_info {
     bool overlap_allowed;
     size_t overlap;                       /* test source words also in the seeds */
     const char *options_json;             /* the options as a JSON object, or NULL */
+    const ist_store *source;              /* names the per-query source words; may be NULL */
     const char *map_json;                 /* map summary as a JSON object, or NULL */
 } ist_result_info;
 
