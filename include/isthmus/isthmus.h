@@ -7,6 +7,7 @@
 #include <isthmus/matrix.h>
 #include <isthmus/vocab.h>
 #include <isthmus/store.h>
+#include <isthmus/sgns.h>
 
 #ifdef __cplusplus
 extern "C" {

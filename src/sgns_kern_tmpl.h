@@ -1,0 +1,105 @@
+/* sgns_kern_tmpl.h - the three kernels of the FAST skip-gram path, written once and
+ * included by sgns_kern.c for each instruction set with these macros defined:
+ *   KFN(name)     function name for this set        KTARGET   target attribute (or nothing)
+ *   V, VW         vector type and its float lanes   VZERO     all-zero vector
+ *   VLOAD(p)      load VW floats                    VSTORE(p, v)  store them
+ *   VBCAST(x)     x in every lane                   VFMA(a, b, c) a * b + c
+ *   VSUM(v)       sum of the lanes
+ * Lengths are multiples of 16 floats, so of VW. Register tiles: 2 x 3 for the dot products
+ * (5 loads per 6 multiply-adds), 2 x 3 for the accumulations. */
+
+KTARGET static void
+KFN(dots)(const float *const *x, size_t m, const float *const *y, size_t n, size_t len, float *s)
+{
+    for (size_t j = 0; j < m; j += 2) {
+        const float *x0 = x[j], *x1 = x[j + 1 < m ? j + 1 : j];
+        for (size_t k = 0; k < n; k += 3) {
+            const float *y0 = y[k], *y1 = y[k + 1 < n ? k + 1 : k], *y2 = y[k + 2 < n ? k + 2 : k];
+            V a00 = VZERO, a01 = VZERO, a02 = VZERO, a10 = VZERO, a11 = VZERO, a12 = VZERO;
+            for (size_t d = 0; d < len; d += VW) {
+                V p = VLOAD(x0 + d), q = VLOAD(x1 + d);
+                V b = VLOAD(y0 + d);
+                a00 = VFMA(p, b, a00);
+                a10 = VFMA(q, b, a10);
+                b = VLOAD(y1 + d);
+                a01 = VFMA(p, b, a01);
+                a11 = VFMA(q, b, a11);
+                b = VLOAD(y2 + d);
+                a02 = VFMA(p, b, a02);
+                a12 = VFMA(q, b, a12);
+            }
+            float *r0 = s + j * n + k, *r1 = r0 + n;
+            r0[0] = VSUM(a00);
+            if (k + 1 < n)
+                r0[1] = VSUM(a01);
+            if (k + 2 < n)
+                r0[2] = VSUM(a02);
+            if (j + 1 < m) {
+                r1[0] = VSUM(a10);
+                if (k + 1 < n)
+                    r1[1] = VSUM(a11);
+                if (k + 2 < n)
+                    r1[2] = VSUM(a12);
+            }
+        }
+    }
+}
+
+/* One output row: out += sum_b c[b] in_b. */
+KTARGET static void
+KFN(acc1)(float *out, const float *const *in, size_t nb, const float *c, size_t len)
+{
+    for (size_t b = 0; b < nb; b += 3) {
+        const float *i0 = in[b], *i1 = in[b + 1 < nb ? b + 1 : b], *i2 = in[b + 2 < nb ? b + 2 : b];
+        V c0 = VBCAST(c[b]), c1 = VBCAST(b + 1 < nb ? c[b + 1] : 0.0f);
+        V c2 = VBCAST(b + 2 < nb ? c[b + 2] : 0.0f);
+        for (size_t d = 0; d < len; d += VW) {
+            V o = VLOAD(out + d);
+            o = VFMA(c0, VLOAD(i0 + d), o);
+            o = VFMA(c1, VLOAD(i1 + d), o);
+            o = VFMA(c2, VLOAD(i2 + d), o);
+            VSTORE(out + d, o);
+        }
+    }
+}
+
+KTARGET static void
+KFN(acc)(float *const *out, size_t na, const float *const *in, size_t nb, const float *c,
+         size_t len)
+{
+    size_t a = 0;
+    for (; a + 1 < na; a += 2) {
+        float *o0 = out[a], *o1 = out[a + 1];
+        const float *ca = c + a * nb, *cb = ca + nb;
+        for (size_t b = 0; b < nb; b += 3) {
+            const float *i0 = in[b], *i1 = in[b + 1 < nb ? b + 1 : b];
+            const float *i2 = in[b + 2 < nb ? b + 2 : b];
+            V c00 = VBCAST(ca[b]), c10 = VBCAST(cb[b]);
+            V c01 = VBCAST(b + 1 < nb ? ca[b + 1] : 0.0f), c11 = VBCAST(b + 1 < nb ? cb[b + 1] : 0.0f);
+            V c02 = VBCAST(b + 2 < nb ? ca[b + 2] : 0.0f), c12 = VBCAST(b + 2 < nb ? cb[b + 2] : 0.0f);
+            for (size_t d = 0; d < len; d += VW) {
+                V p = VLOAD(o0 + d), q = VLOAD(o1 + d);
+                V v = VLOAD(i0 + d);
+                p = VFMA(c00, v, p);
+                q = VFMA(c10, v, q);
+                v = VLOAD(i1 + d);
+                p = VFMA(c01, v, p);
+                q = VFMA(c11, v, q);
+                v = VLOAD(i2 + d);
+                p = VFMA(c02, v, p);
+                q = VFMA(c12, v, q);
+                VSTORE(o0 + d, p);
+                VSTORE(o1 + d, q);
+            }
+        }
+    }
+    if (a < na)
+        KFN(acc1)(out[a], in, nb, c + a * nb, len);
+}
+
+KTARGET static void
+KFN(add)(float *y, const float *x, size_t len)
+{
+    for (size_t d = 0; d < len; d += VW)
+        VSTORE(y + d, VLOAD(y + d) + VLOAD(x + d));
+}
