@@ -5,42 +5,37 @@
  *   VLOAD(p)      load VW floats                    VSTORE(p, v)  store them
  *   VBCAST(x)     x in every lane                   VFMA(a, b, c) a * b + c
  *   VSUM(v)       sum of the lanes
- * Lengths are multiples of 16 floats, so of VW. Register tiles: 2 x 3 for the dot products
- * (5 loads per 6 multiply-adds), 2 x 3 for the accumulations. */
+ * Lengths are multiples of 16 floats, so of VW. Register tiles: 3 x 3 for the dot products
+ * (6 loads per 9 multiply-adds), 2 x 3 for the accumulations. */
 
 KTARGET static void
 KFN(dots)(const float *const *x, size_t m, const float *const *y, size_t n, size_t len, float *s)
 {
-    for (size_t j = 0; j < m; j += 2) {
-        const float *x0 = x[j], *x1 = x[j + 1 < m ? j + 1 : j];
+    for (size_t j = 0; j < m; j += 3) {
+        const float *x0 = x[j], *x1 = x[j + 1 < m ? j + 1 : j], *x2 = x[j + 2 < m ? j + 2 : j];
         for (size_t k = 0; k < n; k += 3) {
             const float *y0 = y[k], *y1 = y[k + 1 < n ? k + 1 : k], *y2 = y[k + 2 < n ? k + 2 : k];
             V a00 = VZERO, a01 = VZERO, a02 = VZERO, a10 = VZERO, a11 = VZERO, a12 = VZERO;
+            V a20 = VZERO, a21 = VZERO, a22 = VZERO;
             for (size_t d = 0; d < len; d += VW) {
-                V p = VLOAD(x0 + d), q = VLOAD(x1 + d);
+                V p = VLOAD(x0 + d), q = VLOAD(x1 + d), t = VLOAD(x2 + d);
                 V b = VLOAD(y0 + d);
                 a00 = VFMA(p, b, a00);
                 a10 = VFMA(q, b, a10);
+                a20 = VFMA(t, b, a20);
                 b = VLOAD(y1 + d);
                 a01 = VFMA(p, b, a01);
                 a11 = VFMA(q, b, a11);
+                a21 = VFMA(t, b, a21);
                 b = VLOAD(y2 + d);
                 a02 = VFMA(p, b, a02);
                 a12 = VFMA(q, b, a12);
+                a22 = VFMA(t, b, a22);
             }
-            float *r0 = s + j * n + k, *r1 = r0 + n;
-            r0[0] = VSUM(a00);
-            if (k + 1 < n)
-                r0[1] = VSUM(a01);
-            if (k + 2 < n)
-                r0[2] = VSUM(a02);
-            if (j + 1 < m) {
-                r1[0] = VSUM(a10);
-                if (k + 1 < n)
-                    r1[1] = VSUM(a11);
-                if (k + 2 < n)
-                    r1[2] = VSUM(a12);
-            }
+            V acc[3][3] = {{a00, a01, a02}, {a10, a11, a12}, {a20, a21, a22}};
+            for (size_t jj = 0; jj < 3 && j + jj < m; jj++)
+                for (size_t kk = 0; kk < 3 && k + kk < n; kk++)
+                    s[(j + jj) * n + k + kk] = VSUM(acc[jj][kk]);
         }
     }
 }

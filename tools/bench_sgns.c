@@ -1,0 +1,321 @@
+/* bench_sgns.c - speed and memory of skip-gram training, fast path against the per-pair
+ * reference loop, in one run on one machine (docs/performance.md, section "Training").
+ *
+ * Usage: bench-sgns [--text FILE] [--tokens N] [--dims LIST] [--threads LIST]
+ *   --text FILE   one line per sentence, words separated by spaces (e.g. the English Bible
+ *                 extracted one verse per line); repeated until N tokens. Without it, or when
+ *                 $ISTHMUS_BENCH_TEXT is unset too, a synthetic Zipfian stream is used.
+ *   --tokens N    stream length [default 10000000]
+ * Prints words/s (stream words, counted before subsampling), the useful flop rate against
+ * this machine's single-precision GEMM rate measured here with cblas_sgemm, and peak resident
+ * memory against the floor 2 x vocabulary x dim x 4 bytes + the id stream. */
+#include <cblas.h>
+#include <stdio.h>
+#include <sys/resource.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+
+#include <isthmus/isthmus.h>
+
+static double
+now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + (double)ts.tv_nsec * 1e-9;
+}
+
+/* CPU seconds of the whole process (all threads, user + system): on a machine shared with
+ * other work, rates per CPU-second are what the code achieves while it runs. */
+static double
+cpu_seconds(void)
+{
+    struct rusage ru;
+    getrusage(RUSAGE_SELF, &ru);
+    return (double)ru.ru_utime.tv_sec + (double)ru.ru_utime.tv_usec * 1e-6 +
+           (double)ru.ru_stime.tv_sec + (double)ru.ru_stime.tv_usec * 1e-6;
+}
+
+/* Peak resident set since the last reset, in bytes (VmHWM; reset via clear_refs = 5). */
+static double
+peak_rss(void)
+{
+    FILE *f = fopen("/proc/self/status", "r");
+    char line[256];
+    double kb = 0;
+    while (f && fgets(line, sizeof line, f))
+        if (strncmp(line, "VmHWM:", 6) == 0)
+            kb = atof(line + 6);
+    if (f)
+        fclose(f);
+    return kb * 1024.0;
+}
+
+static void
+reset_peak(void)
+{
+    FILE *f = fopen("/proc/self/clear_refs", "w");
+    if (f) {
+        fputs("5", f);
+        fclose(f);
+    }
+}
+
+typedef struct stream {
+    uint32_t *ids;
+    size_t n, cap;
+    uint64_t *counts;
+    size_t vocab;
+    const char *what;
+} stream;
+
+static void
+push(stream *s, uint32_t id)
+{
+    if (s->n == s->cap) {
+        s->cap = s->cap ? 2 * s->cap : 1 << 20;
+        s->ids = realloc(s->ids, s->cap * sizeof *s->ids);
+        if (!s->ids) {
+            perror("bench-sgns");
+            exit(1);
+        }
+    }
+    s->ids[s->n++] = id;
+}
+
+/* Words of the text, vocabulary pruned at count 5 (frequency order), repeated to `tokens`. */
+static int
+load_text(const char *path, size_t tokens, stream *s)
+{
+    FILE *f = fopen(path, "r");
+    ist_vocab *v;
+    ist_error err;
+    char *line = NULL;
+    size_t cap = 0;
+    stream once = {0};
+    if (!f) {
+        perror(path);
+        return -1;
+    }
+    ist_vocab_new(&v, &err);
+    while (getline(&line, &cap, f) > 0) {
+        for (char *tok = strtok(line, " \t\r\n"); tok; tok = strtok(NULL, " \t\r\n")) {
+            uint32_t id;
+            if (ist_vocab_add(v, tok, strlen(tok), 1, &id, &err) != IST_OK) {
+                fprintf(stderr, "bench-sgns: %s\n", err.msg);
+                return -1;
+            }
+            push(&once, id);
+        }
+        push(&once, IST_CORPUS_EOL);
+    }
+    free(line);
+    fclose(f);
+    size_t n0 = ist_vocab_size(v);
+    uint32_t *remap = malloc(n0 * sizeof *remap);
+    if (ist_vocab_sort_prune(v, 5, 0, remap, &err) != IST_OK) {
+        fprintf(stderr, "bench-sgns: %s\n", err.msg);
+        return -1;
+    }
+    s->vocab = ist_vocab_size(v);
+    s->counts = calloc(s->vocab, sizeof *s->counts);
+    size_t words = 0;
+    for (size_t i = 0; i < once.n; i++)
+        if (once.ids[i] != IST_CORPUS_EOL && remap[once.ids[i]] != UINT32_MAX)
+            words++;
+    while (s->n < tokens) {
+        size_t kept = 0;
+        for (size_t i = 0; i < once.n; i++) {
+            uint32_t id = once.ids[i];
+            if (id == IST_CORPUS_EOL) {
+                push(s, id);
+                continue;
+            }
+            if ((id = remap[id]) == UINT32_MAX)
+                continue;
+            push(s, id);
+            s->counts[id]++;
+            kept++;
+        }
+        if (kept == 0)
+            break;
+    }
+    fprintf(stdout, "stream: %s, %zu words of text (%zu types, %zu with count >= 5), repeated "
+                    "to %zu ids\n", path, words, n0, s->vocab, s->n);
+    s->what = path;
+    free(remap);
+    free(once.ids);
+    ist_vocab_free(v);
+    return 0;
+}
+
+/* Zipf(1) over 20,000 ids, lines of 25 words. */
+static void
+synthetic(size_t tokens, stream *s)
+{
+    size_t V = 20000;
+    double *cum = malloc(V * sizeof *cum), tot = 0;
+    uint64_t r = 12345;
+    for (size_t v = 0; v < V; v++)
+        cum[v] = (tot += 1.0 / (double)(v + 1));
+    s->vocab = V;
+    s->counts = calloc(V, sizeof *s->counts);
+    for (size_t i = 0; i < tokens; i++) {
+        r ^= r << 13, r ^= r >> 7, r ^= r << 17;
+        double u = (double)(r >> 11) / 9007199254740992.0 * tot;
+        size_t lo = 0, hi = V - 1;
+        while (lo < hi) {
+            size_t mid = (lo + hi) / 2;
+            if (cum[mid] < u)
+                lo = mid + 1;
+            else
+                hi = mid;
+        }
+        push(s, (uint32_t)lo);
+        s->counts[lo]++;
+        if (i % 25 == 24)
+            push(s, IST_CORPUS_EOL);
+    }
+    free(cum);
+    s->what = "synthetic Zipf(1) ids, 20000 types";
+    printf("stream: %s, %zu ids\n", s->what, s->n);
+}
+
+/* Best of three n x n x n single-precision products: flop/s of wall time, and *cpu_rate
+ * flop/s per CPU-second (per thread). */
+static double
+gemm_rate(int threads, double *cpu_rate)
+{
+    const int n = 1536;
+    float *a = malloc(sizeof(float) * n * n), *b = malloc(sizeof(float) * n * n);
+    float *c = malloc(sizeof(float) * n * n);
+    for (int i = 0; i < n * n; i++)
+        a[i] = (float)(i % 7) * 0.1f, b[i] = (float)(i % 5) * 0.2f, c[i] = 0;
+    openblas_set_num_threads(threads);
+    double best = 1e30, best_cpu = 1e30;
+    for (int rep = 0; rep < 4; rep++) {
+        double t = now(), u = cpu_seconds();
+        cblas_sgemm(CblasRowMajor, CblasNoTrans, CblasTrans, n, n, n, 1.0f, a, n, b, n, 0.0f, c,
+                    n);
+        t = now() - t;
+        u = cpu_seconds() - u;
+        if (rep > 0 && t < best)     /* the first call warms up */
+            best = t;
+        if (rep > 0 && u < best_cpu)
+            best_cpu = u;
+    }
+    free(a), free(b), free(c);
+    *cpu_rate = 2.0 * n * (double)n * n / best_cpu;
+    return 2.0 * n * (double)n * n / best;
+}
+
+typedef struct row {
+    int fast;
+    size_t dim, threads;
+    double wps, cpu_wps, flops, cpu_flops, rss, floor_;
+} row;
+
+int
+main(int argc, char **argv)
+{
+    const char *text = getenv("ISTHMUS_BENCH_TEXT");
+    size_t tokens = 10000000, dims[2] = {100, 300}, nthr[2] = {1, 2};
+    stream s = {0};
+    row rows[8];
+    int nr = 0, only_kernel = -1;
+    size_t only_dim = 0, only_threads = 0;
+
+    for (int i = 1; i < argc; i++) {
+        if (strcmp(argv[i], "--text") == 0 && i + 1 < argc)
+            text = argv[++i];
+        else if (strcmp(argv[i], "--tokens") == 0 && i + 1 < argc)
+            tokens = strtoull(argv[++i], NULL, 10);
+        else if (strcmp(argv[i], "--only") == 0 && i + 3 < argc) {   /* kernel dim threads */
+            only_kernel = strcmp(argv[++i], "fast") == 0 ? 0 : 1;
+            only_dim = strtoull(argv[++i], NULL, 10);
+            only_threads = strtoull(argv[++i], NULL, 10);
+        }
+        else {
+            fprintf(stderr, "usage: bench-sgns [--text FILE] [--tokens N]\n");
+            return 2;
+        }
+    }
+    if (text && *text) {
+        if (load_text(text, tokens, &s) != 0)
+            return 1;
+    } else {
+        synthetic(tokens, &s);
+    }
+    const char *ct = getenv("OPENBLAS_CORETYPE"), *l2 = getenv("OPENBLAS_L2_SIZE");
+    printf("OPENBLAS_CORETYPE=%s OPENBLAS_L2_SIZE=%s; OpenBLAS core %s; config %s\n",
+           ct ? ct : "(unset)", l2 ? l2 : "(unset)", openblas_get_corename(),
+           openblas_get_config());
+    printf("fast-path kernels: %s\n", ist_sgns_simd_name());
+    double c1, c2, g1 = gemm_rate(1, &c1), g2 = gemm_rate(2, &c2);
+    printf("cblas_sgemm 1536^3: %.1f GFLOP/s on 1 thread, %.1f on 2 threads (wall); "
+           "%.1f and %.1f GFLOP per CPU-second\n", g1 * 1e-9, g2 * 1e-9, c1 * 1e-9, c2 * 1e-9);
+    openblas_set_num_threads(1);
+    printf("training: 1 epoch, window 5, 5 noise samples, subsampling 1e-4, lr 0.025\n\n");
+    printf("words/s: wall clock; words/cpu-s: per CPU-second, i.e. per busy thread; %%GEMM: "
+           "GFLOP per CPU-second / GEMM's\n");
+    printf("%-9s %4s %3s %10s %14s %12s %8s %7s %8s %8s\n", "kernel", "dim", "thr", "words/s",
+           "words/s/thread", "words/cpu-s", "GFLOP/s", "%GEMM", "peak MB", "floor MB");
+    for (int di = 0; di < 2; di++)
+        for (int ti = 0; ti < 2; ti++)
+            for (int k = 0; k < 2; k++) {
+                ist_sgns_opts o;
+                ist_sgns_result res;
+                ist_matrix *m = NULL;
+                ist_error err;
+                if (only_kernel >= 0 &&
+                    (k != only_kernel || dims[di] != only_dim || nthr[ti] != only_threads))
+                    continue;
+                ist_sgns_opts_init(&o);
+                o.dim = dims[di];
+                o.threads = nthr[ti];
+                o.epochs = 1;
+                o.kernel = k == 0 ? IST_SGNS_FAST : IST_SGNS_REFERENCE;
+                reset_peak();
+                double u0 = cpu_seconds();
+                if (ist_sgns_train(s.ids, s.n, s.counts, s.vocab, &o, &m, NULL, &res, &err) !=
+                    IST_OK) {
+                    fprintf(stderr, "bench-sgns: %s\n", err.msg);
+                    return 1;
+                }
+                double cpu = cpu_seconds() - u0;
+                row *r = &rows[nr++];
+                r->fast = k == 0;
+                r->dim = o.dim;
+                r->threads = o.threads;
+                r->wps = res.words_per_sec;
+                /* per pair: dot product, output update, input-gradient update: 3 x 2 dim */
+                r->flops = (double)res.pairs * 6.0 * (double)o.dim / res.seconds;
+                r->cpu_wps = (double)res.words_seen / cpu;
+                r->cpu_flops = (double)res.pairs * 6.0 * (double)o.dim / cpu;
+                r->rss = peak_rss();
+                r->floor_ = 2.0 * (double)s.vocab * (double)o.dim * 4 + (double)s.n * 4;
+                double g = o.threads == 1 ? c1 : c2;
+                printf("%-9s %4zu %3zu %10.0f %14.0f %12.0f %8.2f %6.1f%% %8.1f %8.1f\n",
+                       r->fast ? "fast" : "reference", r->dim, r->threads, r->wps,
+                       r->wps / (double)r->threads, r->cpu_wps, r->flops * 1e-9,
+                       100.0 * r->cpu_flops / g, r->rss / 1048576.0, r->floor_ / 1048576.0);
+                fflush(stdout);
+                ist_matrix_free(m);
+            }
+    if (only_kernel >= 0)
+        return 0;
+    printf("\nratios (same run):\n");
+    for (int i = 0; i < nr; i += 2)
+        printf("  dim %3zu, %zu thread%s: fast / reference = %.2f (wall), %.2f (per CPU-second)\n",
+               rows[i].dim, rows[i].threads, rows[i].threads > 1 ? "s" : " ",
+               rows[i].wps / rows[i + 1].wps, rows[i].cpu_wps / rows[i + 1].cpu_wps);
+    for (int i = 0; i < nr; i++)
+        if (rows[i].threads == 1)
+            printf("  %-9s dim %3zu: 2 threads / 1 thread = %.2f (wall); per CPU-second %.2f\n",
+                   rows[i].fast ? "fast" : "reference", rows[i].dim, rows[i + 2].wps / rows[i].wps,
+                   rows[i + 2].cpu_wps / rows[i].cpu_wps);
+    free(s.ids);
+    free(s.counts);
+    return 0;
+}
