@@ -16,13 +16,12 @@
 #include "matrix_int.h"
 #include "sgns_int.h"
 
-
-
 #define SENT_MAX 1024          /* kept words per window unit; longer lines are cut */
 #define PUBLISH_EVERY 10000    /* stream words between updates of the shared counters */
 #define SIG_RANGE 8.0f         /* sigmoid table covers [-8, 8] */
 #define SIG_SIZE 2048
 #define LR_FLOOR 1e-4
+#define LOSS_EVERY_MASK 7      /* the loss (for progress only) is summed on every 8th window */
 #define MAX_THREADS 256
 #define MAX_DIM 10000
 #define MAX_WINDOW 1000
@@ -180,7 +179,7 @@ typedef struct worker {
     pthread_t thread;
     bool started;
     /* since the last publication */
-    uint64_t words, trained, pairs, loss_n;
+    uint64_t words, trained, pairs, loss_n, windows;
     double loss;
 } worker;
 
@@ -219,6 +218,17 @@ grad_loss(const shared *sh, float x, int label, double *loss)
     return (float)label - s;
 }
 
+/* Gradient factor alone. */
+static inline float
+grad_only(const shared *sh, float x, int label)
+{
+    if (x >= SIG_RANGE)
+        return label ? 0.0f : -1.0f;
+    if (x <= -SIG_RANGE)
+        return label ? 1.0f : 0.0f;
+    return (float)label - sh->sig[sig_index(x)];
+}
+
 static double
 current_lr(const shared *sh, uint64_t done)
 {
@@ -241,6 +251,7 @@ window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
     size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, dim = sh->dim;
     uint32_t centre = w->sent[i];
     float *grad = w->dx;
+    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;
 
     for (size_t j = lo; j < hi; j++) {
         if (j == i)
@@ -255,7 +266,8 @@ window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
 #pragma omp simd reduction(+ : dot)
             for (size_t c = 0; c < dim; c++)
                 dot += x[c] * y[c];
-            float g = grad_loss(sh, dot, d == 0, &w->loss) * lr;
+            float g = sample ? grad_loss(sh, dot, d == 0, &w->loss) : grad_only(sh, dot, d == 0);
+            g *= lr;
 #pragma omp simd
             for (size_t c = 0; c < dim; c++)
                 grad[c] += g * y[c];
@@ -263,7 +275,7 @@ window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
             for (size_t c = 0; c < dim; c++)
                 y[c] += g * x[c];
             w->pairs++;
-            w->loss_n++;
+            w->loss_n += sample;
         }
 #pragma omp simd
         for (size_t c = 0; c < dim; c++)
@@ -336,11 +348,18 @@ window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
         w->yw[k] = y;
     }
     v->dots(w->xr, m, w->yr, no, len, w->s);
+    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;   /* loss on every 8th window */
     for (size_t j = 0; j < m; j++) {
         for (size_t k = 0; k < no; k++) {
-            double l = 0.0;
-            float g = grad_loss(sh, w->s[j * no + k], k == 0, &l) * lr * (float)w->mult[k];
-            w->loss += l * w->mult[k];
+            float x = w->s[j * no + k], g;
+            if (sample) {
+                double l = 0.0;
+                g = grad_loss(sh, x, k == 0, &l);
+                w->loss += l * w->mult[k];
+            } else {
+                g = grad_only(sh, x, k == 0);
+            }
+            g *= lr * (float)w->mult[k];
             w->g[j * no + k] = g;
             w->gt[k * m + j] = g;
         }
@@ -351,7 +370,8 @@ window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
     for (size_t j = 0; j < m; j++)                 /* X += dX, row by row: contexts may repeat */
         v->add(w->xw[j], w->dxr[j], len);
     w->pairs += m * drawn;
-    w->loss_n += m * drawn;
+    if (sample)
+        w->loss_n += m * drawn;
 }
 
 /* ---- threads ---------------------------------------------------------------------------- */
@@ -574,8 +594,8 @@ worker_alloc(worker *w, const shared *sh, ist_error *err)
     w->g = ist_malloc(m * no * sizeof *w->g);
     w->gt = ist_malloc(m * no * sizeof *w->gt);
     w->dx = ist_aligned_alloc(rows * sh->stride * sizeof *w->dx);
-    if (!w->xr || !w->xw || !w->dxr || !w->yr || !w->yw || !w->outs || !w->mult || !w->pre || !w->s ||
-        !w->g || !w->gt || !w->dx)
+    if (!w->xr || !w->xw || !w->dxr || !w->yr || !w->yw || !w->outs || !w->mult || !w->pre ||
+        !w->s || !w->g || !w->gt || !w->dx)
         return ist_error_nomem(err);
     for (size_t j = 0; j < m; j++)
         w->dxr[j] = w->dx + j * sh->stride;

@@ -6,7 +6,8 @@
  *   VBCAST(x)     x in every lane                   VFMA(a, b, c) a * b + c
  *   VSUM(v)       sum of the lanes
  * Lengths are multiples of 16 floats, so of VW. Register tiles: 3 x 3 for the dot products
- * (6 loads per 9 multiply-adds), 2 x 3 for the accumulations. */
+ * (6 loads per 9 multiply-adds), 3 x 3 for the accumulations (rows past a multiple of 3 go
+ * one by one). */
 
 KTARGET static void
 KFN(dots)(const float *const *x, size_t m, const float *const *y, size_t n, size_t len, float *s)
@@ -63,32 +64,39 @@ KFN(acc)(float *const *out, size_t na, const float *const *in, size_t nb, const 
          size_t len)
 {
     size_t a = 0;
-    for (; a + 1 < na; a += 2) {
-        float *o0 = out[a], *o1 = out[a + 1];
-        const float *ca = c + a * nb, *cb = ca + nb;
+    for (; a + 2 < na; a += 3) {
+        float *o0 = out[a], *o1 = out[a + 1], *o2 = out[a + 2];
+        const float *ca = c + a * nb, *cb = ca + nb, *cc = cb + nb;
         for (size_t b = 0; b < nb; b += 3) {
             const float *i0 = in[b], *i1 = in[b + 1 < nb ? b + 1 : b];
             const float *i2 = in[b + 2 < nb ? b + 2 : b];
-            V c00 = VBCAST(ca[b]), c10 = VBCAST(cb[b]);
-            V c01 = VBCAST(b + 1 < nb ? ca[b + 1] : 0.0f), c11 = VBCAST(b + 1 < nb ? cb[b + 1] : 0.0f);
-            V c02 = VBCAST(b + 2 < nb ? ca[b + 2] : 0.0f), c12 = VBCAST(b + 2 < nb ? cb[b + 2] : 0.0f);
+            bool h1 = b + 1 < nb, h2 = b + 2 < nb;
+            V c00 = VBCAST(ca[b]), c10 = VBCAST(cb[b]), c20 = VBCAST(cc[b]);
+            V c01 = VBCAST(h1 ? ca[b + 1] : 0.0f), c11 = VBCAST(h1 ? cb[b + 1] : 0.0f);
+            V c21 = VBCAST(h1 ? cc[b + 1] : 0.0f);
+            V c02 = VBCAST(h2 ? ca[b + 2] : 0.0f), c12 = VBCAST(h2 ? cb[b + 2] : 0.0f);
+            V c22 = VBCAST(h2 ? cc[b + 2] : 0.0f);
             for (size_t d = 0; d < len; d += VW) {
-                V p = VLOAD(o0 + d), q = VLOAD(o1 + d);
+                V p = VLOAD(o0 + d), q = VLOAD(o1 + d), r = VLOAD(o2 + d);
                 V v = VLOAD(i0 + d);
                 p = VFMA(c00, v, p);
                 q = VFMA(c10, v, q);
+                r = VFMA(c20, v, r);
                 v = VLOAD(i1 + d);
                 p = VFMA(c01, v, p);
                 q = VFMA(c11, v, q);
+                r = VFMA(c21, v, r);
                 v = VLOAD(i2 + d);
                 p = VFMA(c02, v, p);
                 q = VFMA(c12, v, q);
+                r = VFMA(c22, v, r);
                 VSTORE(o0 + d, p);
                 VSTORE(o1 + d, q);
+                VSTORE(o2 + d, r);
             }
         }
     }
-    if (a < na)
+    for (; a < na; a++)
         KFN(acc1)(out[a], in, nb, c + a * nb, len);
 }
 
