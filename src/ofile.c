@@ -28,6 +28,7 @@ struct ist_ofile {
     size_t used;
     unsigned long long total;
     bool failed;
+    bool device;        /* writing in place to a device or pipe: no rename */
 };
 
 static ist_status
@@ -75,13 +76,27 @@ ist_ofile_open(const char *path, bool gz, ist_ofile **out, ist_error *err)
         rc = ist_error_nomem(err);
         goto fail;
     }
+    bool exists = stat(path, &st) == 0;
     if (strcmp(path, "-") == 0) {
         f->fd = STDOUT_FILENO;
-    } else {
-        if (stat(path, &st) == 0 && S_ISDIR(st.st_mode)) {
-            rc = ist_error_at(err, IST_ERR_INVALID, path, 0, "output path is a directory");
+    } else if (exists && S_ISDIR(st.st_mode)) {
+        rc = ist_error_at(err, IST_ERR_INVALID, path, 0, "output path is a directory");
+        goto fail;
+    } else if (exists && !S_ISREG(st.st_mode)) {
+        /* a device or pipe (/dev/null, /dev/stdout, a FIFO): write to it in place;
+         * renaming over it would replace the device node */
+        f->device = true;
+        f->path = ist_strdup(path);
+        if (!f->path) {
+            rc = ist_error_nomem(err);
             goto fail;
         }
+        f->fd = open(path, O_WRONLY | O_CLOEXEC);
+        if (f->fd < 0) {
+            rc = ist_error_sys(err, IST_ERR_IO, path, "cannot open for writing");
+            goto fail;
+        }
+    } else {
         f->path = ist_strdup(path);
         if (!f->path) {
             rc = ist_error_nomem(err);
@@ -263,6 +278,16 @@ ist_ofile_commit(ist_ofile *f, ist_error *err)
         }
     }
     if (!f->path) {
+        release(f);
+        return IST_OK;
+    }
+    if (f->device) {
+        if (close(f->fd) != 0) {
+            f->fd = -1;
+            rc = ist_error_sys(err, IST_ERR_IO, name, "cannot write");
+            goto fail;
+        }
+        f->fd = -1;
         release(f);
         return IST_OK;
     }

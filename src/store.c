@@ -19,7 +19,7 @@ void
 ist_store_opts_init(ist_store_opts *opts)
 {
     memset(opts, 0, sizeof *opts);
-    opts->verify = true;
+    opts->verify = false;
     opts->max_dim = IST_STORE_MAX_DIM_DEFAULT;
     opts->max_line = IST_STORE_MAX_LINE_DEFAULT;
 }
@@ -385,6 +385,10 @@ ist_store_open(const char *path, const ist_store_opts *opts, ist_store **out, is
         return rc;
     }
     close(fd);
+    if (got >= 7 && memcmp(magic, IST_NATIVE_MAGIC, 7) == 0)
+        return ist_error_at_offset(err, IST_ERR_FORMAT, path, 0,
+                                   "not a native vector file this build knows: magic '%.8s', "
+                                   "expected '%s'", magic, IST_NATIVE_MAGIC);
     return ist_store_open_text(path, opts, out, err);
 }
 

@@ -152,20 +152,39 @@ read_words(ist_store *s, const char *path, const unsigned char *base, uint64_t w
     return IST_OK;
 }
 
+/* One pass: the checksum and the finiteness of every component, row by row
+ * while the row is in cache. */
 static ist_status
 verify_matrix(const ist_store *s, const char *path, uint32_t want, ist_error *err)
 {
-    if (ist_store_matrix_crc(s->data, s->file_rows, s->stride) != want)
-        return ist_error_at(err, IST_ERR_FORMAT, path, 0,
-                            "matrix checksum mismatch: the file is damaged");
+    const size_t row_bytes = s->stride * sizeof(float);
+    uLong crc = crc32(0L, Z_NULL, 0);
+    size_t bad_row = (size_t)-1, bad_col = 0;
+
     for (size_t i = 0; i < s->file_rows; i++) {
         const float *r = s->data + i * s->stride;
-        for (size_t j = 0; j < s->dim; j++)
-            if (!isfinite(r[j]))
-                return ist_error_at(err, IST_ERR_FORMAT, path, 0,
-                                    "row %zu ('%s') component %zu is not a finite number", i,
-                                    ist_store_word(s, i), j + 1);
+        crc = crc32(crc, (const Bytef *)r, (uInt)row_bytes);
+        if (bad_row == (size_t)-1) {
+            unsigned all = 0;
+            for (size_t j = 0; j < s->dim; j++) {
+                uint32_t bits;
+                memcpy(&bits, &r[j], sizeof bits);
+                all |= (bits & 0x7f800000u) == 0x7f800000u;
+            }
+            if (all) {
+                bad_row = i;
+                while (isfinite(r[bad_col]))
+                    bad_col++;
+            }
+        }
     }
+    if ((uint32_t)crc != want)
+        return ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                            "matrix checksum mismatch: the file is damaged");
+    if (bad_row != (size_t)-1)
+        return ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                            "row %zu ('%s') component %zu is not a finite number", bad_row,
+                            ist_store_word(s, bad_row), bad_col + 1);
     return IST_OK;
 }
 

@@ -258,7 +258,19 @@ ist_store_open_text(const char *path, const ist_store_opts *o, ist_store **out, 
             goto fail;
         }
     }
-    size_t cap = header ? (size_t)(hrows < 65536 ? hrows : 65536) : 4096;
+    /* room for the rows: from the header, or for a plain file from its size
+     * and the first line's length, so that a large table is not copied while
+     * it grows */
+    size_t cap = 4096;
+    if (header)
+        cap = (size_t)hrows;
+    else if (!ist_reader_is_gzip(c.r) && len > 0)
+        cap = (size_t)(ist_reader_file_size(c.r) / (len + 1) * 11 / 10) + 16;
+    size_t plausible = (size_t)(ist_reader_file_size(c.r) / (2 * dim)) + 16;
+    if (!ist_reader_is_gzip(c.r) && cap > plausible)
+        cap = plausible;       /* every number takes at least 2 bytes */
+    if (cap > (1u << 20))
+        cap = 1u << 20;
     if (o->max_rows && cap > o->max_rows)
         cap = o->max_rows;
     rc = ist_store_alloc(0, dim, cap, &c.s, err);

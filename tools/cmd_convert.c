@@ -49,6 +49,7 @@ run(int argc, char **argv)
 
     ist_store_save_opts_init(&sv);
     ist_store_opts_init(&so);
+    so.verify = true;   /* never pass damage on */
     while ((c = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         switch (c) {
         case 't':

@@ -31,7 +31,10 @@ typedef enum ist_store_format {
 
 typedef struct ist_store_opts {
     size_t max_rows;     /* keep the first max_rows rows; 0 = all [default 0] */
-    bool verify;         /* native: check the matrix checksum on open [default true] */
+    bool verify;         /* native: also check the matrix checksum and that every number is
+                            finite, one pass over the matrix [default false: the header, word
+                            table and provenance are always checked; the matrix is mapped
+                            untouched, see ist_store_verify()] */
     size_t max_dim;      /* refuse a larger dimension [default 100000] */
     size_t max_line;     /* text: longest accepted line, bytes [default 4 MiB] */
 } ist_store_opts;
