@@ -6,5 +6,6 @@
 
 extern const cli_command cmd_inspect;
 extern const cli_command cmd_convert;
+extern const cli_command cmd_prepare;
 
 #endif

@@ -10,6 +10,7 @@
 static const cli_command *const commands[] = {
     &cmd_inspect,
     &cmd_convert,
+    &cmd_prepare,
     NULL,
 };
 

@@ -7,6 +7,8 @@
 #include <isthmus/matrix.h>
 #include <isthmus/vocab.h>
 #include <isthmus/store.h>
+#include <isthmus/text.h>
+#include <isthmus/corpus.h>
 #include <isthmus/sgns.h>
 
 #ifdef __cplusplus

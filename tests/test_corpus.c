@@ -1,0 +1,467 @@
+/* test_corpus.c - raw text to vocabulary and id stream: counting, pruning,
+ * de-duplication, gzip, bad input, and the prepared-corpus file. */
+#include "harness.h"
+
+#include <sys/stat.h>
+
+#include <zlib.h>
+
+#include <isthmus/cancel.h>
+#include <isthmus/corpus.h>
+#include <isthmus/testing.h>
+
+static const char shop_text[] =
+    "The blue MUG is on sale.\n"
+    "the blue mug ships today\n"
+    "Blue lid, blue mug!\n"
+    "\n"
+    "the mug\n"
+    "The blue MUG is on sale.\n";
+
+static ist_corpus *
+build_one(const char *path, const ist_corpus_opts *o)
+{
+    ist_corpus *c = NULL;
+    ist_error err;
+    const char *paths[] = {path};
+    ist_status rc = ist_corpus_build(paths, 1, o, &c, &err);
+    if (rc != IST_OK) {
+        char buf[1024];
+        print_message("%s\n", ist_error_format(&err, buf, sizeof buf));
+    }
+    assert_int_equal(rc, IST_OK);
+    return c;
+}
+
+static void
+counts_order_and_stream(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    ist_corpus_opts o;
+    ist_corpus_stats st;
+    size_t n;
+
+    (void)state;
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    assert_int_equal(o.min_count, 5);
+    o.min_count = 2;
+    ist_corpus *c = build_one(p, &o);
+    const ist_vocab *v = ist_corpus_vocab(c);
+    /* counts by hand: blue 5, mug 5, the 4, is 2, on 2, sale 2; ships/today/lid once */
+    assert_int_equal(ist_vocab_size(v), 6);
+    assert_string_equal(ist_vocab_word(v, 0), "blue");   /* ties broken by bytes */
+    assert_string_equal(ist_vocab_word(v, 1), "mug");
+    assert_string_equal(ist_vocab_word(v, 2), "the");
+    assert_int_equal(ist_vocab_count(v, 2), 4);
+    ist_corpus_stats_get(c, &st);
+    assert_int_equal(st.lines, 6);
+    assert_int_equal(st.lines_dropped_dup, 0);
+    assert_int_equal(st.tokens_in, 23);
+    assert_int_equal(st.tokens_kept, 20);
+    assert_int_equal(st.types_before_prune, 9);
+    const uint32_t *ids = ist_corpus_ids(c, &n);
+    assert_int_equal(n, 20 + 6);                 /* one IST_CORPUS_EOL per line */
+    /* line 3 "Blue lid, blue mug!" -> blue blue mug (lid pruned) */
+    const uint32_t line1[] = {2, 0, 1, 3, 4, 5, IST_CORPUS_EOL};
+    assert_memory_equal(ids, line1, sizeof line1);
+    const uint32_t line3[] = {0, 0, 1, IST_CORPUS_EOL, IST_CORPUS_EOL};
+    assert_memory_equal(ids + 11, line3, sizeof line3);
+    assert_non_null(strstr(ist_corpus_sources_json(c), "\"lines\":6"));
+    assert_true(ist_corpus_text_opts(c)->nfkc);
+    ist_corpus_free(c);
+
+    o.max_vocab = 2;                             /* size limit keeps the two most frequent */
+    c = build_one(p, &o);
+    assert_int_equal(ist_vocab_size(ist_corpus_vocab(c)), 2);
+    ist_corpus_stats_get(c, &st);
+    assert_int_equal(st.tokens_kept, 10);
+    ist_corpus_free(c);
+    ist_corpus_free(NULL);
+    free(p);
+    harness_rmdir(dir);
+}
+
+static void
+dedup_drops_repeats(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    ist_corpus_opts o;
+    ist_corpus_stats st;
+    size_t n;
+
+    (void)state;
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 1;
+    o.dedup_lines = true;
+    ist_corpus *c = build_one(p, &o);
+    ist_corpus_stats_get(c, &st);
+    /* line 6 repeats line 1 exactly; line 2 differs only in case and punctuation, so
+     * after folding it is "the blue mug ships today" - not a repeat */
+    assert_int_equal(st.lines, 6);
+    assert_int_equal(st.lines_dropped_dup, 1);
+    assert_int_equal(st.tokens_in, 17);
+    ist_corpus_ids(c, &n);
+    assert_int_equal(n, 17 + 5);
+    ist_corpus_free(c);
+    free(p);
+    harness_rmdir(dir);
+}
+
+static void
+write_gzip(const char *path, const char *data, size_t n)
+{
+    gzFile g = gzopen(path, "wb");
+    assert_non_null(g);
+    assert_int_equal(gzwrite(g, data, (unsigned)n), (int)n);
+    assert_int_equal(gzclose(g), Z_OK);
+}
+
+static void
+gzip_equals_plain_and_sources(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    char *g = harness_path(dir, "shop.data");    /* gzip found by magic bytes, not by name */
+    ist_corpus_opts o;
+    size_t n1, n2;
+    char crc[16];
+
+    (void)state;
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    write_gzip(g, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 1;
+    ist_corpus *a = build_one(p, &o), *b = build_one(g, &o);
+    const uint32_t *ia = ist_corpus_ids(a, &n1), *ib = ist_corpus_ids(b, &n2);
+    assert_int_equal(n1, n2);
+    assert_memory_equal(ia, ib, n1 * sizeof *ia);
+    assert_int_equal(ist_vocab_size(ist_corpus_vocab(a)), ist_vocab_size(ist_corpus_vocab(b)));
+    snprintf(crc, sizeof crc, "\"%08lx\"",
+             crc32(0, (const unsigned char *)shop_text, sizeof shop_text - 1));
+    assert_non_null(strstr(ist_corpus_sources_json(a), crc));
+    assert_non_null(strstr(ist_corpus_sources_json(b), "\"gzip\":true"));
+    ist_corpus_source sa, sb;
+    assert_int_equal(ist_corpus_n_sources(b), 1);
+    assert_int_equal(ist_corpus_source_get(a, 0, &sa, NULL), IST_OK);
+    assert_int_equal(ist_corpus_source_get(b, 0, &sb, NULL), IST_OK);
+    assert_int_equal(ist_corpus_source_get(b, 1, &sb, NULL), IST_ERR_INVALID);
+    assert_false(sa.gzip);
+    assert_true(sb.gzip);
+    assert_int_equal(sa.bytes, sizeof shop_text - 1);
+    assert_int_equal(sb.text_bytes, sizeof shop_text - 1);
+    assert_int_equal(sa.crc32, crc32(0, (const unsigned char *)shop_text, sizeof shop_text - 1));
+    assert_int_equal(sb.lines, 6);
+    ist_corpus_free(a);
+    ist_corpus_free(b);
+
+    const char *two[] = {p, g};
+    ist_corpus *c = NULL;
+    ist_corpus_stats st;
+    assert_int_equal(ist_corpus_build(two, 2, &o, &c, NULL), IST_OK);
+    ist_corpus_stats_get(c, &st);
+    assert_int_equal(st.lines, 12);
+    const char *src = ist_corpus_sources_json(c);
+    assert_non_null(strstr(src, "shop.txt"));
+    assert_non_null(strstr(src, "shop.data"));
+    ist_corpus_free(c);
+    free(p);
+    free(g);
+    harness_rmdir(dir);
+}
+
+static void
+invalid_utf8_policy(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "bad.txt");
+    static const char bad[] = "good line\nstill good\ncaf\xc3 au lait \xff\n";
+    ist_corpus_opts o;
+    ist_corpus_stats st;
+    ist_corpus *c = NULL;
+    ist_error err;
+    char buf[1024];
+
+    (void)state;
+    harness_write(p, bad, sizeof bad - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 1;
+    c = build_one(p, &o);
+    ist_corpus_stats_get(c, &st);
+    assert_int_equal(st.replaced_utf8, 2);
+    assert_non_null(strstr(ist_corpus_sources_json(c), "\"replaced_utf8\":2"));
+    ist_corpus_free(c);
+
+    o.text.strict_utf8 = true;
+    const char *paths[] = {p};
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_ERR_FORMAT);
+    assert_null(c);
+    assert_string_equal(err.file, p);
+    assert_int_equal(err.line, 3);
+    assert_true(err.has_offset);
+    assert_int_equal(err.offset, 21 + 3);       /* two lines of 10 and 11 bytes, then "caf" */
+    ist_error_format(&err, buf, sizeof buf);
+    assert_non_null(strstr(buf, ":3: invalid UTF-8"));
+    assert_non_null(strstr(buf, "byte 4 of the line"));
+    free(p);
+    harness_rmdir(dir);
+}
+
+static void
+long_line_and_missing_file(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "long.txt");
+    char *missing = harness_path(dir, "nope.txt");
+    char text[300];
+    ist_corpus_opts o;
+    ist_corpus *c = NULL;
+    ist_error err;
+
+    (void)state;
+    memset(text, 'a', sizeof text);
+    memcpy(text, "short\n", 6);
+    text[sizeof text - 1] = '\n';
+    harness_write(p, text, sizeof text);
+    ist_corpus_opts_init(&o);
+    o.max_line = 100;
+    const char *paths[] = {p};
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_ERR_FORMAT);
+    assert_null(c);
+    assert_string_equal(err.file, p);
+    assert_int_equal(err.line, 2);
+    assert_non_null(strstr(err.msg, "longer than"));
+
+    const char *two[] = {p, missing};
+    o.max_line = 1000;
+    assert_int_equal(ist_corpus_build(two, 2, &o, &c, &err), IST_ERR_IO);
+    assert_null(c);
+    assert_string_equal(err.file, missing);
+    assert_int_equal(ist_corpus_build(two, 0, &o, &c, &err), IST_ERR_INVALID);
+    free(p);
+    free(missing);
+    harness_rmdir(dir);
+}
+
+static void
+save_open_round_trip(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    char *q = harness_path(dir, "shop.prep");
+    ist_corpus_opts o;
+    ist_corpus_stats s1, s2;
+    ist_corpus *c, *d = NULL;
+    ist_error err;
+    size_t n1, n2;
+
+    (void)state;
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 2;
+    o.text.mask_digits = true;
+    c = build_one(p, &o);
+    assert_int_equal(ist_corpus_save(c, q, &err), IST_OK);
+    assert_int_equal(harness_count_entries(dir), 2);    /* no temporary left behind */
+    assert_int_equal(ist_corpus_open(q, &d, &err), IST_OK);
+    const uint32_t *a = ist_corpus_ids(c, &n1), *b = ist_corpus_ids(d, &n2);
+    assert_int_equal(n1, n2);
+    assert_memory_equal(a, b, n1 * sizeof *a);
+    const ist_vocab *va = ist_corpus_vocab(c), *vb = ist_corpus_vocab(d);
+    assert_int_equal(ist_vocab_size(va), ist_vocab_size(vb));
+    for (uint32_t i = 0; i < ist_vocab_size(va); i++) {
+        assert_string_equal(ist_vocab_word(va, i), ist_vocab_word(vb, i));
+        assert_int_equal(ist_vocab_count(va, i), ist_vocab_count(vb, i));
+    }
+    ist_corpus_stats_get(c, &s1);
+    ist_corpus_stats_get(d, &s2);
+    assert_memory_equal(&s1, &s2, sizeof s1);
+    assert_memory_equal(ist_corpus_text_opts(c), ist_corpus_text_opts(d), sizeof(ist_text_opts));
+    assert_string_equal(ist_corpus_sources_json(c), ist_corpus_sources_json(d));
+    ist_corpus_source sc, sd;
+    assert_int_equal(ist_corpus_n_sources(d), 1);
+    assert_int_equal(ist_corpus_source_get(c, 0, &sc, NULL), IST_OK);
+    assert_int_equal(ist_corpus_source_get(d, 0, &sd, NULL), IST_OK);
+    assert_string_equal(sc.path, sd.path);
+    assert_int_equal(sc.crc32, sd.crc32);
+    assert_int_equal(sc.text_bytes, sd.text_bytes);
+    ist_corpus_free(d);
+    ist_corpus_free(c);
+    free(p);
+    free(q);
+    harness_rmdir(dir);
+}
+
+static unsigned char *
+slurp(const char *path, size_t *n)
+{
+    struct stat sb;
+    assert_int_equal(stat(path, &sb), 0);
+    unsigned char *buf = malloc((size_t)sb.st_size);
+    FILE *f = fopen(path, "rb");
+    assert_non_null(f);
+    assert_int_equal(fread(buf, 1, (size_t)sb.st_size, f), (size_t)sb.st_size);
+    fclose(f);
+    *n = (size_t)sb.st_size;
+    return buf;
+}
+
+static void
+damaged_file_rejected(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    char *q = harness_path(dir, "shop.prep"), *r = harness_path(dir, "bad.prep");
+    ist_corpus_opts o;
+    ist_corpus *c, *d = NULL;
+    ist_error err;
+    size_t n;
+
+    (void)state;
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 1;
+    c = build_one(p, &o);
+    assert_int_equal(ist_corpus_save(c, q, &err), IST_OK);
+    ist_corpus_free(c);
+    unsigned char *buf = slurp(q, &n);
+
+    buf[130] ^= 0x01;                                  /* a flipped bit in the id stream */
+    harness_write(r, buf, n);
+    assert_int_equal(ist_corpus_open(r, &d, &err), IST_ERR_FORMAT);
+    assert_null(d);
+    assert_non_null(strstr(err.msg, "checksum"));
+    buf[130] ^= 0x01;
+
+    harness_write(r, buf, n - 9);                      /* truncated */
+    assert_int_equal(ist_corpus_open(r, &d, &err), IST_ERR_FORMAT);
+    assert_non_null(strstr(err.msg, "truncated"));
+    harness_write(r, buf, 40);
+    assert_int_equal(ist_corpus_open(r, &d, &err), IST_ERR_FORMAT);
+    harness_write(r, shop_text, sizeof shop_text - 1);   /* not a prepared corpus at all */
+    assert_int_equal(ist_corpus_open(r, &d, &err), IST_ERR_FORMAT);
+    assert_string_equal(err.file, r);
+    assert_int_equal(ist_corpus_open("/nonexistent/x.prep", &d, &err),
+                     IST_ERR_IO);
+    harness_write(r, buf, n);                          /* intact copy still opens */
+    assert_int_equal(ist_corpus_open(r, &d, &err), IST_OK);
+    ist_corpus_free(d);
+    free(buf);
+    free(p);
+    free(q);
+    free(r);
+    harness_rmdir(dir);
+}
+
+typedef struct prog {
+    int calls;
+    uint64_t last, total;
+    bool monotone;
+} prog;
+
+static void
+on_progress(void *ctx, uint64_t done, uint64_t total)
+{
+    prog *p = ctx;
+    p->monotone = p->monotone && done >= p->last && done <= total;
+    p->last = done;
+    p->total = total;
+    p->calls++;
+}
+
+static void
+progress_and_cancel(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "many.txt");
+    size_t n = 5000 * (sizeof "blue mug number 12345\n" - 1);
+    char *text = malloc(n + 1), *q = text;
+    ist_corpus_opts o;
+    ist_corpus *c = NULL;
+    ist_error err;
+    prog pr = {0, 0, 0, true};
+
+    (void)state;
+    for (int i = 0; i < 5000; i++)
+        q += sprintf(q, "blue mug number %05d\n", i);
+    harness_write(p, text, n);
+    ist_corpus_opts_init(&o);
+    o.progress = on_progress;
+    o.progress_ctx = &pr;
+    const char *paths[] = {p};
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_OK);
+    assert_true(pr.calls >= 4);         /* every 1024 lines and at the end of the file */
+    assert_true(pr.monotone);
+    assert_int_equal(pr.last, n);
+    assert_int_equal(pr.total, n);
+    ist_corpus_free(c);
+    c = NULL;
+
+    ist_cancel_request();
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_ERR_CANCELLED);
+    ist_cancel_reset();
+    assert_null(c);
+    free(text);
+    free(p);
+    harness_rmdir(dir);
+}
+
+/* Every allocation failure on the way is reported as IST_ERR_NOMEM and leaves
+ * nothing behind (ASan in the sanitizer build checks the "nothing"). */
+static void
+allocation_failures_are_clean(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "shop.txt");
+    char *q = harness_path(dir, "shop.prep");
+    ist_corpus_opts o;
+    int failures = 0;
+
+    (void)state;
+    if (!ist_testing_fault_injection_enabled()) {
+        free(p);
+        free(q);
+        harness_rmdir(dir);
+        skip();
+    }
+    harness_write(p, shop_text, sizeof shop_text - 1);
+    ist_corpus_opts_init(&o);
+    o.min_count = 1;
+    o.dedup_lines = true;
+    const char *paths[] = {p};
+    for (long n = 0;; n++) {
+        ist_corpus *c = NULL, *d = NULL;
+        ist_error err;
+        ist_testing_fail_alloc_after(n);
+        ist_status rc = ist_corpus_build(paths, 1, &o, &c, &err);
+        if (rc == IST_OK)
+            rc = ist_corpus_save(c, q, &err);
+        if (rc == IST_OK)
+            rc = ist_corpus_open(q, &d, &err);
+        ist_testing_fail_alloc_after(-1);
+        ist_corpus_free(c);
+        ist_corpus_free(d);
+        if (rc == IST_OK)
+            break;
+        assert_int_equal(rc, IST_ERR_NOMEM);
+        assert_null(d);
+        failures++;
+        unlink(q);
+        assert_int_equal(harness_count_entries(dir), 1);   /* no temporary left */
+    }
+    assert_true(failures > 10);
+    free(p);
+    free(q);
+    harness_rmdir(dir);
+}
+
+int
+main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(counts_order_and_stream),
+        cmocka_unit_test(dedup_drops_repeats),
+        cmocka_unit_test(gzip_equals_plain_and_sources),
+        cmocka_unit_test(invalid_utf8_policy),
+        cmocka_unit_test(long_line_and_missing_file),
+        cmocka_unit_test(save_open_round_trip),
+        cmocka_unit_test(damaged_file_rejected),
+        cmocka_unit_test(progress_and_cancel),
+        cmocka_unit_test(allocation_failures_are_clean),
+    };
+    HARNESS_RUN("corpus", tests);
+}

@@ -1,0 +1,173 @@
+/* cmd_prepare.c - isthmus prepare: raw text to a prepared corpus file. */
+#include <getopt.h>
+#include <string.h>
+
+#include "cli.h"
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus prepare [OPTIONS] -o OUT FILE...\n"
+          "Normalise and segment raw text into words, count them, prune the vocabulary and save\n"
+          "the vocabulary with the token-id stream, so several training runs can share it.\n"
+          "\n"
+          "Arguments:\n"
+          "  FILE...                 UTF-8 text, one sentence or document per line; plain or gzip\n"
+          "                          (recognised by its first bytes, not by its name)\n"
+          "\n"
+          "Options:\n"
+          "  -o, --output=OUT        prepared corpus to write (required)\n"
+          "      --min-freq=N        keep words seen at least N times [default: 5]\n"
+          "      --vocab-limit=N     keep at most the N most frequent words; 0 = no limit\n"
+          "                          [default: 0]\n"
+          "      --max-line-bytes=N  longest line accepted, in bytes [default: 1048576]\n"
+          "      --no-nfkc           do not apply Unicode NFKC normalisation [default: applied]\n"
+          "      --no-casefold       keep letter case [default: full case folding]\n"
+          "      --strip-marks       remove combining marks (accents): cafe = caf\xc3\xa9\n"
+          "                          [default: kept]\n"
+          "      --mask-digits       write every decimal digit as 0 [default: kept]\n"
+          "      --strict-utf8       stop at invalid UTF-8 with file, line and byte offset\n"
+          "                          [default: replace it with U+FFFD and count it]\n"
+          "      --dedup-lines       drop exact repeats of a normalised line [default: kept]\n"
+          "  -h, --help              show this help and exit\n"
+          "\n"
+          "A summary goes to standard output: lines, duplicates removed, tokens, word types\n"
+          "before and after pruning, invalid UTF-8 replaced in each file and the reading rate.\n"
+          "The output is written to a temporary file and renamed into place when complete.\n"
+          "\n"
+          "Example:\n"
+          "  isthmus prepare --min-freq 3 --dedup-lines -o shop-es.prep data-samples/shop-es.txt\n",
+          out);
+}
+
+static void
+on_progress(void *ctx, uint64_t done, uint64_t total)
+{
+    double t0 = *(const double *)ctx, dt = cli_now() - t0;
+
+    cli_progress_update("prepare: %5.1f%% of %.1f MB, %.1f MB/s",
+                        total ? 100.0 * (double)done / (double)total : 100.0, total / 1e6,
+                        dt > 0 ? done / 1e6 / dt : 0.0);
+}
+
+static double
+percent(uint64_t part, uint64_t whole)
+{
+    return whole ? 100.0 * (double)part / (double)whole : 0.0;
+}
+
+static void
+summary(const ist_corpus *c, const char *out, double secs)
+{
+    ist_corpus_stats st;
+    uint64_t text_bytes = 0;
+    size_t n = ist_corpus_n_sources(c), types = ist_vocab_size(ist_corpus_vocab(c));
+
+    ist_corpus_stats_get(c, &st);
+    for (size_t i = 0; i < n; i++) {
+        ist_corpus_source s;
+        if (ist_corpus_source_get(c, i, &s, NULL) == IST_OK)
+            text_bytes += s.text_bytes;
+    }
+    printf("prepared %s from %zu file%s in %.2f s (%.1f MB of text, %.1f MB/s)\n", out, n,
+           n == 1 ? "" : "s", secs, text_bytes / 1e6, secs > 0 ? text_bytes / 1e6 / secs : 0.0);
+    printf("  lines               %llu read, %llu duplicates removed\n",
+           (unsigned long long)st.lines, (unsigned long long)st.lines_dropped_dup);
+    printf("  tokens              %llu segmented, %llu kept (%.1f%%)\n",
+           (unsigned long long)st.tokens_in, (unsigned long long)st.tokens_kept,
+           percent(st.tokens_kept, st.tokens_in));
+    printf("  word types          %llu before pruning, %zu kept\n",
+           (unsigned long long)st.types_before_prune, types);
+    printf("  invalid UTF-8       %llu sequences replaced\n",
+           (unsigned long long)st.replaced_utf8);
+    for (size_t i = 0; i < n; i++) {
+        ist_corpus_source s;
+        if (ist_corpus_source_get(c, i, &s, NULL) != IST_OK)
+            continue;
+        printf("    %-40s %llu lines, %llu replaced%s\n", s.path, (unsigned long long)s.lines,
+               (unsigned long long)s.replaced_utf8, s.gzip ? " (gzip)" : "");
+    }
+}
+
+static int
+run(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"output", required_argument, NULL, 'o'},
+        {"min-freq", required_argument, NULL, 'm'},
+        {"vocab-limit", required_argument, NULL, 'V'},
+        {"max-line-bytes", required_argument, NULL, 'L'},
+        {"no-nfkc", no_argument, NULL, 'N'},
+        {"no-casefold", no_argument, NULL, 'C'},
+        {"strip-marks", no_argument, NULL, 'S'},
+        {"mask-digits", no_argument, NULL, 'D'},
+        {"strict-utf8", no_argument, NULL, 'U'},
+        {"dedup-lines", no_argument, NULL, 'd'},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    ist_corpus_opts o;
+    const char *out = NULL;
+    int c;
+
+    ist_corpus_opts_init(&o);
+    while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+        switch (c) {
+        case 'o': out = optarg; break;
+        case 'm':
+            if (!cli_parse_u64("prepare", "--min-freq", optarg, 1, UINT64_MAX, &o.min_count))
+                return CLI_EXIT_USAGE;
+            break;
+        case 'V':
+            if (!cli_parse_size("prepare", "--vocab-limit", optarg, 0, UINT32_MAX - 2,
+                                &o.max_vocab))
+                return CLI_EXIT_USAGE;
+            break;
+        case 'L':
+            if (!cli_parse_size("prepare", "--max-line-bytes", optarg, 1, (size_t)1 << 30,
+                                &o.max_line))
+                return CLI_EXIT_USAGE;
+            break;
+        case 'N': o.text.nfkc = false; break;
+        case 'C': o.text.casefold = false; break;
+        case 'S': o.text.strip_marks = true; break;
+        case 'D': o.text.mask_digits = true; break;
+        case 'U': o.text.strict_utf8 = true; break;
+        case 'd': o.dedup_lines = true; break;
+        case 'h': help(stdout); return CLI_EXIT_OK;
+        default: return cli_usage_error("prepare", "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (!out)
+        return cli_usage_error("prepare", "expected --output OUT");
+    if (strcmp(out, "-") == 0)
+        return cli_usage_error("prepare", "a prepared corpus is binary; give a file name to "
+                                          "--output, not '-'");
+    if (optind >= argc)
+        return cli_usage_error("prepare", "expected at least one input FILE");
+    for (int i = optind; i < argc; i++)
+        if (strcmp(argv[i], out) == 0)
+            return cli_usage_error("prepare", "input '%s' is also the output", out);
+
+    ist_corpus *corpus;
+    ist_error err;
+    double t0 = cli_now();
+    o.progress = on_progress;
+    o.progress_ctx = &t0;
+    ist_status rc = ist_corpus_build((const char *const *)argv + optind, (size_t)(argc - optind),
+                                     &o, &corpus, &err);
+    cli_progress_done();
+    if (rc != IST_OK)
+        return cli_report("prepare", &err);
+    double secs = cli_now() - t0;
+    if (ist_corpus_save(corpus, out, &err) != IST_OK) {
+        ist_corpus_free(corpus);
+        return cli_report("prepare", &err);
+    }
+    if (cli_g.verbosity >= 0)
+        summary(corpus, out, secs);
+    ist_corpus_free(corpus);
+    return CLI_EXIT_OK;
+}
+
+const cli_command cmd_prepare = {"prepare", "turn raw text into a prepared corpus", run, help};
