@@ -108,6 +108,23 @@ IST_API ist_status ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint6
                                   ist_matrix **in_vectors, ist_matrix **ctx_vectors,
                                   ist_sgns_result *res, ist_error *err);
 
+/** Provenance text for vectors trained by ist_sgns_train(): a JSON object
+ *  {"producer":"isthmus <version>","command":"train","text":<text_json>,
+ *   "corpus":{"sources":<sources_json>,"tokens":..,"types":..},
+ *   "training":{"method":"skip-gram negative sampling","dimension":..,"context":..,
+ *   "noise_samples":..,"noise_power":0.75,"passes":..,"rate":..,"subsample":..,"threads":..,
+ *   "seed":..,"kernel":"fast"|"reference","simd":..,"keep_context":..},
+ *  "result":{"words_seen":..,"words_trained":..,"pairs":..,"seconds":..,"final_loss":..}}.
+ *  text_json and sources_json are inserted as they are (valid JSON, or NULL for null);
+ *  res may be NULL. *json is owned by the caller: release with ist_sgns_free(). */
+IST_API ist_status ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
+                                            const char *text_json, const char *sources_json,
+                                            uint64_t tokens, size_t types, char **json,
+                                            ist_error *err);
+
+/** Release memory returned by this module. NULL: no-op. */
+IST_API void ist_sgns_free(void *p);
+
 /** Name of the vector instruction set the FAST kernel uses on this machine ("avx512",
  *  "avx2", "portable"). The environment variable ISTHMUS_SIMD=portable|avx2|avx512 forces
  *  one (a set the CPU lacks falls back to the best it has). */
