@@ -165,6 +165,7 @@ typedef struct shared {
 } shared;
 
 typedef struct worker {
+    char pad_head[128];              /* keeps the hot fields of neighbours off shared lines */
     shared *sh;
     size_t begin, end;               /* part of the stream */
     uint64_t rng;
@@ -181,6 +182,7 @@ typedef struct worker {
     /* since the last publication */
     uint64_t words, trained, pairs, loss_n, windows;
     double loss;
+    char pad_tail[128];
 } worker;
 
 static void

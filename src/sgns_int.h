@@ -69,7 +69,9 @@ ist_sgns_noise_draw(const ist_sgns_noise *z, uint64_t *rng)
 {
     uint64_t r = ist_sgns_rand(rng);
     uint32_t i = ist_sgns_below(r, z->n);
-    return (uint32_t)r < z->cells[i].keep ? i : z->cells[i].alias;
+    ist_sgns_alias_cell c = z->cells[i];
+    uint32_t own = (uint32_t)0 - (uint32_t)((uint32_t)r < c.keep);   /* all ones: own id */
+    return (i & own) | (c.alias & ~own);                              /* without a branch */
 }
 
 /* ---- vector kernels (src/sgns_kern.c); row lengths are multiples of 16 floats ------------- */

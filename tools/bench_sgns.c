@@ -12,6 +12,9 @@
 #include <cblas.h>
 #include <stdio.h>
 #include <sys/resource.h>
+#include <sys/types.h>
+#include <sys/wait.h>
+#include <unistd.h>
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
@@ -35,31 +38,6 @@ cpu_seconds(void)
     getrusage(RUSAGE_SELF, &ru);
     return (double)ru.ru_utime.tv_sec + (double)ru.ru_utime.tv_usec * 1e-6 +
            (double)ru.ru_stime.tv_sec + (double)ru.ru_stime.tv_usec * 1e-6;
-}
-
-/* Peak resident set since the last reset, in bytes (VmHWM; reset via clear_refs = 5). */
-static double
-peak_rss(void)
-{
-    FILE *f = fopen("/proc/self/status", "r");
-    char line[256];
-    double kb = 0;
-    while (f && fgets(line, sizeof line, f))
-        if (strncmp(line, "VmHWM:", 6) == 0)
-            kb = atof(line + 6);
-    if (f)
-        fclose(f);
-    return kb * 1024.0;
-}
-
-static void
-reset_peak(void)
-{
-    FILE *f = fopen("/proc/self/clear_refs", "w");
-    if (f) {
-        fputs("5", f);
-        fclose(f);
-    }
 }
 
 typedef struct stream {
@@ -210,11 +188,118 @@ gemm_rate(int threads, double *cpu_rate)
     return 2.0 * n * (double)n * n / best;
 }
 
+#define MAX_REPEAT 9
+
 typedef struct row {
     int fast;
     size_t dim, threads;
-    double wps, cpu_wps, flops, cpu_flops, rss, floor_;
+    int n;                                   /* repetitions done */
+    double wps[MAX_REPEAT], cpu_wps[MAX_REPEAT], flops[MAX_REPEAT], cpu_flops[MAX_REPEAT];
+    double peak, added, floor_;
 } row;
+
+static int
+cmp_double(const void *a, const void *b)
+{
+    double x = *(const double *)a, y = *(const double *)b;
+    return (x > y) - (x < y);
+}
+
+static double
+median(const double *v, int n)
+{
+    double t[MAX_REPEAT];
+    memcpy(t, v, (size_t)n * sizeof *t);
+    qsort(t, (size_t)n, sizeof *t, cmp_double);
+    return n % 2 ? t[n / 2] : 0.5 * (t[n / 2 - 1] + t[n / 2]);
+}
+
+/* VmRSS now, bytes. */
+static double
+rss_now(void)
+{
+    FILE *f = fopen("/proc/self/status", "r");
+    char line[256];
+    double kb = 0;
+    while (f && fgets(line, sizeof line, f))
+        if (strncmp(line, "VmRSS:", 6) == 0)
+            kb = atof(line + 6);
+    if (f)
+        fclose(f);
+    return kb * 1024.0;
+}
+
+typedef struct outcome {
+    int ok;
+    double wps, cpu_wps, flops, cpu_flops, base;
+} outcome;
+
+/* Each training runs in a child process so that its peak resident memory is its own:
+ * the child starts with the parent's pages (the id stream) and ru_maxrss is its peak. */
+static int
+run_one(const stream *s, row *r, int rep)
+{
+    int fd[2];
+    outcome out = {0};
+    if (pipe(fd) != 0) {
+        perror("bench-sgns: pipe");
+        return -1;
+    }
+    fflush(stdout);
+    pid_t pid = fork();
+    if (pid < 0) {
+        perror("bench-sgns: fork");
+        return -1;
+    }
+    if (pid == 0) {
+        ist_sgns_opts o;
+        ist_sgns_result res;
+        ist_matrix *m = NULL;
+        ist_error err;
+        close(fd[0]);
+        ist_sgns_opts_init(&o);
+        o.dim = r->dim;
+        o.threads = r->threads;
+        o.epochs = 1;
+        o.kernel = r->fast ? IST_SGNS_FAST : IST_SGNS_REFERENCE;
+        out.base = rss_now();
+        double u0 = cpu_seconds();
+        if (ist_sgns_train(s->ids, s->n, s->counts, s->vocab, &o, &m, NULL, &res, &err) ==
+            IST_OK) {
+            double cpu = cpu_seconds() - u0;
+            out.ok = 1;
+            out.wps = res.words_per_sec;
+            out.cpu_wps = (double)res.words_seen / cpu;
+            /* per pair: dot product, output-row update, input-gradient update: 3 x 2 dim */
+            out.flops = (double)res.pairs * 6.0 * (double)o.dim / res.seconds;
+            out.cpu_flops = (double)res.pairs * 6.0 * (double)o.dim / cpu;
+        } else {
+            fprintf(stderr, "bench-sgns: %s\n", err.msg);
+        }
+        if (write(fd[1], &out, sizeof out) != (ssize_t)sizeof out)
+            _exit(1);
+        _exit(0);
+    }
+    close(fd[1]);
+    ssize_t got = read(fd[0], &out, sizeof out);
+    close(fd[0]);
+    struct rusage ru;
+    int status;
+    if (wait4(pid, &status, 0, &ru) < 0 || got != (ssize_t)sizeof out || !out.ok)
+        return -1;
+    double peak = (double)ru.ru_maxrss * 1024.0;
+    r->wps[rep] = out.wps;
+    r->cpu_wps[rep] = out.cpu_wps;
+    r->flops[rep] = out.flops;
+    r->cpu_flops[rep] = out.cpu_flops;
+    if (rep == 0 || peak > r->peak)
+        r->peak = peak;
+    if (rep == 0 || peak - out.base > r->added)
+        r->added = peak - out.base;
+    r->floor_ = 2.0 * (double)s->vocab * (double)r->dim * 4 + (double)s->n * 4;
+    r->n = rep + 1;
+    return 0;
+}
 
 int
 main(int argc, char **argv)
@@ -223,7 +308,7 @@ main(int argc, char **argv)
     size_t tokens = 10000000, dims[2] = {100, 300}, nthr[2] = {1, 2};
     stream s = {0};
     row rows[8];
-    int nr = 0, only_kernel = -1;
+    int nr = 0, only_kernel = -1, repeat = 1;
     size_t only_dim = 0, only_threads = 0;
 
     for (int i = 1; i < argc; i++) {
@@ -231,15 +316,21 @@ main(int argc, char **argv)
             text = argv[++i];
         else if (strcmp(argv[i], "--tokens") == 0 && i + 1 < argc)
             tokens = strtoull(argv[++i], NULL, 10);
+        else if (strcmp(argv[i], "--repeat") == 0 && i + 1 < argc)
+            repeat = atoi(argv[++i]);
         else if (strcmp(argv[i], "--only") == 0 && i + 3 < argc) {   /* kernel dim threads */
             only_kernel = strcmp(argv[++i], "fast") == 0 ? 0 : 1;
             only_dim = strtoull(argv[++i], NULL, 10);
             only_threads = strtoull(argv[++i], NULL, 10);
-        }
-        else {
-            fprintf(stderr, "usage: bench-sgns [--text FILE] [--tokens N]\n");
+        } else {
+            fprintf(stderr, "usage: bench-sgns [--text FILE] [--tokens N] [--repeat R] "
+                            "[--only fast|reference DIM THREADS]\n");
             return 2;
         }
+    }
+    if (repeat < 1 || repeat > MAX_REPEAT) {
+        fprintf(stderr, "bench-sgns: --repeat: expected 1 to %d\n", MAX_REPEAT);
+        return 2;
     }
     if (text && *text) {
         if (load_text(text, tokens, &s) != 0)
@@ -256,65 +347,59 @@ main(int argc, char **argv)
     printf("cblas_sgemm 1536^3: %.1f GFLOP/s on 1 thread, %.1f on 2 threads (wall); "
            "%.1f and %.1f GFLOP per CPU-second\n", g1 * 1e-9, g2 * 1e-9, c1 * 1e-9, c2 * 1e-9);
     openblas_set_num_threads(1);
-    printf("training: 1 epoch, window 5, 5 noise samples, subsampling 1e-4, lr 0.025\n\n");
-    printf("words/s: wall clock; words/cpu-s: per CPU-second, i.e. per busy thread; %%GEMM: "
-           "GFLOP per CPU-second / GEMM's\n");
-    printf("%-9s %4s %3s %10s %14s %12s %8s %7s %8s %8s\n", "kernel", "dim", "thr", "words/s",
-           "words/s/thread", "words/cpu-s", "GFLOP/s", "%GEMM", "peak MB", "floor MB");
+    printf("training: 1 epoch, window 5, 5 noise samples, subsampling 1e-4, lr 0.025; "
+           "medians of %d interleaved repetition%s\n\n", repeat, repeat > 1 ? "s" : "");
     for (int di = 0; di < 2; di++)
         for (int ti = 0; ti < 2; ti++)
             for (int k = 0; k < 2; k++) {
-                ist_sgns_opts o;
-                ist_sgns_result res;
-                ist_matrix *m = NULL;
-                ist_error err;
                 if (only_kernel >= 0 &&
                     (k != only_kernel || dims[di] != only_dim || nthr[ti] != only_threads))
                     continue;
-                ist_sgns_opts_init(&o);
-                o.dim = dims[di];
-                o.threads = nthr[ti];
-                o.epochs = 1;
-                o.kernel = k == 0 ? IST_SGNS_FAST : IST_SGNS_REFERENCE;
-                reset_peak();
-                double u0 = cpu_seconds();
-                if (ist_sgns_train(s.ids, s.n, s.counts, s.vocab, &o, &m, NULL, &res, &err) !=
-                    IST_OK) {
-                    fprintf(stderr, "bench-sgns: %s\n", err.msg);
-                    return 1;
-                }
-                double cpu = cpu_seconds() - u0;
                 row *r = &rows[nr++];
+                memset(r, 0, sizeof *r);
                 r->fast = k == 0;
-                r->dim = o.dim;
-                r->threads = o.threads;
-                r->wps = res.words_per_sec;
-                /* per pair: dot product, output update, input-gradient update: 3 x 2 dim */
-                r->flops = (double)res.pairs * 6.0 * (double)o.dim / res.seconds;
-                r->cpu_wps = (double)res.words_seen / cpu;
-                r->cpu_flops = (double)res.pairs * 6.0 * (double)o.dim / cpu;
-                r->rss = peak_rss();
-                r->floor_ = 2.0 * (double)s.vocab * (double)o.dim * 4 + (double)s.n * 4;
-                double g = o.threads == 1 ? c1 : c2;
-                printf("%-9s %4zu %3zu %10.0f %14.0f %12.0f %8.2f %6.1f%% %8.1f %8.1f\n",
-                       r->fast ? "fast" : "reference", r->dim, r->threads, r->wps,
-                       r->wps / (double)r->threads, r->cpu_wps, r->flops * 1e-9,
-                       100.0 * r->cpu_flops / g, r->rss / 1048576.0, r->floor_ / 1048576.0);
-                fflush(stdout);
-                ist_matrix_free(m);
+                r->dim = dims[di];
+                r->threads = nthr[ti];
             }
+    for (int rep = 0; rep < repeat; rep++)
+        for (int i = 0; i < nr; i++) {
+            if (run_one(&s, &rows[i], rep) != 0)
+                return 1;
+            fprintf(stderr, "\rbench-sgns: repetition %d/%d, run %d/%d ", rep + 1, repeat, i + 1,
+                    nr);
+        }
+    fprintf(stderr, "\n");
+    printf("words/s: wall clock; words/cpu-s: per CPU-second, i.e. per busy thread; %%GEMM: "
+           "GFLOP per CPU-second / GEMM's\n");
+    printf("peak MB: peak resident set of the training process (which holds the id stream from "
+           "the start);\nadded MB: its growth during training; floor MB: 2 x vocabulary x dim x 4 "
+           "bytes + id stream\n");
+    printf("%-9s %4s %3s %10s %14s %12s %8s %7s %8s %8s %8s\n", "kernel", "dim", "thr",
+           "words/s", "words/s/thread", "words/cpu-s", "GFLOP/s", "%GEMM", "peak MB", "added MB",
+           "floor MB");
+    for (int i = 0; i < nr; i++) {
+        row *r = &rows[i];
+        double g = r->threads == 1 ? c1 : c2, w = median(r->wps, r->n);
+        printf("%-9s %4zu %3zu %10.0f %14.0f %12.0f %8.2f %6.1f%% %8.1f %8.1f %8.1f\n",
+               r->fast ? "fast" : "reference", r->dim, r->threads, w, w / (double)r->threads,
+               median(r->cpu_wps, r->n), median(r->flops, r->n) * 1e-9,
+               100.0 * median(r->cpu_flops, r->n) / g, r->peak / 1048576.0, r->added / 1048576.0,
+               r->floor_ / 1048576.0);
+    }
     if (only_kernel >= 0)
         return 0;
-    printf("\nratios (same run):\n");
+    printf("\nratios of medians (same run):\n");
     for (int i = 0; i < nr; i += 2)
         printf("  dim %3zu, %zu thread%s: fast / reference = %.2f (wall), %.2f (per CPU-second)\n",
                rows[i].dim, rows[i].threads, rows[i].threads > 1 ? "s" : " ",
-               rows[i].wps / rows[i + 1].wps, rows[i].cpu_wps / rows[i + 1].cpu_wps);
+               median(rows[i].wps, rows[i].n) / median(rows[i + 1].wps, rows[i + 1].n),
+               median(rows[i].cpu_wps, rows[i].n) / median(rows[i + 1].cpu_wps, rows[i + 1].n));
     for (int i = 0; i < nr; i++)
         if (rows[i].threads == 1)
             printf("  %-9s dim %3zu: 2 threads / 1 thread = %.2f (wall); per CPU-second %.2f\n",
-                   rows[i].fast ? "fast" : "reference", rows[i].dim, rows[i + 2].wps / rows[i].wps,
-                   rows[i + 2].cpu_wps / rows[i].cpu_wps);
+                   rows[i].fast ? "fast" : "reference", rows[i].dim,
+                   median(rows[i + 2].wps, rows[i + 2].n) / median(rows[i].wps, rows[i].n),
+                   median(rows[i + 2].cpu_wps, rows[i + 2].n) / median(rows[i].cpu_wps, rows[i].n));
     free(s.ids);
     free(s.counts);
     return 0;
