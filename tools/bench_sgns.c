@@ -21,6 +21,8 @@
 
 #include <isthmus/isthmus.h>
 
+#include "sgns_int.h"     /* the fast path's kernels, for their in-cache ceiling */
+
 static double
 now(void)
 {
@@ -188,6 +190,44 @@ gemm_rate(int threads, double *cpu_rate)
     return 2.0 * n * (double)n * n / best;
 }
 
+/* The fast path's arithmetic alone: one window's products (m = 6 contexts, 1 + 5 outputs)
+ * on rows that stay in the L1 cache, repeated for about 0.5 s; flop per CPU-second. */
+static double
+kernel_ceiling(size_t dim)
+{
+    const ist_sgns_simd *k = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
+    size_t len = (dim + 15) & ~(size_t)15, m = 6, n = 6;
+    float *buf = calloc((2 * m + n) * len + 64, sizeof(float)), s[36], g[36];
+    const float *xr[6], *yr[6];
+    float *xw[6], *yw[6], *dx[6];
+    for (size_t i = 0; i < (2 * m + n) * len; i++)
+        buf[i] = 1e-3f * (float)(i % 17);
+    for (size_t i = 0; i < 6; i++) {
+        xw[i] = buf + i * len, xr[i] = xw[i];
+        yw[i] = buf + (m + i) * len, yr[i] = yw[i];
+        dx[i] = buf + (m + n + i) * len;
+    }
+    for (int i = 0; i < 36; i++)
+        g[i] = 1e-6f * (float)(i - 18);
+    double u0 = cpu_seconds(), u;
+    long reps = 0;
+    do {
+        for (int r = 0; r < 1000; r++) {
+            k->dots(xr, m, yr, n, len, s);
+            for (size_t j = 0; j < m; j++)
+                memset(dx[j], 0, len * sizeof(float));
+            k->acc(dx, m, yr, n, g, len);
+            k->acc(yw, n, xr, m, g, len);
+            for (size_t j = 0; j < m; j++)
+                k->add(xw[j], dx[j], len);
+        }
+        reps += 1000;
+        u = cpu_seconds() - u0;
+    } while (u < 0.5);
+    free(buf);
+    return (double)reps * (double)(m * n) * 6.0 * (double)dim / u;
+}
+
 #define MAX_REPEAT 9
 
 typedef struct row {
@@ -347,6 +387,10 @@ main(int argc, char **argv)
     printf("cblas_sgemm 1536^3: %.1f GFLOP/s on 1 thread, %.1f on 2 threads (wall); "
            "%.1f and %.1f GFLOP per CPU-second\n", g1 * 1e-9, g2 * 1e-9, c1 * 1e-9, c2 * 1e-9);
     openblas_set_num_threads(1);
+    double k100 = kernel_ceiling(100), k300 = kernel_ceiling(300);
+    printf("fast-path kernels alone, rows in L1 (6 contexts x 6 outputs a window): "
+           "%.1f GFLOP per CPU-second at dim 100 (%.0f%% of GEMM), %.1f at dim 300 (%.0f%%)\n",
+           k100 * 1e-9, 100 * k100 / c1, k300 * 1e-9, 100 * k300 / c1);
     printf("training: 1 epoch, window 5, 5 noise samples, subsampling 1e-4, lr 0.025; "
            "medians of %d interleaved repetition%s\n\n", repeat, repeat > 1 ? "s" : "");
     for (int di = 0; di < 2; di++)

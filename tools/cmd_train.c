@@ -291,9 +291,9 @@ run(int argc, char **argv)
     }
     if (cli_progress_enabled())
         a.so.progress = on_progress;
-    cli_info("isthmus train: %llu tokens, %zu words, %zu passes, dimension %zu, %zu thread%s, "
-             "%s kernel (%s)\n", (unsigned long long)tokens, types, a.so.epochs, a.so.dim,
-             a.so.threads, a.so.threads == 1 ? "" : "s",
+    cli_info("isthmus train: %llu tokens, %zu words, %zu pass%s, dimension %zu, %zu thread%s, "
+             "%s kernel (%s)\n", (unsigned long long)tokens, types, a.so.epochs,
+             a.so.epochs == 1 ? "" : "es", a.so.dim, a.so.threads, a.so.threads == 1 ? "" : "s",
              a.so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name());
     rc = ist_sgns_train(ids, n_ids, counts, types, &a.so, &in, a.so.keep_context ? &ctx : NULL,
                         &res, &err);
