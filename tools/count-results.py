@@ -1,5 +1,6 @@
 #!/usr/bin/env python3
-"""Count test cases in meson testlog JSON files and print 'N passed, N failed'.
+"""Count test cases in meson testlog JSON files (and plain TAP files, *.tap) and print
+'N passed, N failed'.
 
 A TAP test counts each of its 'ok' / 'not ok' lines; any other test counts once.
 A test binary that failed without reporting a failing case (crash, sanitizer
@@ -12,6 +13,21 @@ import sys
 passed = failed = skipped = 0
 problems = []
 for path in sys.argv[1:]:
+    if path.endswith(".tap"):
+        try:
+            out = open(path, encoding="utf-8").read()
+        except OSError as e:
+            problems.append(f"{path}: {e.strerror}")
+            failed += 1
+            continue
+        oks = len(re.findall(r"^ok \d+", out, re.M))
+        bad = len(re.findall(r"^not ok \d+", out, re.M))
+        passed += oks
+        failed += bad
+        if oks + bad == 0:
+            problems.append(f"{path}: no test result")
+            failed += 1
+        continue
     try:
         lines = open(path, encoding="utf-8").read().splitlines()
     except OSError as e:
