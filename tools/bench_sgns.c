@@ -1,11 +1,14 @@
 /* bench_sgns.c - speed and memory of skip-gram training, fast path against the per-pair
  * reference loop, in one run on one machine (docs/performance.md, section "Training").
  *
- * Usage: bench-sgns [--text FILE] [--tokens N] [--dims LIST] [--threads LIST]
- *   --text FILE   one line per sentence, words separated by spaces (e.g. the English Bible
- *                 extracted one verse per line); repeated until N tokens. Without it, or when
- *                 $ISTHMUS_BENCH_TEXT is unset too, a synthetic Zipfian stream is used.
+ * Usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] [--repeat R]
+ *                   [--only fast|reference DIM THREADS]
+ *   --corpus F    a prepared corpus (isthmus prepare; $ISTHMUS_BENCH_CORPUS), e.g. the English
+ *                 Bible from tools/extract-bible.py; its stream is repeated to N tokens
+ *   --text FILE   words separated by spaces, one line per sentence, vocabulary pruned at
+ *                 count 5 ($ISTHMUS_BENCH_TEXT). Without either, a synthetic Zipfian stream.
  *   --tokens N    stream length [default 10000000]
+ *   --repeat R    interleaved repetitions; medians are printed [default 1]
  * Prints words/s (stream words, counted before subsampling), the useful flop rate against
  * this machine's single-precision GEMM rate measured here with cblas_sgemm, and peak resident
  * memory against the floor 2 x vocabulary x dim x 4 bytes + the id stream. */
@@ -127,6 +130,38 @@ load_text(const char *path, size_t tokens, stream *s)
     free(remap);
     free(once.ids);
     ist_vocab_free(v);
+    return 0;
+}
+
+/* A prepared corpus (isthmus prepare), its id stream repeated to `tokens`. */
+static int
+load_prepared(const char *path, size_t tokens, stream *s)
+{
+    ist_corpus *c;
+    ist_error err;
+    size_t n;
+    if (ist_corpus_open(path, &c, &err) != IST_OK) {
+        char buf[1024];
+        fprintf(stderr, "bench-sgns: %s\n", ist_error_format(&err, buf, sizeof buf));
+        return -1;
+    }
+    const uint32_t *ids = ist_corpus_ids(c, &n);
+    const ist_vocab *v = ist_corpus_vocab(c);
+    s->vocab = ist_vocab_size(v);
+    s->counts = calloc(s->vocab ? s->vocab : 1, sizeof *s->counts);
+    size_t words = 0;
+    for (size_t i = 0; i < n; i++)
+        words += ids[i] != IST_CORPUS_EOL;
+    while (s->n < tokens && words > 0)
+        for (size_t i = 0; i < n; i++) {
+            push(s, ids[i]);
+            if (ids[i] != IST_CORPUS_EOL)
+                s->counts[ids[i]]++;
+        }
+    printf("stream: prepared corpus %s, %zu words (%zu types), repeated to %zu ids\n", path, words,
+           s->vocab, s->n);
+    s->what = path;
+    ist_corpus_free(c);
     return 0;
 }
 
@@ -344,7 +379,7 @@ run_one(const stream *s, row *r, int rep)
 int
 main(int argc, char **argv)
 {
-    const char *text = getenv("ISTHMUS_BENCH_TEXT");
+    const char *text = getenv("ISTHMUS_BENCH_TEXT"), *prepared = getenv("ISTHMUS_BENCH_CORPUS");
     size_t tokens = 10000000, dims[2] = {100, 300}, nthr[2] = {1, 2};
     stream s = {0};
     row rows[8];
@@ -354,6 +389,8 @@ main(int argc, char **argv)
     for (int i = 1; i < argc; i++) {
         if (strcmp(argv[i], "--text") == 0 && i + 1 < argc)
             text = argv[++i];
+        else if (strcmp(argv[i], "--corpus") == 0 && i + 1 < argc)
+            prepared = argv[++i];
         else if (strcmp(argv[i], "--tokens") == 0 && i + 1 < argc)
             tokens = strtoull(argv[++i], NULL, 10);
         else if (strcmp(argv[i], "--repeat") == 0 && i + 1 < argc)
@@ -363,8 +400,8 @@ main(int argc, char **argv)
             only_dim = strtoull(argv[++i], NULL, 10);
             only_threads = strtoull(argv[++i], NULL, 10);
         } else {
-            fprintf(stderr, "usage: bench-sgns [--text FILE] [--tokens N] [--repeat R] "
-                            "[--only fast|reference DIM THREADS]\n");
+            fprintf(stderr, "usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] "
+                            "[--repeat R] [--only fast|reference DIM THREADS]\n");
             return 2;
         }
     }
@@ -372,7 +409,10 @@ main(int argc, char **argv)
         fprintf(stderr, "bench-sgns: --repeat: expected 1 to %d\n", MAX_REPEAT);
         return 2;
     }
-    if (text && *text) {
+    if (prepared && *prepared) {
+        if (load_prepared(prepared, tokens, &s) != 0)
+            return 1;
+    } else if (text && *text) {
         if (load_text(text, tokens, &s) != 0)
             return 1;
     } else {
