@@ -6,6 +6,7 @@
 
 #include <isthmus/cancel.h>
 #include <isthmus/sgns.h>
+#include <isthmus/testing.h>
 
 #include "sgns_int.h"
 
@@ -647,6 +648,57 @@ bad_options(void **state)
     assert_non_null(strstr(err.msg, "zero"));
 }
 
+/* In a fault-injection build (-Dfault_injection=true): fail allocation k for k = 0, 1, ...
+ * until training succeeds; every failure must be a clean IST_ERR_NOMEM with no vectors
+ * returned (ASan in that build finds leaks). A normal build only notes that it did not run. */
+static void
+every_failed_allocation_is_clean(void **state)
+{
+    corpus c;
+    ist_sgns_opts o;
+    (void)state;
+    if (!ist_testing_fault_injection_enabled()) {
+        printf("# allocation failures: not tried (built without -Dfault_injection=true)\n");
+        return;
+    }
+    make_clusters(&c, 5, 4, 50, 0.1, 3);
+    ist_sgns_opts_init(&o);
+    o.dim = 8;
+    o.epochs = 1;
+    o.keep_context = true;
+    int k, tried = 0;
+    for (int kern = 0; kern < 2; kern++) {
+        o.kernel = kern ? IST_SGNS_REFERENCE : IST_SGNS_FAST;
+        for (k = 0; k < 1000; k++) {
+            ist_matrix *in = NULL, *ctx = NULL;
+            char *prov = NULL;
+            ist_testing_fail_alloc_after(k);
+            ist_status rc = ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &in, &ctx, NULL,
+                                           NULL);
+            if (rc == IST_OK)
+                rc = ist_sgns_provenance_json(&o, NULL, "{}", "[]", 1, 1, &prov, NULL);
+            ist_testing_fail_alloc_after(-1);
+            if (rc == IST_OK) {
+                assert_non_null(prov);
+                ist_sgns_free(prov);
+                ist_matrix_free(in), ist_matrix_free(ctx);
+                break;
+            }
+            assert_int_equal(rc, IST_ERR_NOMEM);
+            assert_null(prov);
+            if (in) {                  /* training succeeded, the provenance failed */
+                ist_matrix_free(in), ist_matrix_free(ctx);
+            } else {
+                assert_null(ctx);
+            }
+            tried++;
+        }
+        assert_true(k > 0 && k < 1000);
+    }
+    printf("# allocation failures: %d failure points tried, all clean\n", tried);
+    corpus_free(&c);
+}
+
 int
 main(void)
 {
@@ -664,6 +716,7 @@ main(void)
         cmocka_unit_test(two_threads_learn),
         cmocka_unit_test(progress_can_cancel),
         cmocka_unit_test(bad_options),
+        cmocka_unit_test(every_failed_allocation_is_clean),
     };
     HARNESS_RUN("sgns", tests);
 }
