@@ -53,7 +53,7 @@ help(FILE *out)
           "portable kernels.\n"
           "\n"
           "Example:\n"
-          "  isthmus train --dimension 50 --passes 10 -o shop-en.isv data-samples/shop-en.txt\n",
+          "  isthmus train --dimension 50 -o tillwick-en.isv data-samples/tillwick-en.txt.gz\n",
           out);
 }
 
