@@ -292,29 +292,27 @@ prefetch_row(const float *row, size_t len)
         __builtin_prefetch(row + d, 1, 3);
 }
 
-/* Shared noise words for the window; updates as small matrix products (Ji et al. 2016).
- * The noise words are drawn one window ahead so that their rows can be fetched from memory
- * while the current window computes. */
-static void
-window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
+/* The window's output rows: the centre word (label 1) then the distinct noise words with
+ * their multiplicities (a noise word equal to the centre is skipped). The noise words are
+ * drawn one window ahead so that their rows can be fetched from memory while the current
+ * window computes. Returns the number of rows; *drawn counts centre + noise words used. */
+static size_t
+window_outputs(worker *w, uint32_t centre, size_t *drawn)
 {
     shared *sh = w->sh;
-    size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, len = sh->stride;
-    uint32_t centre = w->sent[i];
-    size_t m = 0, no = 1, drawn = 1, kn = sh->negatives;
-    const ist_sgns_simd *v = sh->simd;
+    size_t no = 1, kn = sh->negatives, len = sh->stride;
 
     if (!w->have_pre)
         for (size_t d = 0; d < kn; d++)
             w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
-    /* outputs: the centre word (label 1) then distinct noise words with multiplicities */
     w->outs[0] = centre;
     w->mult[0] = 1;
+    *drawn = 1;
     for (size_t d = 0; d < kn; d++) {
         uint32_t o = w->pre[d];
         if (o == centre)
             continue;
-        drawn++;
+        (*drawn)++;
         size_t k = 1;
         while (k < no && w->outs[k] != o)
             k++;
@@ -327,30 +325,25 @@ window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
     }
     for (size_t d = 0; d < kn; d++) {
         w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
-        prefetch_row(sh->out + (size_t)w->pre[d] * sh->stride, len);
+        prefetch_row(sh->out + (size_t)w->pre[d] * len, len);
     }
     w->have_pre = true;
-    if (i + 1 < n)
-        prefetch_row(sh->out + (size_t)w->sent[i + 1] * sh->stride, len);
-    if (i + sh->window + 1 < n)
-        prefetch_row(sh->in + (size_t)w->sent[i + sh->window + 1] * sh->stride, len);
-    for (size_t j = lo; j < hi; j++) {
-        if (j == i)
-            continue;
-        float *x = sh->in + (size_t)w->sent[j] * sh->stride;
-        w->xr[m] = x;
-        w->xw[m] = x;
-        m++;
-    }
-    if (m == 0)
-        return;
     for (size_t k = 0; k < no; k++) {
-        float *y = sh->out + (size_t)w->outs[k] * sh->stride;
+        float *y = sh->out + (size_t)w->outs[k] * len;
         w->yr[k] = y;
         w->yw[k] = y;
     }
-    v->dots(w->xr, m, w->yr, no, len, w->s);
-    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;   /* loss on every 8th window */
+    return no;
+}
+
+/* G = lr (L - s(S)) weighted by the output multiplicities, and its transpose; the loss is
+ * summed on every 8th window. Also zeroes the dX rows. Returns whether the loss was summed. */
+static bool
+window_gradients(worker *w, size_t m, size_t no, float lr)
+{
+    const shared *sh = w->sh;
+    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;
+
     for (size_t j = 0; j < m; j++) {
         for (size_t k = 0; k < no; k++) {
             float x = w->s[j * no + k], g;
@@ -365,8 +358,37 @@ window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
             w->g[j * no + k] = g;
             w->gt[k * m + j] = g;
         }
-        memset(w->dxr[j], 0, len * sizeof(float));
+        memset(w->dxr[j], 0, sh->stride * sizeof(float));
     }
+    return sample;
+}
+
+/* Shared noise words for the window; updates as small matrix products (Ji et al. 2016). */
+static void
+window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
+{
+    shared *sh = w->sh;
+    size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, len = sh->stride;
+    size_t m = 0, drawn;
+    const ist_sgns_simd *v = sh->simd;
+
+    size_t no = window_outputs(w, w->sent[i], &drawn);
+    if (i + 1 < n)
+        prefetch_row(sh->out + (size_t)w->sent[i + 1] * len, len);
+    if (i + sh->window + 1 < n)
+        prefetch_row(sh->in + (size_t)w->sent[i + sh->window + 1] * len, len);
+    for (size_t j = lo; j < hi; j++) {
+        if (j == i)
+            continue;
+        float *x = sh->in + (size_t)w->sent[j] * len;
+        w->xr[m] = x;
+        w->xw[m] = x;
+        m++;
+    }
+    if (m == 0)
+        return;
+    v->dots(w->xr, m, w->yr, no, len, w->s);
+    bool sample = window_gradients(w, m, no, lr);
     v->acc(w->dxr, m, w->yr, no, w->g, len);       /* dX = G Y          */
     v->acc(w->yw, no, w->xr, m, w->gt, len);       /* Y += G^T X        */
     for (size_t j = 0; j < m; j++)                 /* X += dX, row by row: contexts may repeat */
@@ -669,6 +691,32 @@ all_finite(const float *a, size_t n)
     return true;
 }
 
+/* Fill the shared state of a run (the matrices and samplers are made by the caller). */
+static void
+shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix *in,
+             ist_matrix *out, const uint32_t *keep, uint64_t words)
+{
+    sh->ids = ids;
+    sh->dim = o->dim;
+    sh->stride = in->stride;
+    sh->window = o->window;
+    sh->negatives = o->negatives;
+    sh->epochs = o->epochs;
+    sh->nthreads = o->threads;
+    sh->in = in->data;
+    sh->out = out->data;
+    sh->keep = keep;
+    sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
+    sh->kernel = o->kernel;
+    sh->lr0 = o->lr0;
+    sh->words_per_epoch = words;
+    sh->words_total = words * o->epochs;
+    sig_tables(sh);
+    atomic_init(&sh->stop, 0);
+    pthread_mutex_init(&sh->lock, NULL);
+    pthread_cond_init(&sh->wake, NULL);
+}
+
 ist_status
 ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t vocab_size,
                const ist_sgns_opts *o, ist_matrix **in_vectors, ist_matrix **ctx_vectors,
@@ -702,25 +750,7 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         (rc = ist_matrix_new(vocab_size, o->dim, &in, err)) != IST_OK ||
         (rc = ist_matrix_new(vocab_size, o->dim, &out, err)) != IST_OK)
         goto fail;
-    sh->ids = ids;
-    sh->dim = o->dim;
-    sh->stride = in->stride;
-    sh->window = o->window;
-    sh->negatives = o->negatives;
-    sh->epochs = o->epochs;
-    sh->nthreads = o->threads;
-    sh->in = in->data;
-    sh->out = out->data;
-    sh->keep = keep;
-    sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
-    sh->kernel = o->kernel;
-    sh->lr0 = o->lr0;
-    sh->words_per_epoch = words;
-    sh->words_total = words * o->epochs;
-    sig_tables(sh);
-    atomic_init(&sh->stop, 0);
-    pthread_mutex_init(&sh->lock, NULL);
-    pthread_cond_init(&sh->wake, NULL);
+    shared_setup(sh, ids, o, in, out, keep, words);
     init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
     for (size_t t = 0; t < o->threads; t++) {
         ws[t].sh = sh;
