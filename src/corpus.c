@@ -146,36 +146,60 @@ on_word(void *ctx, const char *word, size_t len)
     return 0;
 }
 
-/* CRC-32 and size of the file as stored (what provenance records). */
-static ist_status
-file_crc(const char *path, uint32_t *crc, uint64_t *bytes, ist_error *err)
-{
-    static const size_t chunk = (size_t)1 << 20;
-    unsigned char *buf;
+/* CRC-32 and size of the file as stored (what provenance records), read by a
+ * second handle that follows the line reader a little ahead, so both read the
+ * same pages while they are in the page cache: a file larger than memory is
+ * read from disk once. */
+typedef struct crc_follow {
     FILE *f;
-    size_t n;
-    uLong c = crc32(0L, Z_NULL, 0);
-    ist_status rc = IST_OK;
+    unsigned char *buf;
+    uLong crc;
+    uint64_t done;
+} crc_follow;
 
-    *bytes = 0;
-    f = fopen(path, "rb");
-    if (!f)
+#define CRC_CHUNK ((size_t)1 << 20)
+
+static ist_status
+crc_open(crc_follow *cf, const char *path, ist_error *err)
+{
+    memset(cf, 0, sizeof *cf);
+    cf->crc = crc32(0L, Z_NULL, 0);
+    cf->f = fopen(path, "rb");
+    if (!cf->f)
         return ist_error_sys(err, IST_ERR_IO, path, "cannot open for reading");
-    buf = ist_malloc(chunk);
-    if (!buf) {
-        fclose(f);
+    cf->buf = ist_malloc(CRC_CHUNK);
+    if (!cf->buf) {
+        fclose(cf->f);
+        cf->f = NULL;
         return ist_error_nomem(err);
     }
-    while ((n = fread(buf, 1, chunk, f)) > 0) {
-        c = crc32_z(c, buf, n);
-        *bytes += n;
+    return IST_OK;
+}
+
+/* Checksum up to byte `upto` of the file (UINT64_MAX: to its end). */
+static ist_status
+crc_advance(crc_follow *cf, uint64_t upto, const char *path, ist_error *err)
+{
+    while (cf->done < upto) {
+        uint64_t want = upto - cf->done;
+        size_t n = fread(cf->buf, 1, want < CRC_CHUNK ? (size_t)want : CRC_CHUNK, cf->f);
+        if (n == 0) {
+            if (ferror(cf->f))
+                return ist_error_sys(err, IST_ERR_IO, path, "cannot read");
+            break;
+        }
+        cf->crc = crc32_z(cf->crc, cf->buf, n);
+        cf->done += n;
     }
-    if (ferror(f))
-        rc = ist_error_sys(err, IST_ERR_IO, path, "cannot read");
-    ist_free(buf);
-    fclose(f);
-    *crc = (uint32_t)c;
-    return rc;
+    return IST_OK;
+}
+
+static void
+crc_close(crc_follow *cf)
+{
+    if (cf->f)
+        fclose(cf->f);
+    ist_free(cf->buf);
 }
 
 /* One normalised line: dedup, segment, end with EOL. */
@@ -193,8 +217,8 @@ take_line(build *b, ist_reader *r, const char *line, size_t len, ist_error *err)
             char msg[IST_ERROR_MSG_CAP];
             snprintf(msg, sizeof msg, "%s", err->msg);
             ist_error_at(err, IST_ERR_FORMAT, ist_reader_path(r), ist_reader_lineno(r),
-                         "%s (byte %llu of the line, byte %llu of the text)", msg,
-                         (unsigned long long)col + 1,
+                         "%s (byte offset %llu in the line, %llu in the text)", msg,
+                         (unsigned long long)col,
                          (unsigned long long)(ist_reader_offset(r) + col));
             err->offset = ist_reader_offset(r) + col;
             err->has_offset = 1;
@@ -229,16 +253,18 @@ read_file(build *b, const char *path, ist_error *err)
 {
     ist_reader *r = NULL;
     uint64_t lines0 = b->c->st.lines, repl0 = ist_normalizer_replaced(b->nz), bytes;
-    uint32_t crc = 0;
+    crc_follow cf;
     char hex[9];
     ist_status rc;
 
-    rc = file_crc(path, &crc, &bytes, err);
+    rc = crc_open(&cf, path, err);
     if (rc != IST_OK)
         return rc;
     rc = ist_reader_open(path, b->o->max_line, &r, err);
-    if (rc != IST_OK)
+    if (rc != IST_OK) {
+        crc_close(&cf);
         return rc;
+    }
     for (uint64_t k = 1;; k++) {
         char *line;
         size_t len;
@@ -254,11 +280,19 @@ read_file(build *b, const char *path, ist_error *err)
                 rc = ist_error_set(err, IST_ERR_CANCELLED, "preparation cancelled");
                 break;
             }
+            rc = crc_advance(&cf, ist_reader_raw_pos(r) + CRC_CHUNK, path, err);
+            if (rc != IST_OK)
+                break;
             if (b->o->progress)
                 b->o->progress(b->o->progress_ctx, b->bytes_before + ist_reader_raw_pos(r),
                                b->bytes_total);
         }
     }
+    if (rc == IST_OK)
+        rc = crc_advance(&cf, UINT64_MAX, path, err);
+    bytes = cf.done;
+    uint32_t crc = (uint32_t)cf.crc;
+    crc_close(&cf);
     ist_corpus_source src = {path, 0, ist_reader_bytes(r), crc, ist_reader_is_gzip(r),
                              b->c->st.lines - lines0, ist_normalizer_replaced(b->nz) - repl0};
     ist_reader_close(r);
@@ -288,17 +322,22 @@ read_file(build *b, const char *path, ist_error *err)
 static ist_status
 to_vocab(const ist_wordtab *t, ist_vocab *v, ist_error *err)
 {
-    for (size_t i = 0; i < t->n; i++) {
+    uint64_t *count = ist_malloc((t->n ? t->n : 1) * sizeof *count);
+    ist_status rc = IST_OK;
+
+    if (!count)
+        return ist_error_nomem(err);
+    ist_wordtab_counts(t, count);
+    for (size_t i = 0; i < t->n && rc == IST_OK; i++) {
         const char *w = ist_wordtab_word(t, (uint32_t)i);
         size_t len = (i + 1 < t->n ? t->off[i + 1] : t->pool_used) - t->off[i] - 1;
         uint32_t id;
-        ist_status rc = ist_vocab_add(v, w, len, t->count[i], &id, err);
-        if (rc != IST_OK)
-            return rc;
-        if (id != i)
-            return ist_error_set(err, IST_ERR_INTERNAL, "vocabulary id %u for word %zu", id, i);
+        rc = ist_vocab_add(v, w, len, count[i], &id, err);
+        if (rc == IST_OK && id != i)
+            rc = ist_error_set(err, IST_ERR_INTERNAL, "vocabulary id %u for word %zu", id, i);
     }
-    return IST_OK;
+    ist_free(count);
+    return rc;
 }
 
 /* Sort and prune the vocabulary, renumber the stream and drop pruned words. */

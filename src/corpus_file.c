@@ -248,6 +248,23 @@ load_words(ist_corpus *c, const unsigned char *p, const header *h, const char *p
     return IST_OK;
 }
 
+/* A count from the provenance: absent is 0; anything but a whole number in
+ * 0 .. 2^53 (exact in a double) makes *ok false. */
+static uint64_t
+count_of(const ist_jv *obj, const char *key, bool *ok)
+{
+    const ist_jv *v = ist_jv_get(obj, key);
+    if (!v)
+        return 0;
+    double d = ist_jv_num(v, -1.0);
+    if (ist_jv_type(v) != IST_JNUM || !(d >= 0.0 && d <= 9007199254740992.0)
+        || d != (double)(uint64_t)d) {
+        *ok = false;
+        return 0;
+    }
+    return (uint64_t)d;
+}
+
 /* Write a parsed JSON value back as text (the sources list of the file). */
 static void
 rewrite_json(ist_jw *w, const char *key, const ist_jv *v)
@@ -270,6 +287,40 @@ rewrite_json(ist_jw *w, const char *key, const ist_jv *v)
         ist_jw_obj_end(w);
         break;
     }
+}
+
+/* The sources list: kept as JSON text and as ist_corpus_source records. */
+static ist_status
+load_sources(ist_corpus *c, const ist_jv *src, bool *okp, ist_error *err)
+{
+    ist_status rc;
+    bool ok = true;
+    ist_jw w;
+    char *json = NULL;
+
+    ist_jw_init(&w, false);
+    rewrite_json(&w, NULL, src);
+    rc = ist_jw_finish(&w, &json, err);
+    if (rc == IST_OK) {
+        ist_free(c->sources_json);
+        c->sources_json = json;
+    }
+    for (size_t i = 0; i < ist_jv_len(src) && rc == IST_OK; i++) {
+        const ist_jv *e = ist_jv_at(src, i);
+        ist_corpus_source s = {
+            ist_jv_str(ist_jv_get(e, "path"), ""),
+            count_of(e, "bytes", &ok),
+            count_of(e, "text_bytes", &ok),
+            (uint32_t)strtoul(ist_jv_str(ist_jv_get(e, "crc32"), "0"), NULL, 16),
+            ist_jv_bool(ist_jv_get(e, "gzip"), false),
+            count_of(e, "lines", &ok),
+            count_of(e, "replaced_utf8", &ok),
+        };
+        rc = ist_corpus_add_source(c, &s, err);
+    }
+    if (!ok)
+        *okp = false;
+    return rc;
 }
 
 static ist_status
@@ -296,40 +347,22 @@ load_meta(ist_corpus *c, const unsigned char *p, const header *h, const char *pa
     st = ist_jv_get(root, "stats");
     pr = ist_jv_get(root, "prune");
     src = ist_jv_get(root, "sources");
-    c->st.lines = (uint64_t)ist_jv_num(ist_jv_get(st, "lines"), 0);
-    c->st.lines_dropped_dup = (uint64_t)ist_jv_num(ist_jv_get(st, "lines_dropped_dup"), 0);
-    c->st.tokens_in = (uint64_t)ist_jv_num(ist_jv_get(st, "tokens_in"), 0);
-    c->st.tokens_kept = (uint64_t)ist_jv_num(ist_jv_get(st, "tokens_kept"), 0);
-    c->st.replaced_utf8 = (uint64_t)ist_jv_num(ist_jv_get(st, "replaced_utf8"), 0);
-    c->st.types_before_prune = (uint64_t)ist_jv_num(ist_jv_get(st, "types_before_prune"), 0);
-    c->min_count = (uint64_t)ist_jv_num(ist_jv_get(pr, "min_count"), 0);
-    c->max_vocab = (size_t)ist_jv_num(ist_jv_get(pr, "max_vocab"), 0);
-    if (rc == IST_OK && ist_jv_type(src) == IST_JARR) {
-        ist_jw w;
-        char *json = NULL;
-        ist_jw_init(&w, false);
-        rewrite_json(&w, NULL, src);
-        rc = ist_jw_finish(&w, &json, err);
-        if (rc == IST_OK) {
-            ist_free(c->sources_json);
-            c->sources_json = json;
-        }
-        for (size_t i = 0; i < ist_jv_len(src) && rc == IST_OK; i++) {
-            const ist_jv *e = ist_jv_at(src, i);
-            ist_corpus_source s = {
-                ist_jv_str(ist_jv_get(e, "path"), ""),
-                (uint64_t)ist_jv_num(ist_jv_get(e, "bytes"), 0),
-                (uint64_t)ist_jv_num(ist_jv_get(e, "text_bytes"), 0),
-                (uint32_t)strtoul(ist_jv_str(ist_jv_get(e, "crc32"), "0"), NULL, 16),
-                ist_jv_bool(ist_jv_get(e, "gzip"), false),
-                (uint64_t)ist_jv_num(ist_jv_get(e, "lines"), 0),
-                (uint64_t)ist_jv_num(ist_jv_get(e, "replaced_utf8"), 0),
-            };
-            rc = ist_corpus_add_source(c, &s, err);
-        }
-    }
+    bool ok = true;
+    c->st.lines = count_of(st, "lines", &ok);
+    c->st.lines_dropped_dup = count_of(st, "lines_dropped_dup", &ok);
+    c->st.tokens_in = count_of(st, "tokens_in", &ok);
+    c->st.tokens_kept = count_of(st, "tokens_kept", &ok);
+    c->st.replaced_utf8 = count_of(st, "replaced_utf8", &ok);
+    c->st.types_before_prune = count_of(st, "types_before_prune", &ok);
+    c->min_count = count_of(pr, "min_count", &ok);
+    c->max_vocab = (size_t)count_of(pr, "max_vocab", &ok);
+    if (rc == IST_OK && ist_jv_type(src) == IST_JARR)
+        rc = load_sources(c, src, &ok, err);
     ist_jv_free(root);
-    if (rc != IST_OK)
+    if (rc == IST_OK && !ok)
+        rc = ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                          "provenance: a count is not a whole number in range");
+    else if (rc != IST_OK)
         ist_error_prefix(err, "%s", path);
     return rc;
 }

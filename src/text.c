@@ -5,6 +5,7 @@
  * case folding of ASCII is tolower, and ASCII has no combining marks. */
 #include <isthmus/text.h>
 
+#include <stdio.h>
 #include <string.h>
 
 #include <utf8proc.h>
@@ -157,10 +158,17 @@ sanitize(ist_normalizer *nz, const unsigned char *in, size_t n, const unsigned c
         *src_len = n;
         return IST_OK;
     }
-    if (nz->o.strict_utf8)
+    if (nz->o.strict_utf8) {
+        char found[20];
+        size_t used = 0;
+        ist_utf8_decode(in + i, n - i, &cp);      /* cp = length of the bad part */
+        for (size_t k = i; k < n && k <= i + cp && k < i + 4; k++)
+            used += (size_t)snprintf(found + used, sizeof found - used, "%s%02x",
+                                     used ? " " : "", in[k]);
         return ist_error_at_offset(err, IST_ERR_FORMAT, NULL, i,
-                                   "invalid UTF-8: byte 0x%02x does not start a well-formed "
-                                   "sequence", in[i]);
+                                   "invalid UTF-8: expected a well-formed sequence, found "
+                                   "bytes %s", found);
+    }
     if (!reserve((void **)&nz->clean, &nz->clean_cap, 3 * n + 1, 1))
         return ist_error_nomem(err);
     memcpy(nz->clean, in, i);
@@ -291,6 +299,13 @@ ist_normalize(ist_normalizer *nz, const char *in, size_t len, const char **out, 
 
     *out = NULL;
     *out_len = 0;
+    if (len == 0) {
+        if (!reserve((void **)&nz->out, &nz->out_cap, 1, 1))
+            return ist_error_nomem(err);
+        nz->out[0] = '\0';
+        *out = (const char *)nz->out;
+        return IST_OK;
+    }
     if (is_ascii(s, len)) {
         if (!reserve((void **)&nz->out, &nz->out_cap, len + 1, 1))
             return ist_error_nomem(err);

@@ -92,6 +92,10 @@ typedef int (*ist_segment_fn)(void *ctx, size_t start, size_t len, bool wordlike
 ist_status ist_segment_all(const char *text, size_t len, ist_segment_fn fn, void *ctx,
                            ist_error *err);
 
+/* The same without the ASCII fast paths: the rules alone, for tests. */
+ist_status ist_segment_all_reference(const char *text, size_t len, ist_segment_fn fn, void *ctx,
+                                     ist_error *err);
+
 /* Unicode version of the generated word-break table, e.g. "15.0.0". */
 const char *ist_wordbreak_unicode_version(void);
 

@@ -148,28 +148,50 @@ wordlike_char(uint32_t cp, unsigned prop)
            || (cat >= UTF8PROC_CATEGORY_ND && cat <= UTF8PROC_CATEGORY_NO);
 }
 
-ist_status
-ist_segment_all(const char *text, size_t len, ist_segment_fn fn, void *ctx, ist_error *err)
+static ist_status
+segment(const char *text, size_t len, ist_segment_fn fn, void *ctx, bool fast, ist_error *err)
 {
     const unsigned char *s = (const unsigned char *)text;
     wb_state st = {NONE, NONE, NONE, 0};
     size_t pos = 0, start = 0;
-    bool word = false;
+    bool word = false, prev_ascii = false;
 
     while (pos < len) {
         size_t adv;
         uint32_t cp;
-        /* Fast path: an ASCII letter or digit right after one never breaks (WB5,
-         * WB8, WB9, WB10; no earlier rule can apply between two of them). */
-        if (s[pos] < 0x80 && (st.raw == IST_WB_ALETTER || st.raw == IST_WB_NUMERIC)) {
+        /* Fast path between two ASCII characters (never ignorable, never
+         * Extended_Pictographic). A letter or digit after one never breaks
+         * (WB5, WB8-WB10, and no earlier rule applies); before any other
+         * character or after one without a rule (Other, WSegSpace, a line
+         * end) the only rule left is WB3d; the rest takes the general path. */
+        if (fast && s[pos] < 0x80 && prev_ascii) {
             unsigned a = ist_wb_prop(s[pos]);
-            if (a == IST_WB_ALETTER || a == IST_WB_NUMERIC) {
-                st.p0 = st.p1;
-                st.p1 = st.raw = a;
-                pos++;
-                continue;
+            bool alnum = a == IST_WB_ALETTER || a == IST_WB_NUMERIC;
+            bool plain = a == IST_WB_OTHER || a == IST_WB_WSEGSPACE;
+            bool brk;
+            if (alnum && (st.raw == IST_WB_ALETTER || st.raw == IST_WB_NUMERIC))
+                brk = false;
+            else if (plain)
+                brk = !(st.raw == IST_WB_WSEGSPACE && a == IST_WB_WSEGSPACE);
+            else if (alnum && (st.raw == IST_WB_OTHER || st.raw == IST_WB_WSEGSPACE
+                               || newline(st.raw)))
+                brk = true;
+            else
+                goto general;
+            if (brk) {
+                if (fn(ctx, start, pos - start, word))
+                    return IST_OK;
+                start = pos;
+                word = false;
             }
+            word = word || alnum;
+            st.p0 = st.p1;
+            st.p1 = st.raw = a;
+            st.ri = 0;
+            pos++;
+            continue;
         }
+general:;
         unsigned prop = prop_at(s + pos, len - pos, &adv, &cp);
         if (prop == NONE)
             return ist_error_at_offset(err, IST_ERR_INVALID, NULL, pos,
@@ -188,11 +210,25 @@ ist_segment_all(const char *text, size_t len, ist_segment_fn fn, void *ctx, ist_
             st.p1 = c;
         }
         st.raw = c;
+        prev_ascii = cp < 0x80;
         pos += adv;
     }
     if (len > 0)
         fn(ctx, start, len - start, word);
     return IST_OK;
+}
+
+ist_status
+ist_segment_all(const char *text, size_t len, ist_segment_fn fn, void *ctx, ist_error *err)
+{
+    return segment(text, len, fn, ctx, true, err);
+}
+
+ist_status
+ist_segment_all_reference(const char *text, size_t len, ist_segment_fn fn, void *ctx,
+                          ist_error *err)
+{
+    return segment(text, len, fn, ctx, false, err);
 }
 
 typedef struct word_ctx {

@@ -13,22 +13,31 @@ mix(uint64_t h)
     return h;
 }
 
-/* Eight bytes at a time; words are short, so this beats a byte loop. */
+/* Eight bytes at a time; the tail is read with (overlapping) fixed-size loads,
+ * never a variable-length copy, which would stall on store forwarding. The
+ * length is mixed in, so overlapping reads of different lengths differ. */
 static inline uint64_t
 fast_hash(const char *p, size_t n)
 {
     uint64_t h = (uint64_t)n * 0x9e3779b97f4a7c15ull, w;
+    const unsigned char *u = (const unsigned char *)p;
 
-    for (; n >= 8; p += 8, n -= 8) {
-        memcpy(&w, p, 8);
+    for (; n >= 8; u += 8, n -= 8) {
+        memcpy(&w, u, 8);
         h = (h ^ w) * 0xc4ceb9fe1a85ec53ull;
         h ^= h >> 29;
     }
-    if (n) {
+    if (n >= 4) {
+        uint32_t a, b;
+        memcpy(&a, u, 4);
+        memcpy(&b, u + n - 4, 4);
+        w = (uint64_t)a | (uint64_t)b << 32;
+    } else if (n > 0) {
+        w = (uint64_t)u[0] | (uint64_t)u[n / 2] << 8 | (uint64_t)u[n - 1] << 16;
+    } else {
         w = 0;
-        memcpy(&w, p, n);
-        h = (h ^ w) * 0xc4ceb9fe1a85ec53ull;
     }
+    h = (h ^ w) * 0xc4ceb9fe1a85ec53ull;
     return mix(h);
 }
 
@@ -47,7 +56,6 @@ void
 ist_wordtab_free(ist_wordtab *t)
 {
     ist_free(t->slot);
-    ist_free(t->count);
     ist_free(t->off);
     ist_free(t->pool);
     memset(t, 0, sizeof *t);
@@ -64,7 +72,8 @@ grow_slots(ist_wordtab *t, ist_error *err)
     for (size_t i = 0; i < t->cap; i++) {
         if (!t->slot[i].id_plus1)
             continue;
-        size_t j = (size_t)t->slot[i].hash & mask;
+        uint32_t id = t->slot[i].id_plus1 - 1;
+        size_t j = (size_t)fast_hash(t->pool + t->off[id], t->slot[i].len) & mask;
         while (ns[j].id_plus1)
             j = (j + 1) & mask;
         ns[j] = t->slot[i];
@@ -80,10 +89,6 @@ store_word(ist_wordtab *t, const char *w, size_t len, ist_error *err)
 {
     if (t->n == t->meta_cap) {
         size_t nc = t->meta_cap ? 2 * t->meta_cap : 4096;
-        uint64_t *c = ist_realloc(t->count, nc * sizeof *c);
-        if (!c)
-            return ist_error_nomem(err);
-        t->count = c;
         uint64_t *o = ist_realloc(t->off, nc * sizeof *o);
         if (!o)
             return ist_error_nomem(err);
@@ -103,7 +108,6 @@ store_word(ist_wordtab *t, const char *w, size_t len, ist_error *err)
     memcpy(t->pool + t->pool_used, w, len);
     t->pool[t->pool_used + len] = '\0';
     t->off[t->n] = t->pool_used;
-    t->count[t->n] = 0;
     t->pool_used += len + 1;
     return IST_OK;
 }
@@ -112,6 +116,7 @@ ist_status
 ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id, ist_error *err)
 {
     uint64_t h = fast_hash(w, len);
+    uint32_t tag = (uint32_t)(h >> 32);
     size_t mask = t->cap - 1, i = (size_t)h & mask;
     ist_status rc;
 
@@ -119,12 +124,12 @@ ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id, ist_err
         ist_wslot *s = &t->slot[i];
         if (!s->id_plus1)
             break;
-        if (s->hash != h || s->len != len)
+        if (s->tag != tag || s->len != len)
             continue;
         const char *cand = len <= IST_WORDTAB_INLINE ? s->w : t->pool + t->off[s->id_plus1 - 1];
         if (memcmp(cand, w, len) == 0) {
             *id = s->id_plus1 - 1;
-            t->count[*id]++;
+            s->count++;
             return IST_OK;
         }
     }
@@ -135,14 +140,22 @@ ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id, ist_err
     if (rc != IST_OK)
         return rc;
     ist_wslot *s = &t->slot[i];
-    s->hash = h;
+    s->count = 1;
+    s->tag = tag;
     s->id_plus1 = (uint32_t)t->n + 1;
     s->len = (uint32_t)len;
     if (len <= IST_WORDTAB_INLINE)
         memcpy(s->w, w, len);
-    *id = (uint32_t)t->n;
-    t->count[t->n++] = 1;
+    *id = (uint32_t)t->n++;
     if ((t->n + 1) * 2 > t->cap)
         return grow_slots(t, err);
     return IST_OK;
+}
+
+void
+ist_wordtab_counts(const ist_wordtab *t, uint64_t *out)
+{
+    for (size_t i = 0; i < t->cap; i++)
+        if (t->slot[i].id_plus1)
+            out[t->slot[i].id_plus1 - 1] = t->slot[i].count;
 }

@@ -8,8 +8,9 @@
 # Idempotent: a file that exists and is newer than its source data is left alone.
 set -eu
 
+# With --check, only report whether the packages are installed (exit 0 or 1).
 if [ $# -ne 1 ]; then
-    echo "usage: $0 OUTPUT-DIRECTORY" >&2
+    echo "usage: $0 OUTPUT-DIRECTORY | --check" >&2
     exit 2
 fi
 out=$1
@@ -29,6 +30,7 @@ if [ -n "$missing" ]; then
     echo "$0: install them with: apt-get install$missing" >&2
     exit 1
 fi
+[ "$out" = "--check" ] && exit 0
 
 mkdir -p "$out"
 

@@ -1,6 +1,8 @@
 /* cmd_prepare.c - isthmus prepare: raw text to a prepared corpus file. */
+#include <errno.h>
 #include <getopt.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cli.h"
 
@@ -36,7 +38,8 @@ help(FILE *out)
           "The output is written to a temporary file and renamed into place when complete.\n"
           "\n"
           "Example:\n"
-          "  isthmus prepare --min-freq 3 --dedup-lines -o shop-es.prep data-samples/shop-es.txt\n",
+          "  isthmus prepare --min-freq 3 --dedup-lines -o tillwick-es.prep \\\n"
+          "      data-samples/tillwick-es.txt.gz\n",
           out);
 }
 
@@ -89,8 +92,9 @@ summary(const ist_corpus *c, const char *out, double secs)
     }
 }
 
+/* Options into *o and *out; returns -1 to go on, else the exit status. */
 static int
-run(int argc, char **argv)
+parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
 {
     static const struct option opts[] = {
         {"output", required_argument, NULL, 'o'},
@@ -106,51 +110,82 @@ run(int argc, char **argv)
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
-    ist_corpus_opts o;
-    const char *out = NULL;
     int c;
 
-    ist_corpus_opts_init(&o);
     while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
         switch (c) {
-        case 'o': out = optarg; break;
+        case 'o': *out = optarg; break;
         case 'm':
-            if (!cli_parse_u64("prepare", "--min-freq", optarg, 1, UINT64_MAX, &o.min_count))
+            if (!cli_parse_u64("prepare", "--min-freq", optarg, 1, UINT64_MAX, &o->min_count))
                 return CLI_EXIT_USAGE;
             break;
         case 'V':
             if (!cli_parse_size("prepare", "--vocab-limit", optarg, 0, UINT32_MAX - 2,
-                                &o.max_vocab))
+                                &o->max_vocab))
                 return CLI_EXIT_USAGE;
             break;
         case 'L':
             if (!cli_parse_size("prepare", "--max-line-bytes", optarg, 1, (size_t)1 << 30,
-                                &o.max_line))
+                                &o->max_line))
                 return CLI_EXIT_USAGE;
             break;
-        case 'N': o.text.nfkc = false; break;
-        case 'C': o.text.casefold = false; break;
-        case 'S': o.text.strip_marks = true; break;
-        case 'D': o.text.mask_digits = true; break;
-        case 'U': o.text.strict_utf8 = true; break;
-        case 'd': o.dedup_lines = true; break;
+        case 'N': o->text.nfkc = false; break;
+        case 'C': o->text.casefold = false; break;
+        case 'S': o->text.strip_marks = true; break;
+        case 'D': o->text.mask_digits = true; break;
+        case 'U': o->text.strict_utf8 = true; break;
+        case 'd': o->dedup_lines = true; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default: return cli_usage_error("prepare", "unknown option '%s'", argv[optind - 1]);
         }
     }
-    if (!out)
+    if (!*out)
         return cli_usage_error("prepare", "expected --output OUT");
-    if (strcmp(out, "-") == 0)
+    if (strcmp(*out, "-") == 0)
         return cli_usage_error("prepare", "a prepared corpus is binary; give a file name to "
                                           "--output, not '-'");
     if (optind >= argc)
         return cli_usage_error("prepare", "expected at least one input FILE");
     for (int i = optind; i < argc; i++)
-        if (strcmp(argv[i], out) == 0)
-            return cli_usage_error("prepare", "input '%s' is also the output", out);
+        if (strcmp(argv[i], *out) == 0)
+            return cli_usage_error("prepare", "input '%s' is also the output", *out);
+    return -1;
+}
 
+/* Fail before hours of reading when the output directory is not writable. */
+static bool
+output_dir_writable(const char *out)
+{
+    char dir[4096];
+    const char *slash = strrchr(out, '/');
+
+    if (!slash)
+        return access(".", W_OK) == 0;
+    if ((size_t)(slash - out) >= sizeof dir)
+        return true;   /* let the library report it */
+    memcpy(dir, out, (size_t)(slash - out));
+    dir[slash - out] = '\0';
+    return access(slash == out ? "/" : dir, W_OK) == 0;
+}
+
+static int
+run(int argc, char **argv)
+{
+    ist_corpus_opts o;
+    const char *out = NULL;
     ist_corpus *corpus;
     ist_error err;
+    int status;
+
+    ist_corpus_opts_init(&o);
+    status = parse_args(argc, argv, &o, &out);
+    if (status >= 0)
+        return status;
+    if (!output_dir_writable(out)) {
+        fprintf(stderr, "isthmus prepare: %s: cannot write in its directory (%s)\n", out,
+                strerror(errno));
+        return CLI_EXIT_ERROR;
+    }
     double t0 = cli_now();
     o.progress = on_progress;
     o.progress_ctx = &t0;
@@ -164,8 +199,7 @@ run(int argc, char **argv)
         ist_corpus_free(corpus);
         return cli_report("prepare", &err);
     }
-    if (cli_g.verbosity >= 0)
-        summary(corpus, out, secs);
+    summary(corpus, out, secs);     /* the result of the command: printed also with -q */
     ist_corpus_free(corpus);
     return CLI_EXIT_OK;
 }

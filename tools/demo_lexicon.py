@@ -67,8 +67,6 @@ ITEMS = {
         fork = tenedor m
         spoon = cuchara f
         teaspoon = cucharilla f, cucharita f
-        napkin = servilleta f
-        tablecloth = mantel m
         platter = fuente f
         eggcup = huevera f
         coaster = posavasos/posavasos m
@@ -137,6 +135,8 @@ ITEMS = {
         slipper = zapatilla f
         hammock = hamaca f
         runner = camino m
+        napkin = servilleta f
+        tablecloth = mantel m
     """,
     "furniture": """
         chair = silla f
@@ -469,7 +469,7 @@ NOUNS = {
         stock/- = existencias/existencias f
         instruction = instrucción f
         set = juego m
-        pack = paquete m
+        pack = pack/packs m, lote m
         week = semana f
         day = día m
         month = mes/meses m
@@ -666,8 +666,7 @@ PROFILES = {
         places="kitchen",
         appliances="oven dishwasher hob microwave fridge"),
     "tableware": dict(
-        materials="porcelain stoneware ceramic glass earthenware bamboo wood steel marble slate "
-                  "linen cotton",
+        materials="porcelain stoneware ceramic glass earthenware bamboo wood steel marble slate",
         colours="white cream blue green grey black pink yellow terracotta olive mustard navy "
                 "clear coral",
         adjs="elegant classic rustic modern handmade large small deep stackable beautiful "

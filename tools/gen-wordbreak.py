@@ -82,7 +82,8 @@ def main():
         for i, name in enumerate(PROPS):
             f.write("    IST_WB_%s = %d,\n" % (name.upper(), i))
         f.write("};\n\n")
-        f.write("#define IST_WB_EXTPICT 0x%02x   /* flag bit: Extended_Pictographic */\n" % EXTPICT_BIT)
+        f.write("#define IST_WB_EXTPICT 0x%02x   /* flag bit: Extended_Pictographic */\n"
+                % EXTPICT_BIT)
         f.write("#define IST_WB_MASK 0x1f\n")
         f.write("#define IST_WB_BLOCK_SHIFT 7\n\n")
         f.write("extern const char ist_wb_unicode_version[];\n")

@@ -329,12 +329,21 @@ def build_catalogue(L, rng):
     return products
 
 
+# Items sold by what they hold (500ml, 1.5L); the others by a length (30cm) or, for flat
+# and large goods, by two lengths (140x200cm).
+VESSELS = {"pot", "saucepan", "casserole", "wok", "kettle", "steamer", "roaster", "bowl",
+           "mug", "cup", "glass", "goblet", "jug", "teapot", "coffeepot", "ramekin", "carafe",
+           "jar", "tin", "box", "basket", "container", "bottle", "flask", "lunchbox", "bucket",
+           "bin", "dispenser", "planter", "blender", "fryer", "juicer", "humidifier", "mould",
+           "colander", "eggcup", "tray", "platter"}
+FLAT = {"textiles", "furniture", "garden"}
+
+
 def make_size(item, rng):
-    cat = item.cat
-    if cat in ("cookware", "tableware", "storage") and rng.random() < 0.7:
+    if item.key in VESSELS:
         ml = rng.choice([150, 200, 250, 300, 350, 400, 500, 750, 1000, 1500, 2000, 3000])
         return ("ml", ml)
-    if cat in ("textiles", "furniture", "garden"):
+    if item.cat in FLAT:
         a, b = rng.choice([40, 50, 60, 80, 90, 120, 140, 160]), rng.choice([40, 60, 90, 200])
         return ("cm2", (a, b))
     return ("cm", rng.choice([10, 12, 15, 18, 20, 24, 26, 28, 30, 32, 40, 45]))
@@ -612,6 +621,21 @@ NOT_IN_TITLES = {"easy", "useful", "perfect", "good", "bad", "hot", "cold", "dir
                  "safe", "noisy", "fragile", "flimsy", "ugly", "old", "cheap", "expensive"}
 
 HAND_VERBS = {"wash", "dry", "rinse", "sew", "polish", "sharpen", "scrub", "fold", "iron"}
+CARE_VERBS = HAND_VERBS | {"clean", "soak", "empty", "store"}
+
+# Uses written in the plural ("for books and toys"); the others are mass nouns.
+USE_PLURAL = {"egg", "biscuit", "vegetable", "herb", "spice", "flower", "plant", "book", "toy",
+              "shoe", "cake", "floor", "window", "wall", "door", "shelf", "bed", "sofa",
+              "chair", "seed"}
+
+
+def use_noun(lg, c, f=None):
+    """The word for a use: plural for countable things, singular for mass nouns."""
+    if c is None:
+        return None
+    if f is not None:
+        return lg.noun(f, plural=c.key in USE_PLURAL)
+    return lg.noun(c, plural=c.key in USE_PLURAL)
 
 
 SLOT_NAMES = {}
@@ -656,20 +680,24 @@ def en_slots(lg, p):
     fault = pr["fault"].draw(lg.rng)
     place = pr["place"].draw(lg.rng)
     appl = pr["appliance"].draw(lg.rng)
-    mat = pr["material"].draw(lg.rng)
+    # Mostly the product's own material, so a listing does not contradict itself.
+    mat = p["material"] if lg.chance(0.8) else pr["material"].draw(lg.rng)
     s = {
         "item": lg.noun(it, plural), "items": lg.noun(it, True), "one_item": lg.noun(it),
         "pron": lg.pron(plural), "Pron": "They" if plural else "It",
         "be": lg.be(plural), "was": lg.be(plural, past=True),
-        "use1": u1 and lg.noun(u1), "use2": u2 and lg.noun(u2),
+        "use1": use_noun(lg, u1), "use2": use_noun(lg, u2),
         "adj1": a1 and lg.adj(a1), "adj2": a2 and lg.adj(a2),
         "verb1": v1 and v1.en[0]["base"], "verb2": v2 and v2.en[0]["base"],
         "hand_verb": v1 and v1.key in HAND_VERBS and cap(v1.en[0]["base"]),
+        "care_verb": v1 and v1.key in CARE_VERBS and v1.en[0]["base"],
         "col1": c1 and lg.adj(c1), "col2": c2 and lg.adj(c2),
         "mate": mate and lg.noun(mate), "mates": mate and lg.noun(mate, True),
         "part": part and lg.noun(part), "fault": fault and lg.adj(fault),
         "place": place and lg.noun(place), "appl": appl and lg.noun(appl),
         "mat": mat and lg.material(mat), "size": en_size(lg, p["size"]),
+        "capacity": p["size"][0] == "ml" and en_size(lg, p["size"]),
+        "dims": p["size"][0] != "ml" and en_size(lg, p["size"]),
         "price": en_price(lg, p["price"]), "sale": en_price(lg, p["price"] * 0.8),
         "date": en_date(lg), "order": order_no(lg), "code": code_variant(lg, p["code"]),
         "n": str(lg.rng.randint(2, 5)),
@@ -683,14 +711,14 @@ EN_LISTING = [
     "Made from {mat}.", "Made of {adj1} {mat}.", "Solid {mat} {part}.",
     "{appl_cap} safe.", "Safe in the {appl}.", "Not suitable for the {appl}.",
     "Easy to {verb1}.", "Simple to {verb1} and {verb2}.", "{hand_verb} by hand.",
-    "Easy to {verb1} after use.",
+    "Easy to {care_verb} after use.",
     "Looks great in any {place}.", "A must for the {place}.", "Brings warmth to your {place}.",
     "{adj1_cap} and {adj2}.", "{adj1_cap}, {adj2} and built to last.", "Really {adj1}.",
     "{Pron} {be} {adj1} and {adj2}.",
     "{adj1_cap} {part}.", "With a {adj1} {part}.", "The {part} is {adj1}.",
     "Pairs well with our {mates}.", "Matches the {mate}.", "Try it with a {mate}.",
     "Also available in {col1}.", "Comes in {col1} and {col2}.",
-    "Dimensions: {size}.", "Size: {size}.",
+    "Dimensions: {dims}.", "Size: {size}.", "Capacity: {capacity}.",
     "{n}-year warranty.", "Ships in {n} days.",
 ]
 
@@ -775,8 +803,7 @@ def en_support(lg):
     s["Np_the"] = cap(s["np_the"])
     s["period"] = lg.one(["week", "day", "month", "wash", "use"])
     s["defect"] = lg.noun(lg.one([lg.L.nouns[k] for k in (
-        "crack", "scratch", "dent", "stain", "leak", "hole", "smell", "noise", "rust",
-        "mark")]))
+        "crack", "scratch", "dent", "stain", "leak", "hole", "smell", "noise", "mark")]))
     greet = lg.one(["Hi,", "Hello,", "Hi there,", "Hello team,", "Good morning,", "", "Hey,",
                     "Dear Tillwick,"])
     out = [greet, fill(lg, EN_SUPPORT_PROBLEM, s), fill(lg, EN_SUPPORT_CLOSE, s)]
@@ -828,7 +855,7 @@ EN_REVIEW_GOOD = [
 ]
 EN_REVIEW_BAD = [
     "{Fault} after two weeks.", "Came {fault}, disappointed.", "The {part} was {fault}.",
-    "The {one_item} {was} {fault} on arrival.", "Not worth {price}.",
+    "The {item} {was} {fault} on arrival.", "Not worth {price}.",
     "Would not buy again.", "Expected better quality.", "Customer service was helpful though.",
     "Too {adj1} for my {place}.", "Hard to {verb1}.",
 ]
@@ -839,7 +866,8 @@ def en_review(lg):
     s = en_slots(lg, p)
     s["Fault"] = s["fault"] and cap(s["fault"])
     stars = lg.rng.choice([5, 5, 5, 4, 4, 3, 2, 1])
-    out = [lg.one(["%d stars.", "%d/5", "Rated %d out of 5.", "%d*"]) % stars]
+    out = [lg.one(["%d stars." if stars > 1 else "%d star.", "%d/5", "Rated %d out of 5.",
+                   "%d*"]) % stars]
     pool = EN_REVIEW_GOOD if stars >= 4 else EN_REVIEW_BAD
     for _ in range(lg.rng.randint(1, 3)):
         sent = fill(lg, pool, s)
@@ -887,7 +915,8 @@ def es_slots(lg, p, f, plural):
     fault = pr["fault"].draw(lg.rng)
     place = pr["place"].draw(lg.rng)
     appl = pr["appliance"].draw(lg.rng)
-    mat = pr["material"].draw(lg.rng)
+    # Mostly the product's own material, so a listing does not contradict itself.
+    mat = p["material"] if lg.chance(0.8) else pr["material"].draw(lg.rng)
     pf = part and lg.form(part)
     s = {
         "item": lg.noun(f, plural), "one_item": lg.noun(f),
@@ -898,12 +927,16 @@ def es_slots(lg, p, f, plural):
         "estar": "están" if plural else "está",
         "llegar": "llegaron" if plural else "llegó", "Llegar": "Llegaron" if plural else "Llegó",
         "romper": "rompieron" if plural else "rompió",
-        "use1": u1 and lg.noun(lg.form(u1)), "use2": u2 and lg.noun(lg.form(u2)),
+        "use1": u1 and use_noun(lg, u1, lg.form(u1)),
+        "use2": u2 and use_noun(lg, u2, lg.form(u2)),
         "adj1": a1 and lg.agree(a1, f, plural), "adj2": a2 and lg.agree(a2, f, plural),
         "verb1": v1 and v1.es[0]["inf"], "verb2": v2 and v2.es[0]["inf"],
         "hand_verb": v1 and v1.key in HAND_VERBS and cap(v1.es[0]["inf"]),
+        "care_verb": v1 and v1.key in CARE_VERBS and v1.es[0]["inf"],
         "col1": c1 and lg.agree(c1, f, plural), "col2": c2 and lg.agree(c2, f, plural),
         "col1_sg": c1 and lg.agree(c1, f, False),
+        # A colour named as such ("en azul") takes the masculine singular.
+        "col1_name": c1 and c1.es[0]["forms"][0], "col2_name": c2 and c2.es[0]["forms"][0],
         "the_mate": mate and es_the(lg, mate), "the_mates": mate and es_the(lg, mate, True),
         "the_part": part and "%s %s" % (lg.det("the", pf, False), lg.noun(pf)),
         "a_part": part and "%s %s" % (lg.det("a", pf, False), lg.noun(pf)),
@@ -915,6 +948,8 @@ def es_slots(lg, p, f, plural):
         "the_appl": appl and es_the(lg, appl), "appl": appl and lg.noun(lg.form(appl)),
         "mat": mat and lg.pick(mat.es, mat)["w"],
         "size": es_size(lg, p["size"]), "price": es_price(lg, p["price"]),
+        "capacity": p["size"][0] == "ml" and es_size(lg, p["size"]),
+        "dims": p["size"][0] != "ml" and es_size(lg, p["size"]),
         "date": es_date(lg).replace("el ", ""), "order": order_no(lg),
         "code": code_variant(lg, p["code"]), "n": str(lg.rng.randint(2, 5)),
         "days": es_plural(lg.L.days[lg.rng.randrange(7)].es[0]["w"]),
@@ -932,15 +967,15 @@ ES_LISTING = [
     "{made} en {mat}.", "{made} en {mat}, {adj1} y {adj2}.", "{Ser} de {mat}.",
     "{apto} para {appl}.", "Se puede meter en {the_appl}.", "No {apto_lc} para {appl}.",
     "Fácil de {verb1}.", "Muy fácil de {verb1} y de {verb2}.", "{hand_verb} a mano.",
-    "Se recomienda {verb1} después de cada uso.",
+    "Se recomienda {care_verb} después de cada uso.",
     "Queda genial en {the_place}.", "Imprescindible en cualquier {place}.",
     "Dale un toque cálido a tu {place}.",
     "{Ser} {adj1} y {adj2}.", "{Ser} muy {adj1}, además de {adj2}.", "Realmente {adj1}.",
     "Con {a_part} {part_adj}.", "{The_part} es {part_adj}.",
     "Combina con {our} {mate_noun}.", "A juego con {the_mate} de la colección.",
     "Combina con {the_mates}.",
-    "{disp} también en {col1}.", "{disp} en {col1} y {col2}.",
-    "Medidas: {size}.", "Tamaño: {size}.",
+    "{disp} también en {col1_name}.", "{disp} en {col1_name} y {col2_name}.",
+    "Medidas: {dims}.", "Tamaño: {size}.", "Capacidad: {capacity}.",
     "Garantía de {n} años.", "Entrega en {n} días laborables.",
 ]
 
@@ -1000,7 +1035,7 @@ ES_SUPPORT_PROBLEM = [
     "¿Cuál es la mejor forma de {verb1} {np_the}? ¿Va en {the_appl}?",
     "¿{np_the_cap} se puede meter en {the_appl}?",
     "El color de {np_the} no es como en la foto, parece más {col1}.",
-    "Quería {np_the} en {col1_sg} pero me {llegar} en otro color.",
+    "Quería {np_the} en {col1_name} pero me {llegar} en otro color.",
     "¿Puedo devolver {np_the}? {Ser} demasiado {adj1} para mi {place}.",
     "Necesito {np_the} en una talla más grande que {size}.",
 ]
@@ -1029,7 +1064,7 @@ def es_support(lg):
     s["The_part"] = s["the_part"] and cap(s["the_part"])
     s["period"] = lg.one(["semana", "lavada", "vez"])
     s["a_defect"] = es_a(lg, lg.L.nouns[lg.one(["crack", "scratch", "dent", "stain", "leak",
-                                                "hole", "smell", "noise", "rust", "mark"])])
+                                                "hole", "smell", "noise", "mark"])])
     greet = lg.one(["Hola,", "Hola.", "Buenas,", "Buenos días,", "Buenas tardes,", "",
                     "Hola equipo de Tillwick,", "Estimados señores:"])
     body = fill(lg, ES_SUPPORT_PROBLEM, s)
@@ -1078,7 +1113,7 @@ ES_REVIEW_GOOD = [
     "Me encanta {this_item}, {ser} {adj1} y {adj2}.", "{This_item} {ser} muy {adj1}.",
     "¡Qué {one_item} tan {bonito}!", "{Pron} usamos para {use1} todos los {days}.",
     "{Pron} uso para {use1} y para {use2}.", "{Perfecto} para {use1} los {days}.",
-    "Compré {pron} en {col1} para {the_place}.", "Queda muy bien con {the_mates}.",
+    "{Pron} compré en {col1_name} para {the_place}.", "Queda muy bien con {the_mates}.",
     "Muy fácil de {verb1}.",
 ]
 ES_REVIEW_BAD = [
@@ -1103,7 +1138,8 @@ def es_review(lg):
         return s
 
     stars = lg.rng.choice([5, 5, 5, 5, 4, 4, 3, 2, 1])
-    out = [lg.one(["%d estrellas.", "%d/5", "Nota: %d de 5.", "%d*"]) % stars]
+    out = [lg.one(["%d estrellas." if stars > 1 else "%d estrella.", "%d/5", "Nota: %d de 5.",
+                   "%d*"]) % stars]
     pool = ES_REVIEW_GOOD if stars >= 4 else ES_REVIEW_BAD
     for _ in range(lg.rng.randint(1, 3)):
         sent = contract(fill(lg, pool, slots()))
