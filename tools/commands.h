@@ -7,5 +7,6 @@
 extern const cli_command cmd_inspect;
 extern const cli_command cmd_convert;
 extern const cli_command cmd_prepare;
+extern const cli_command cmd_train;
 
 #endif

@@ -11,6 +11,7 @@ static const cli_command *const commands[] = {
     &cmd_inspect,
     &cmd_convert,
     &cmd_prepare,
+    &cmd_train,
     NULL,
 };
 

@@ -9,6 +9,7 @@
 #include <isthmus/store.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
+#include <isthmus/sgns.h>
 
 #ifdef __cplusplus
 extern "C" {
