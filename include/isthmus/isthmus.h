@@ -14,6 +14,7 @@
 #include <isthmus/metrics.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
+#include <isthmus/sgns.h>
 
 #ifdef __cplusplus
 extern "C" {
