@@ -79,8 +79,9 @@ def main():
             name, p1[("refined", "csls")], p1[("procrustes", "csls")]),
             p1[("refined", "csls")] >= p1[("procrustes", "csls")] - 2))
         # the split kept seed and test apart and the test list is recorded
-        checks.append(("%s no overlap, %d test words" % (name, res["test"]["source_words"]),
-                       res["test"]["overlap_with_seeds"] == 0 and res["test"]["source_words"] > 250))
+        test = res["test"]
+        checks.append(("%s no overlap, %d test words" % (name, test["source_words"]),
+                       test["overlap_with_seeds"] == 0 and test["source_words"] > 250))
     print("1..%d" % len(checks))
     failed = 0
     for i, (what, ok) in enumerate(checks, 1):
