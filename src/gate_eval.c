@@ -352,8 +352,15 @@ test_id(const ist_gate_result *r, const char *key)
 static ist_status
 same_test_list(const ist_gate_result *a, const ist_gate_result *b, ist_error *err)
 {
-    static const char *const keys[] = {"checksum", "source_words_hash"};
-    for (size_t i = 0; i < 2; i++) {
+    static const char *const keys[] = {"list_checksum", "checksum", "source_words_hash"};
+    size_t i = 0, end = 1;
+    /* Scored from one list file: its pairs as read decide, whatever the vectors cover.
+     * Otherwise the kept pairs and their source words must agree. */
+    if (!test_id(a, keys[0]) || !test_id(b, keys[0])) {
+        i = 1;
+        end = 3;
+    }
+    for (; i < end; i++) {
         const char *x = test_id(a, keys[i]), *y = test_id(b, keys[i]);
         if (!x || !y)
             return ist_error_set(err, IST_ERR_INVALID,

@@ -118,6 +118,7 @@ ist_result_render(const ist_result_info *in, const ist_result_run *runs, size_t 
     hex(&w, "checksum", in->test_checksum);
     hex(&w, "source_words_hash", in->test_sources_hash);
     ist_jw_uint(&w, "source_words", in->test_sources);
+    ist_result_ci_test(&w, in);
     write_coverage(&w, &in->test_coverage);
     ist_jw_uint(&w, "overlap_with_seeds", in->overlap);
     ist_jw_bool(&w, "overlap_allowed", in->overlap_allowed);

@@ -309,3 +309,19 @@ ist_result_ci_run(ist_jw *w, const ist_metrics *m, const ist_store *src, const i
     }
     ist_jw_arr_end(w);
 }
+
+void
+ist_result_ci_test(ist_jw *w, const ist_result_info *info)
+{
+    ist_pairs *p = NULL;
+    uint64_t sum;
+    char hex[17];
+
+    if (!info->test_path || ist_pairs_read(info->test_path, &p, NULL) != IST_OK)
+        return;
+    if (ist_pairs_checksum(p, &sum, NULL) == IST_OK) {
+        snprintf(hex, sizeof hex, "%016llx", (unsigned long long)sum);
+        ist_jw_str(w, "list_checksum", hex);
+    }
+    ist_pairs_free(p);
+}

@@ -16,4 +16,10 @@ void ist_result_ci_band(ist_jw *w, const ist_metrics *m, size_t b, const ist_ci_
 void ist_result_ci_run(ist_jw *w, const ist_metrics *m, const ist_store *src,
                        const ist_ci_opts *ci);
 
+/* Inside the "test" object: "list_checksum", the checksum of every pair of the list at
+ * info->test_path as read, before the vectors are consulted (equal for two results
+ * scored on one list by vectors of different vocabularies). Nothing when the path
+ * cannot be read as a pair list (for example a held-out split). */
+void ist_result_ci_test(ist_jw *w, const ist_result_info *info);
+
 #endif
