@@ -395,6 +395,9 @@ ist_verdict_free(ist_verdict *v)
     ist_free(v->baseline_name);
     ist_free(v->test_checksum);
     ist_free(v->test_hash);
+    for (size_t i = 0; v->rules && i < v->n; i++)
+        ist_free((char *)v->rules[i].text);
+    ist_free(v->rules);
     ist_free(v->checks);
     ist_free(v);
 }
@@ -413,9 +416,15 @@ new_verdict(const ist_thresholds *t, const ist_gate_result *res, const ist_gate_
     v->test_checksum = dup_or_null(test_id(res, "checksum"), &ok);
     v->test_hash = dup_or_null(test_id(res, "source_words_hash"), &ok);
     v->checks = ist_calloc(t->n + 1, sizeof *v->checks);
+    v->rules = ist_calloc(t->n + 1, sizeof *v->rules);
     v->n = t->n;
     v->ci = o->ci;
-    if (!ok || !v->checks) {
+    for (size_t i = 0; v->rules && v->checks && i < t->n; i++) {
+        v->rules[i] = t->rules[i];
+        v->rules[i].text = dup_or_null(t->rules[i].text, &ok);
+        v->checks[i].rule = &v->rules[i];
+    }
+    if (!ok || !v->checks || !v->rules) {
         ist_verdict_free(v);
         return ist_error_nomem(err);
     }
@@ -442,9 +451,8 @@ ist_gate_evaluate(const ist_thresholds *t, const ist_gate_result *res,
     if ((rc = new_verdict(t, res, base, opts, &v, err)) != IST_OK)
         return rc;
     for (size_t i = 0; i < t->n && rc == IST_OK; i++) {
-        const ist_gate_rule *r = &t->rules[i];
+        const ist_gate_rule *r = &v->rules[i];
         ist_gate_check *c = &v->checks[i];
-        c->rule = r;
         switch (r->figure) {
         case IST_GATE_PRECISION: rc = check_precision(res, r, opts, c, err); break;
         case IST_GATE_COVERAGE: rc = check_coverage(res, r, c, err); break;

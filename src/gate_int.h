@@ -23,6 +23,7 @@ struct ist_verdict {
     char *test_checksum, *test_hash;     /* of the result, or NULL */
     ist_ci_opts ci;
     ist_gate_check *checks;
+    ist_gate_rule *rules;        /* copies (texts owned), so the verdict outlives the rules */
     size_t n;
 };
 

@@ -80,7 +80,7 @@ IST_API void ist_gate_opts_init(ist_gate_opts *opts);
 
 /* The verdict on one rule. */
 typedef struct ist_gate_check {
-    const ist_gate_rule *rule;   /* borrowed from the thresholds */
+    const ist_gate_rule *rule;   /* a copy owned by the verdict */
     ist_gate_outcome outcome;
     double figure;               /* the measured value; for drop, new minus baseline */
     bool has_interval;
