@@ -35,10 +35,12 @@ adopt(ist_jv *root, const char *name, ist_gate_result **out, ist_error *err)
 
     if (!fmt || strcmp(fmt, "isthmus result") != 0 ||
         ist_jv_type(ist_jv_get(root, "runs")) != IST_JARR) {
+        ist_status rc = ist_error_at(err, IST_ERR_FORMAT, name, 0,
+                                     "expected an isthmus result JSON (format \"isthmus "
+                                     "result\" with \"runs\"), found %s",
+                                     fmt ? fmt : "another document");
         ist_jv_free(root);
-        return ist_error_at(err, IST_ERR_FORMAT, name, 0,
-                            "expected an isthmus result JSON (format \"isthmus result\" with "
-                            "\"runs\"), found %s", fmt ? fmt : "another document");
+        return rc;
     }
     if (!(r = ist_calloc(1, sizeof *r)) || !(r->name = ist_strdup(name))) {
         ist_free(r);
