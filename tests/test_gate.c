@@ -7,6 +7,8 @@
 #include "harness.h"
 #include "json_int.h"
 
+#include <isthmus/testing.h>
+
 static ist_thresholds *
 parse_ok(const char *text)
 {
@@ -280,12 +282,11 @@ test_metrics_ci(void **state)
 
 /* A synthetic result: one run (refined csls) with n queries w0..w{n-1}, the first hits
  * at place 1, the rest misses; checksum names the test list. */
-static ist_gate_result *
-synthetic(size_t n, size_t hits, const char *checksum, bool per_query)
+static char *
+synthetic_text(size_t n, size_t hits, const char *checksum, bool per_query)
 {
     ist_jw w;
     char *text;
-    ist_gate_result *r;
     ist_error err;
 
     ist_jw_init(&w, false);
@@ -331,6 +332,15 @@ synthetic(size_t n, size_t hits, const char *checksum, bool per_query)
     ist_jw_arr_end(&w);
     ist_jw_obj_end(&w);
     assert_int_equal(ist_jw_finish(&w, &text, &err), IST_OK);
+    return text;
+}
+
+static ist_gate_result *
+synthetic(size_t n, size_t hits, const char *checksum, bool per_query)
+{
+    char *text = synthetic_text(n, hits, checksum, per_query);
+    ist_gate_result *r;
+    ist_error err;
     assert_int_equal(ist_gate_result_parse(text, strlen(text), "new.json", &r, &err), IST_OK);
     free(text);
     return r;
@@ -464,6 +474,88 @@ test_verdict_json(void **state)
     harness_rmdir(dir);
 }
 
+/* With a fault-injection build: failing any one allocation of the whole gate path
+ * gives IST_ERR_NOMEM and no verdict file. */
+static const char *fault_new, *fault_old, *fault_out;
+
+static ist_status
+gate_once(void)
+{
+    static const char rules[] = "min precision@1 csls 0.5\nmin coverage 0.5\n"
+                                "max drop precision@1 csls 0.03\n";
+    ist_thresholds *t = NULL;
+    ist_gate_result *a = NULL, *b = NULL;
+    ist_verdict *v = NULL;
+    /* a result rendered from figures, through the "ci" and "per_query" writers */
+    static size_t rows[40];
+    static uint8_t places[40];
+    ist_result_run run;
+    ist_result_info info;
+    char *text = NULL;
+    memset(&run, 0, sizeof run);
+    memset(&info, 0, sizeof info);
+    run.label = "refined";
+    run.m.method = IST_RETRIEVAL_CSLS;
+    run.m.queries = run.m.sources = 40;
+    run.m.nbands = 2;
+    run.m.band[0] = (ist_band){.lo = 1, .hi = 20, .queries = 20};
+    run.m.band[1] = (ist_band){.lo = 21, .hi = 0, .queries = 20};
+    for (size_t i = 0; i < 40; i++) {
+        rows[i] = i;
+        places[i] = i % 3 ? 0 : IST_CI_MISS;
+    }
+    run.m.query_row = rows;
+    run.m.query_place = places;
+    ist_status rc = ist_result_render(&info, &run, 1, NULL, &text, NULL);
+    ist_result_free_text(text);
+    if (rc == IST_OK)
+        rc = ist_thresholds_parse(rules, sizeof rules - 1, "r", &t, NULL);
+    if (rc == IST_OK)
+        rc = ist_gate_result_parse(fault_new, strlen(fault_new), "new", &a, NULL);
+    if (rc == IST_OK)
+        rc = ist_gate_result_parse(fault_old, strlen(fault_old), "old", &b, NULL);
+    if (rc == IST_OK)
+        rc = ist_gate_evaluate(t, a, b, NULL, &v, NULL);
+    if (rc == IST_OK)
+        rc = ist_verdict_write(v, fault_out, NULL);
+    ist_verdict_free(v);
+    ist_gate_result_free(a);
+    ist_gate_result_free(b);
+    ist_thresholds_free(t);
+    return rc;
+}
+
+static void
+test_every_failed_allocation(void **state)
+{
+    (void)state;
+    if (!ist_testing_fault_injection_enabled())
+        skip();
+    char *dir = harness_tmpdir(), *out = harness_path(dir, "verdict.json");
+    char *a = synthetic_text(50, 30, "0000000000000001", true);
+    char *b = synthetic_text(50, 40, "0000000000000001", true);
+    int k;
+    fault_new = a;
+    fault_old = b;
+    fault_out = out;
+    for (k = 0; k < 100000; k++) {
+        ist_testing_fail_alloc_after(k);
+        ist_status rc = gate_once();
+        ist_testing_fail_alloc_after(-1);
+        if (rc == IST_OK)
+            break;
+        if (rc != IST_ERR_NOMEM)
+            fail_msg("allocation %d failing gave status %d, expected out of memory", k, (int)rc);
+        assert_int_equal(harness_count_entries(dir), 0);
+    }
+    assert_true(k > 10 && k < 100000);
+    assert_int_equal(harness_count_entries(dir), 1);
+    free(a);
+    free(b);
+    free(out);
+    harness_rmdir(dir);
+}
+
 int
 main(void)
 {
@@ -476,6 +568,7 @@ main(void)
         cmocka_unit_test(test_metrics_ci),
         cmocka_unit_test(test_verdict_logic),
         cmocka_unit_test(test_verdict_json),
+        cmocka_unit_test(test_every_failed_allocation),
     };
     HARNESS_RUN("gate", tests);
 }
