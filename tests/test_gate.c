@@ -280,6 +280,54 @@ test_metrics_ci(void **state)
     assert_true(ci.band_hi[1][0] - ci.band_lo[1][0] > ci.hi[0] - ci.lo[0]);  /* fewer queries */
 }
 
+static void
+test_result_ci_json(void **state)
+{
+    (void)state;
+    size_t rows[60];
+    uint8_t places[60];
+    ist_result_run run;
+    ist_result_info info;
+    ist_metrics_ci ci;
+    char *text;
+    ist_jv *root;
+    ist_error err;
+
+    memset(&run, 0, sizeof run);
+    memset(&info, 0, sizeof info);
+    run.label = "refined";
+    run.m.method = IST_RETRIEVAL_CSLS;
+    run.m.queries = run.m.sources = 60;
+    run.m.nbands = 2;
+    run.m.band[0] = (ist_band){.lo = 1, .hi = 30, .queries = 30};
+    run.m.band[1] = (ist_band){.lo = 31, .hi = 0, .queries = 30};
+    for (size_t i = 0; i < 60; i++) {
+        rows[i] = i;
+        places[i] = i % 4 == 0 ? IST_CI_MISS : (uint8_t)(i % 7);
+    }
+    run.m.query_row = rows;
+    run.m.query_place = places;
+    assert_int_equal(ist_result_render(&info, &run, 1, NULL, &text, &err), IST_OK);
+    assert_int_equal(ist_json_parse(text, strlen(text), "r", &root, &err), IST_OK);
+    assert_int_equal(ist_metrics_ci_compute(&run.m, NULL, &ci, &err), IST_OK);
+    const ist_jv *r = ist_jv_at(ist_jv_get(root, "runs"), 0);
+    const ist_jv *c = ist_jv_get(r, "ci");
+    /* the JSON holds the same intervals the tables print */
+    assert_true(ist_jv_num(ist_jv_at(ist_jv_get(c, "p@5"), 0), -1) == ci.lo[1]);
+    assert_true(ist_jv_num(ist_jv_at(ist_jv_get(c, "p@5"), 1), -1) == ci.hi[1]);
+    assert_int_equal((int)ist_jv_num(ist_jv_get(c, "resamples"), 0), 1000);
+    const ist_jv *bc = ist_jv_get(ist_jv_at(ist_jv_get(r, "bands"), 1), "ci");
+    assert_true(ist_jv_num(ist_jv_at(ist_jv_get(bc, "p@1"), 0), -1) == ci.band_lo[1][0]);
+    const ist_jv *pq = ist_jv_get(r, "per_query");
+    assert_int_equal(ist_jv_len(pq), 60);
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "rank"), -1), 0);   /* miss */
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 5), "rank"), -1), 6);   /* place 5 */
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 5), "band"), -1), 0);
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 45), "band"), -1), 1);
+    ist_jv_free(root);
+    ist_result_free_text(text);
+}
+
 /* A synthetic result: one run (refined csls) with n queries w0..w{n-1}, the first hits
  * at place 1, the rest misses; checksum names the test list. */
 static char *
@@ -558,7 +606,8 @@ test_every_failed_allocation(void **state)
     cmocka_unit_test(test_thresholds_parse), cmocka_unit_test(test_thresholds_errors),   \
         cmocka_unit_test(test_thresholds_file), cmocka_unit_test(test_bootstrap_properties), \
         cmocka_unit_test(test_bootstrap_paired), cmocka_unit_test(test_metrics_ci),       \
-        cmocka_unit_test(test_verdict_logic), cmocka_unit_test(test_verdict_json)
+        cmocka_unit_test(test_result_ci_json), cmocka_unit_test(test_verdict_logic),      \
+        cmocka_unit_test(test_verdict_json)
 
 int
 main(void)

@@ -225,7 +225,7 @@ print_interval_row(const char *label, const ist_metrics *m, const char *band, co
     for (size_t j = 0; j < IST_METRICS_NK; j++) {
         char cell[64];
         snprintf(cell, sizeof cell, "%5.1f [%.1f, %.1f]", 100 * p[j], 100 * lo[j], 100 * hi[j]);
-        printf(j + 1 < IST_METRICS_NK ? " %-19s" : " %s", cell);
+        printf(j + 1 < IST_METRICS_NK ? " %-20s" : " %s", cell);
     }
     printf("\n");
 }
@@ -240,7 +240,7 @@ print_intervals(const ist_result_run *runs, size_t n)
     ist_ci_opts_init(&o);
     printf("\n95%% intervals (percentile bootstrap, %zu resamples of the queries, seed %llu)\n",
            o.resamples, (unsigned long long)o.seed);
-    printf("%-12s %-9s %-14s %-19s %-19s %s\n", "map", "retrieval", "frequency rank", "  P@1",
+    printf("%-12s %-9s %-14s %-20s %-20s %s\n", "map", "retrieval", "frequency rank", "  P@1",
            "  P@5", "  P@10");
     for (size_t i = 0; i < n; i++) {
         const ist_metrics *m = &runs[i].m;
