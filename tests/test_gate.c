@@ -554,7 +554,10 @@ gate_once(void)
     }
     run.m.query_row = rows;
     run.m.query_place = places;
-    ist_status rc = ist_result_render(&info, &run, 1, NULL, &text, NULL);
+    ist_gate_opts go;
+    ist_gate_opts_init(&go);
+    go.ci.resamples = 50;       /* every failure point reruns the whole path: keep it short */
+    ist_status rc = ist_result_render(&info, &run, 1, &go.ci, &text, NULL);
     ist_result_free_text(text);
     if (rc == IST_OK)
         rc = ist_thresholds_parse(rules, sizeof rules - 1, "r", &t, NULL);
@@ -563,7 +566,7 @@ gate_once(void)
     if (rc == IST_OK)
         rc = ist_gate_result_parse(fault_old, strlen(fault_old), "old", &b, NULL);
     if (rc == IST_OK)
-        rc = ist_gate_evaluate(t, a, b, NULL, &v, NULL);
+        rc = ist_gate_evaluate(t, a, b, &go, &v, NULL);
     if (rc == IST_OK)
         rc = ist_verdict_write(v, fault_out, NULL);
     ist_verdict_free(v);
