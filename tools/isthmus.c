@@ -14,6 +14,7 @@ static const cli_command *const commands[] = {
     &cmd_align,
     &cmd_score,
     &cmd_lookup,
+    &cmd_gate,
     &cmd_inspect,
     &cmd_convert,
     NULL,
