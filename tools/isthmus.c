@@ -14,6 +14,8 @@ static const cli_command *const commands[] = {
     &cmd_score,
     &cmd_lookup,
     &cmd_prepare,
+    &cmd_propose,
+    &cmd_merge_pairs,
     NULL,
 };
 

@@ -12,6 +12,7 @@
 #include <isthmus/pairs.h>
 #include <isthmus/align.h>
 #include <isthmus/metrics.h>
+#include <isthmus/propose.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
 
