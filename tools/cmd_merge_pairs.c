@@ -93,11 +93,13 @@ run(int argc, char **argv)
     const char *const *reviewed = (const char *const *)argv + optind + 1;
     size_t n = (size_t)(argc - optind - 1);
     if (ist_propose_merge(seeds, reviewed, n, &mo, out, &sum, &err) != IST_OK) {
-        int rc = cli_report(CMD, &err);
-        if (sum.conflicts > 0)
-            fprintf(stderr, "isthmus %s: nothing written; settle the conflicts or pass "
-                    "--skip-conflicts\n", CMD);
-        return rc;
+        if (err.code != IST_ERR_INVALID || sum.conflicts == 0)
+            return cli_report(CMD, &err);
+        /* each conflict was printed as it was found */
+        fprintf(stderr, "isthmus %s: %zu conflict%s, nothing written; settle %s or pass "
+                "--skip-conflicts\n", CMD, sum.conflicts, sum.conflicts == 1 ? "" : "s",
+                sum.conflicts == 1 ? "it" : "them");
+        return CLI_EXIT_ERROR;
     }
     print_summary(&sum);
     cli_info("-> %s\n", out);
