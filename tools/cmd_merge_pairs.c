@@ -52,8 +52,8 @@ print_summary(const ist_merge_summary *s)
 {
     printf("rows %zu: accepted %zu, corrected %zu, rejected %zu, undecided %zu\n", s->rows,
            s->accepted, s->corrected, s->rejected, s->undecided);
-    printf("duplicates %zu, conflicts %zu; %zu pairs added to the %zu of the seed list\n",
-           s->duplicates, s->conflicts, s->added, s->seed_pairs);
+    printf("duplicates %zu, conflicts %zu; %zu pair%s added to the %zu of the seed list\n",
+           s->duplicates, s->conflicts, s->added, s->added == 1 ? "" : "s", s->seed_pairs);
 }
 
 static int
