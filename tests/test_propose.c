@@ -7,6 +7,7 @@
 #include <sys/stat.h>
 
 #include <isthmus/isthmus.h>
+#include <isthmus/testing.h>
 
 /* ---- helpers ------------------------------------------------------------ */
 
@@ -790,6 +791,85 @@ test_round_trip(void **state)
     env_close(&e);
 }
 
+/* ---- every allocation can fail (a -Dfault_injection=true build) ---------- */
+
+static plane fault_plane;
+static merge_env fault_env;
+static char *fault_review;
+
+static ist_status
+op_propose(void)
+{
+    ist_propose_opts po;
+    ist_proposals *p;
+    ist_pairs *list;
+    ist_status rc = ist_pairs_new(&list, NULL);
+    if (rc != IST_OK)
+        return rc;
+    if ((rc = ist_pairs_add(list, "s3", "t0", NULL)) != IST_OK) {
+        ist_pairs_free(list);
+        return rc;
+    }
+    const ist_pairs *lists[] = {list};
+    ist_propose_opts_init(&po);
+    po.neighbourhood = NB;
+    po.skip_gold_targets = true;
+    po.retrieve.threads = 1;
+    rc = ist_propose_views(ist_store_view(fault_plane.src), ist_store_view(fault_plane.tgt),
+                           fault_plane.src, fault_plane.tgt, lists, 1, &po, &p, NULL);
+    if (rc == IST_OK)
+        rc = ist_proposals_write(p, fault_plane.src, fault_plane.tgt, NULL, fault_env.out, NULL);
+    ist_proposals_free(p);
+    ist_pairs_free(list);
+    return rc;
+}
+
+static ist_status
+op_merge(void)
+{
+    return ist_propose_merge(fault_env.seed, (const char *const *)&fault_review, 1, NULL,
+                             fault_env.out, NULL, NULL);
+}
+
+static void
+every_failure_point(ist_status (*op)(void), const char *name)
+{
+    int k;
+    for (k = 0; k < 100000; k++) {
+        ist_testing_fail_alloc_after(k);
+        ist_status rc = op();
+        ist_testing_fail_alloc_after(-1);
+        if (rc == IST_OK)
+            break;
+        if (rc != IST_ERR_NOMEM)
+            fail_msg("%s: allocation %d failing gave status %d, expected out of memory", name, k,
+                     (int)rc);
+        if (exists(fault_env.out))
+            fail_msg("%s: output left behind after allocation %d failed", name, k);
+    }
+    assert_true(k > 0 && k < 100000);
+    unlink(fault_env.out);
+}
+
+static void
+test_failed_allocations(void **state)
+{
+    (void)state;
+    if (!ist_testing_fault_injection_enabled())
+        skip();
+    make_plane(&fault_plane);
+    env_open(&fault_env, "kettle\thervidor\nblue azul\n");
+    fault_review = env_file(&fault_env, "r.tsv", HDR "accept\tlamp\tlámpara\t1\n"
+                                                     "reject\tlamp\tluz\t2\n"
+                                                     "use taza\tmug\tvaso\t1\n"
+                                                     "accept\tkettle\thervidor\t1\n");
+    every_failure_point(op_propose, "propose");
+    every_failure_point(op_merge, "merge");
+    free(fault_review);
+    env_close(&fault_env);
+    free_plane(&fault_plane);
+}
+
 int
 main(void)
 {
@@ -803,6 +883,7 @@ main(void)
         cmocka_unit_test(test_merge_errors),
         cmocka_unit_test(test_merge_conflicts),
         cmocka_unit_test(test_round_trip),
+        cmocka_unit_test(test_failed_allocations),
     };
     HARNESS_RUN("propose", tests);
 }
