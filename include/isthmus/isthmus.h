@@ -15,6 +15,7 @@
 #include <isthmus/propose.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
+#include <isthmus/sgns.h>
 
 #ifdef __cplusplus
 extern "C" {
