@@ -13,6 +13,7 @@
 #include "alloc_int.h"
 #include "error_int.h"
 #include "ofile_int.h"
+#include "pairs_int.h"
 
 /* How many extra neighbours are fetched per source word when gold targets of
  * the lists are to be skipped; when more of them than this crowd the top, the
@@ -67,26 +68,32 @@ ist_proposals_stats(const ist_proposals *p)
     return p->stats;
 }
 
-/* Mark the rows of the source (or target) words of the lists in flags[]. */
+/* Mark the rows of the source (or target) words of the lists in flags[]; words
+ * are normalised as the vocabulary of s was (one normaliser for all). */
 static ist_status
 mark_list_words(const ist_store *s, const ist_pairs *const *lists, size_t nlists, bool target,
                 unsigned char *flags, size_t *marked, ist_error *err)
 {
-    for (size_t l = 0; l < nlists; l++) {
+    ist_pairs_norm *nz = NULL;
+    bool exact;
+    ist_status rc = ist_pairs_norm_open(s, &nz, &exact, err);
+
+    for (size_t l = 0; rc == IST_OK && l < nlists; l++) {
         const ist_pairs *p = lists[l];
-        for (size_t i = 0; p && i < ist_pairs_count(p); i++) {
+        for (size_t i = 0; rc == IST_OK && p && i < ist_pairs_count(p); i++) {
             const char *w = target ? ist_pairs_target(p, i) : ist_pairs_source(p, i);
-            ptrdiff_t r;
-            ist_status rc = ist_pairs_find_word(s, w, &r, err);
-            if (rc != IST_OK)
-                return rc;
+            size_t len = strlen(w);
+            if (!exact && (rc = ist_pairs_norm_word(nz, w, len, &w, &len, err)) != IST_OK)
+                break;
+            ptrdiff_t r = ist_store_find(s, w);
             if (r >= 0 && !flags[r]) {
                 flags[r] = 1;
                 (*marked)++;
             }
         }
     }
-    return IST_OK;
+    ist_pairs_norm_close(nz);
+    return rc;
 }
 
 /* One source word under review: its rows in the result and its order keys. */

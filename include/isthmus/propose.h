@@ -81,9 +81,11 @@ typedef struct ist_proposals ist_proposals;   /* opaque, one owner */
 /** Candidates from ready matrices: xs holds all mapped source rows and zt all
  *  normalised target rows (as ist_map_apply() makes them; rows of unit
  *  length), src and tgt the stores they came from (words and counts). The
- *  source words of the nlists lists (resolved or not; words are looked up
- *  with ist_pairs_find_word()) are not proposed; lists may be NULL when nlists
- *  is 0. The CSLS terms use all rows of xs and zt. opts may be NULL for the
+ *  source words of the nlists lists (resolved or not; words are normalised as
+ *  each vocabulary was, as ist_pairs_find_word() does) are not proposed;
+ *  lists may be NULL when nlists is 0. With skip_gold_targets their target
+ *  words are not proposed either. The CSLS terms use all rows of xs and zt.
+ *  opts may be NULL for the
  *  defaults. Success: *out owns the rows, in review order; release with
  *  ist_proposals_free(). IST_ERR_INVALID for mismatched shapes or options,
  *  IST_ERR_CANCELLED when ist_cancel_requested() became true. */

@@ -125,6 +125,20 @@ def main():
             added = sum(1 for l in open(out, encoding="utf-8")) - sum(1 for l in open(seeds))
             checks.append(("merge added the %d accepted pairs (+1 comment line)" % sum(right),
                            added == sum(right) + 1))
+    # excluded lists: normalised like the vocabulary ("Kitchen" excludes kitchen), and with
+    # the test list excluded none of its words is proposed
+    ex = os.path.join(work, "exclude.pairs")
+    with open(ex, "w", encoding="utf-8") as f:
+        f.write("Kitchen\tcocina\n")
+    cand = os.path.join(work, "candidates-excluded.tsv")
+    run([isthmus, "-q", "propose", vec["en"], vec["es"], "--map=" + mp, "--top-sources=0",
+         "--exclude=" + ex, "--exclude=" + test, "-o", cand])
+    srcs = {r["source"] for r in read_candidates(cand)}
+    before = {r["source"] for r in read_candidates(os.path.join(work, "candidates-certain.tsv"))}
+    checks.append(("'Kitchen' in an excluded list keeps kitchen out",
+                   "kitchen" in before and "kitchen" not in srcs))
+    checks.append(("no word of the excluded test list is proposed (%d were before)"
+                   % len(before & set(gold)), not (srcs & set(gold)) and before & set(gold)))
     print("1..%d" % len(checks))
     failed = 0
     for i, (what, ok) in enumerate(checks, 1):
