@@ -31,9 +31,9 @@ usage(FILE *out)
             "\n"
             "Commands:\n");
     for (int i = 0; commands[i]; i++)
-        fprintf(out, "  %-10s %s\n", commands[i]->name, commands[i]->summary);
+        fprintf(out, "  %-12s %s\n", commands[i]->name, commands[i]->summary);
     fprintf(out,
-            "  %-10s %s\n"
+            "  %-12s %s\n"
             "\n"
             "Global options:\n"
             "  -q, --quiet             no progress and no diagnostics but errors\n"
