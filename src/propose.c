@@ -287,6 +287,43 @@ check_args(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const ist_sto
     return IST_OK;
 }
 
+/* Retrieve, collect, flag and order the candidates of the query rows qrow[]. */
+static ist_status
+find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_store *src,
+                const ist_store *tgt, const ist_propose_opts *o, const size_t *qrow, size_t nq,
+                const unsigned char *gold, ist_error *err)
+{
+    size_t depth = o->candidates + 1, cap, ng = 0;
+    ist_matrix *q = NULL;
+    ist_topk *tk = NULL;
+    group *g = NULL;
+    ist_status rc;
+
+    if (o->skip_gold_targets)
+        depth += p->stats.gold_targets < SKIP_DEPTH ? p->stats.gold_targets : SKIP_DEPTH;
+    if (depth > zt.rows)
+        depth = zt.rows;
+    if ((rc = gather(xs, qrow, nq, &q, err)) != IST_OK ||
+        (rc = ist_retrieve_rank(ist_matrix_cview(q), xs, zt, IST_RETRIEVAL_CSLS, depth,
+                                o->neighbourhood, &o->retrieve, &tk, err)) != IST_OK)
+        goto done;
+    if (ist_mul_size(nq, o->candidates, &cap) != 0 ||
+        !(p->row = ist_malloc(cap * sizeof *p->row)) || !(g = ist_malloc(nq * sizeof *g))) {
+        rc = ist_error_nomem(err);
+        goto done;
+    }
+    p->n = collect(tk, qrow, nq, o->candidates, o->skip_gold_targets ? gold : NULL, src, tgt,
+                   p->row, g, &ng, &p->stats.skipped_targets);
+    p->stats.proposed = ng;
+    if ((rc = mark_mutual(xs, zt, o->neighbourhood, &o->retrieve, p->row, p->n, err)) == IST_OK)
+        rc = order_rows(p, g, ng, err);
+done:
+    ist_free(g);
+    ist_topk_free(tk);
+    ist_matrix_free(q);
+    return rc;
+}
+
 ist_status
 ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const ist_store *tgt,
                   const ist_pairs *const *lists, size_t nlists, const ist_propose_opts *opts,
@@ -295,10 +332,7 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
     ist_propose_opts o;
     ist_proposals *p = NULL;
     unsigned char *listed = NULL, *gold = NULL;
-    size_t *qrow = NULL, nq = 0, ng = 0;
-    group *g = NULL;
-    ist_matrix *q = NULL;
-    ist_topk *tk = NULL;
+    size_t *qrow = NULL, nq = 0;
     ist_status rc;
 
     *out = NULL;
@@ -338,39 +372,14 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
         rc = ist_error_set(err, IST_ERR_CANCELLED, "propose: cancelled");
         goto fail;
     }
-    if (nq > 0) {
-        size_t depth = o.candidates + 1;
-        if (o.skip_gold_targets)
-            depth += p->stats.gold_targets < SKIP_DEPTH ? p->stats.gold_targets : SKIP_DEPTH;
-        if (depth > zt.rows)
-            depth = zt.rows;
-        if ((rc = gather(xs, qrow, nq, &q, err)) != IST_OK ||
-            (rc = ist_retrieve_rank(ist_matrix_cview(q), xs, zt, IST_RETRIEVAL_CSLS, depth,
-                                    o.neighbourhood, &o.retrieve, &tk, err)) != IST_OK)
-            goto fail;
-        size_t cap;
-        if (ist_mul_size(nq, o.candidates, &cap) != 0 ||
-            !(p->row = ist_malloc(cap * sizeof *p->row)) || !(g = ist_malloc(nq * sizeof *g))) {
-            rc = ist_error_nomem(err);
-            goto fail;
-        }
-        p->n = collect(tk, qrow, nq, o.candidates, o.skip_gold_targets ? gold : NULL, src, tgt,
-                       p->row, g, &ng, &p->stats.skipped_targets);
-        if ((rc = mark_mutual(xs, zt, o.neighbourhood, &o.retrieve, p->row, p->n, err)) !=
-                IST_OK ||
-            (rc = order_rows(p, g, ng, err)) != IST_OK)
-            goto fail;
-    }
-    p->stats.proposed = ng;
+    if (nq > 0 && (rc = find_candidates(p, xs, zt, src, tgt, &o, qrow, nq, gold, err)) != IST_OK)
+        goto fail;
     p->stats.rows = p->n;
     *out = p;
     rc = IST_OK;
     p = NULL;
 fail:
     ist_proposals_free(p);
-    ist_topk_free(tk);
-    ist_matrix_free(q);
-    ist_free(g);
     ist_free(qrow);
     ist_free(gold);
     ist_free(listed);
