@@ -11,6 +11,7 @@
 #include "hash_int.h"
 #include "ofile_int.h"
 #include "reader_int.h"
+#include "text_int.h"
 
 #define MAX_LINE ((size_t)1 << 20)
 
@@ -247,7 +248,22 @@ trim(char *s)
 static bool
 word_ok(const char *w)
 {
-    return *w && !strpbrk(w, " \t");
+    return *w && !strpbrk(w, " \t\r");
+}
+
+/* Offset of the first byte that is not well-formed UTF-8, or len. */
+static size_t
+utf8_bad_at(const char *s, size_t len)
+{
+    size_t i = 0;
+    while (i < len) {
+        uint32_t cp;
+        size_t n = ist_utf8_decode((const unsigned char *)s + i, len - i, &cp);
+        if (n == 0)
+            return i;
+        i += n;
+    }
+    return len;
 }
 
 #define MAX_FIELDS 64
@@ -317,6 +333,10 @@ take_row(merger *m, char **f, size_t nf, const columns *c, size_t file, uint64_t
         return ist_error_at(err, IST_ERR_FORMAT, path, line,
                             "expected one word each in source and candidate, found '%s' and '%s'",
                             s, t);
+    if (s[0] == '#')
+        return ist_error_at(err, IST_ERR_FORMAT, path, line,
+                            "source word '%s' starts with '#', which a pair file reads as a "
+                            "comment", s);
     m->sum->rows++;
     if (*dec == '\0') {
         m->sum->undecided++;
@@ -361,9 +381,16 @@ read_reviewed(merger *m, size_t file, ist_error *err)
 
     while (rc == IST_OK && (rc = ist_reader_next(r, &line, &len, &eof, err)) == IST_OK && !eof) {
         uint64_t no = ist_reader_lineno(r);
+        char *start = line;
+        size_t bad;
         if (no == 1 && len >= 3 && memcmp(line, "\xef\xbb\xbf", 3) == 0)
             line += 3;
-        if (line[0] == '#' || line[strspn(line, " \t")] == '\0')
+        if (strlen(line) != len - (size_t)(line - start))
+            rc = ist_error_at(err, IST_ERR_FORMAT, path, no, "expected text, found a NUL byte");
+        else if ((bad = utf8_bad_at(line, strlen(line))) < strlen(line))
+            rc = ist_error_at(err, IST_ERR_FORMAT, path, no,
+                              "invalid UTF-8 at byte %zu of the line", bad + 1);
+        if (rc != IST_OK || line[0] == '#' || line[strspn(line, " \t")] == '\0')
             continue;
         size_t nf = split_tabs(line, f, MAX_FIELDS);
         if (!header) {

@@ -655,6 +655,31 @@ test_merge_errors(void **state)
     assert_false(exists(e.out));
     free(r);
 
+    /* bytes that are not UTF-8, a NUL byte, a source word a pair file would read as a
+     * comment: each names its line */
+    static const struct {
+        const char *text;
+        size_t len;
+        const char *msg;
+    } bad[] = {
+#define BAD_UTF8 HDR "accept\tlamp\tl\xe1mpara\t1\n"
+#define BAD_NUL HDR "accept\tlamp\0\tluz\t1\n"
+#define BAD_HASH HDR "accept\t#sale\toferta\t1\n"
+        {BAD_UTF8, sizeof BAD_UTF8 - 1, "invalid UTF-8 at byte 14"},
+        {BAD_NUL, sizeof BAD_NUL - 1, "NUL byte"},
+        {BAD_HASH, sizeof BAD_HASH - 1, "starts with '#'"},
+    };
+    for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
+        r = harness_path(e.dir, "bad.tsv");
+        harness_write(r, bad[i].text, bad[i].len);
+        assert_int_equal(ist_propose_merge(e.seed, (const char *const *)&r, 1, NULL, e.out,
+                                           &sum, &err), IST_ERR_FORMAT);
+        assert_int_equal(err.line, 3);
+        assert_non_null(strstr(err.msg, bad[i].msg));
+        assert_false(exists(e.out));
+        free(r);
+    }
+
     /* a missing reviewed file */
     char *missing = harness_path(e.dir, "absent.tsv");
     assert_int_equal(ist_propose_merge(e.seed, (const char *const *)&missing, 1, NULL, e.out,
