@@ -15,6 +15,8 @@ static const cli_command *const commands[] = {
     &cmd_score,
     &cmd_lookup,
     &cmd_gate,
+    &cmd_propose,
+    &cmd_merge_pairs,
     &cmd_inspect,
     &cmd_convert,
     NULL,
@@ -30,9 +32,9 @@ usage(FILE *out)
             "\n"
             "Commands:\n");
     for (int i = 0; commands[i]; i++)
-        fprintf(out, "  %-10s %s\n", commands[i]->name, commands[i]->summary);
+        fprintf(out, "  %-12s %s\n", commands[i]->name, commands[i]->summary);
     fprintf(out,
-            "  %-10s %s\n"
+            "  %-12s %s\n"
             "\n"
             "Global options:\n"
             "  -q, --quiet             no progress and no diagnostics but errors\n"

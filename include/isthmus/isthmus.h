@@ -13,6 +13,7 @@
 #include <isthmus/align.h>
 #include <isthmus/metrics.h>
 #include <isthmus/gate.h>
+#include <isthmus/propose.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
 #include <isthmus/sgns.h>

@@ -1,0 +1,111 @@
+/* cmd_merge_pairs.c - isthmus merge-pairs: reviewed candidate lists into a pair file. */
+#include <getopt.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+#define CMD "merge-pairs"
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus merge-pairs [OPTIONS] SEEDS REVIEWED... -o OUT\n"
+          "Add the accepted rows of reviewed candidate lists to a pair file, checking for\n"
+          "duplicates and conflicts.\n"
+          "\n"
+          "Arguments:\n"
+          "  SEEDS                   the pair file to grow; its lines come first in OUT\n"
+          "  REVIEWED...             candidate lists from 'isthmus propose' with the decision\n"
+          "                          column filled: accept, reject, 'use WORD' (take WORD as\n"
+          "                          the target instead) or empty (undecided)\n"
+          "\n"
+          "Options:\n"
+          "  -o, --output=OUT        pair file to write (required; may not be SEEDS)\n"
+          "      --one-target        a source word may have only one target: two different\n"
+          "                          targets for one word are a conflict [default: several]\n"
+          "      --skip-conflicts    leave conflicting pairs out and write the rest\n"
+          "                          [default: write nothing and exit 1]\n"
+          "  -h, --help              show this help and exit\n"
+          "\n"
+          "A pair already in the list is a duplicate: counted and skipped. A pair accepted in\n"
+          "one place and rejected in another (or rejected but in SEEDS) is a conflict; each is\n"
+          "reported with both file:line places. Words are compared byte for byte.\n"
+          "\n"
+          "Example:\n"
+          "  isthmus merge-pairs data-samples/demo-seed.pairs reviewed.tsv -o seed-v2.pairs\n",
+          out);
+}
+
+enum { OPT_ONE_TARGET = 1, OPT_SKIP_CONFLICTS };
+
+static void
+print_conflict(const char *msg, void *ctx)
+{
+    (void)ctx;
+    fprintf(stderr, "isthmus %s: %s\n", CMD, msg);
+}
+
+static void
+print_summary(const ist_merge_summary *s)
+{
+    printf("rows %zu: accepted %zu, corrected %zu, rejected %zu, undecided %zu\n", s->rows,
+           s->accepted, s->corrected, s->rejected, s->undecided);
+    printf("duplicates %zu, conflicts %zu; %zu pair%s added to the %zu of the seed list\n",
+           s->duplicates, s->conflicts, s->added, s->added == 1 ? "" : "s", s->seed_pairs);
+}
+
+static int
+run(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"output", required_argument, NULL, 'o'},
+        {"one-target", no_argument, NULL, OPT_ONE_TARGET},
+        {"skip-conflicts", no_argument, NULL, OPT_SKIP_CONFLICTS},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    const char *out = NULL;
+    ist_merge_opts mo;
+    ist_merge_summary sum;
+    ist_error err;
+    int o;
+
+    ist_merge_opts_init(&mo);
+    mo.on_conflict = print_conflict;
+    while ((o = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+        switch (o) {
+        case 'o': out = optarg; break;
+        case OPT_ONE_TARGET: mo.one_target = true; break;
+        case OPT_SKIP_CONFLICTS: mo.skip_conflicts = true; break;
+        case 'h': help(stdout); return CLI_EXIT_OK;
+        default: return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (argc - optind < 2)
+        return cli_usage_error(CMD, "expected SEEDS and at least one REVIEWED file");
+    if (!out)
+        return cli_usage_error(CMD, "expected -o OUT, the pair file to write");
+    if (strcmp(out, argv[optind]) == 0)
+        return cli_usage_error(CMD, "-o: expected a file other than SEEDS");
+    const char *seeds = argv[optind];
+    const char *const *reviewed = (const char *const *)argv + optind + 1;
+    size_t n = (size_t)(argc - optind - 1);
+    if (ist_propose_merge(seeds, reviewed, n, &mo, out, &sum, &err) != IST_OK) {
+        if (err.code != IST_ERR_INVALID || sum.conflicts == 0)
+            return cli_report(CMD, &err);
+        /* each conflict was printed as it was found */
+        fprintf(stderr, "isthmus %s: %zu conflict%s, nothing written; settle %s or pass "
+                "--skip-conflicts\n", CMD, sum.conflicts, sum.conflicts == 1 ? "" : "s",
+                sum.conflicts == 1 ? "it" : "them");
+        return CLI_EXIT_ERROR;
+    }
+    print_summary(&sum);
+    cli_info("-> %s\n", out);
+    return CLI_EXIT_OK;
+}
+
+const cli_command cmd_merge_pairs = {"merge-pairs",
+                                     "add accepted candidates to a pair file, with checks", run,
+                                     help};

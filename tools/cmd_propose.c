@@ -1,0 +1,195 @@
+/* cmd_propose.c - isthmus propose: candidate pairs for the word list, for review. */
+#include <getopt.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "align_cli.h"
+
+#define CMD "propose"
+#define MAX_LISTS 64
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus propose [OPTIONS] SRC TGT --map=MAP -o CANDIDATES\n"
+          "Propose new word pairs for review: for frequent source words in no list yet, the\n"
+          "best target words under the map (CSLS), ranked for a reviewer, as an editable TSV.\n"
+          "\n"
+          "Arguments:\n"
+          "  SRC, TGT                the vector files the map was fitted on\n"
+          "\n"
+          "Options:\n"
+          "      --map=MAP           map file written by 'isthmus align' (required)\n"
+          "  -o, --output=FILE       candidate list to write, '-' for standard output (required)\n"
+          "      --exclude=FILE      a pair file whose source words are not proposed (seed,\n"
+          "                          test or reviewed lists); repeatable; the map's own seed\n"
+          "                          pairs are always excluded\n"
+          "      --top-sources=N     look at the N most frequent source words, 0 = all\n"
+          "                          [default: 5000]\n"
+          "      --candidates=N      target candidates per source word, 1..100 [default: 3]\n"
+          "      --order=ORDER       informative (least certain frequent words first) or\n"
+          "                          certain (mutual neighbours, widest margin first)\n"
+          "                          [default: informative]\n"
+          "      --skip-gold-targets leave out candidates that are already a gold target of a\n"
+          "                          listed source word [default: keep them]\n",
+          out);
+    ac_common_help(out, false);
+    fputs("  -h, --help              show this help and exit\n"
+          "\n"
+          "Write accept, reject or 'use WORD' in the decision column, then merge the file\n"
+          "with 'isthmus merge-pairs'. The candidates are statistical suggestions; have a\n"
+          "speaker of the language review them before they drive anything customer-facing.\n"
+          "\n"
+          "Example:\n"
+          "  isthmus propose en.isv es.isv --map=shop.map \\\n"
+          "      --exclude=data-samples/demo-test.pairs -o candidates.tsv\n",
+          out);
+}
+
+enum { OPT_MAP = 1, OPT_EXCLUDE, OPT_TOP_SOURCES, OPT_CANDIDATES, OPT_ORDER, OPT_SKIP_GOLD };
+
+typedef struct args {
+    const char *map, *out, *src, *tgt;
+    const char *lists[MAX_LISTS];
+    size_t nlists;
+    ist_propose_opts po;
+} args;
+
+static int
+parse(int argc, char **argv, args *a)
+{
+    static const struct option opts[] = {
+        {"map", required_argument, NULL, OPT_MAP},
+        {"output", required_argument, NULL, 'o'},
+        {"exclude", required_argument, NULL, OPT_EXCLUDE},
+        {"top-sources", required_argument, NULL, OPT_TOP_SOURCES},
+        {"candidates", required_argument, NULL, OPT_CANDIDATES},
+        {"order", required_argument, NULL, OPT_ORDER},
+        {"skip-gold-targets", no_argument, NULL, OPT_SKIP_GOLD},
+        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
+        {"memory", required_argument, NULL, AC_OPT_MEMORY},
+        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    static const char *const orders[] = {"informative", "certain", NULL};
+    ac_common c;
+    int o, ord;
+
+    ac_common_init(&c, AC_CSLS);
+    ist_propose_opts_init(&a->po);
+    while ((o = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+        switch (o) {
+        case OPT_MAP: a->map = optarg; break;
+        case 'o': a->out = optarg; break;
+        case OPT_EXCLUDE:
+            if (a->nlists == MAX_LISTS)
+                return cli_usage_error(CMD, "--exclude: at most %d files", MAX_LISTS);
+            a->lists[a->nlists++] = optarg;
+            break;
+        case OPT_TOP_SOURCES:
+            if (!cli_parse_size(CMD, "--top-sources", optarg, 0, (size_t)1 << 40,
+                                &a->po.top_sources))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_CANDIDATES:
+            if (!cli_parse_size(CMD, "--candidates", optarg, 1, IST_PROPOSE_MAX_CANDIDATES,
+                                &a->po.candidates))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_ORDER:
+            if (!cli_parse_choice(CMD, "--order", optarg, orders, &ord))
+                return CLI_EXIT_USAGE;
+            a->po.order = ord == 1 ? IST_PROPOSE_CERTAIN : IST_PROPOSE_INFORMATIVE;
+            break;
+        case OPT_SKIP_GOLD: a->po.skip_gold_targets = true; break;
+        case 'h': help(stdout); return -1;
+        default:
+            if (o >= 1000) {
+                if (!ac_common_option(CMD, &c, o, optarg))
+                    return CLI_EXIT_USAGE;
+                break;
+            }
+            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (argc - optind != 2)
+        return cli_usage_error(CMD, "expected SRC and TGT vector files");
+    if (!a->map)
+        return cli_usage_error(CMD, "expected --map=MAP");
+    if (!a->out)
+        return cli_usage_error(CMD, "expected -o CANDIDATES, the candidate list to write");
+    a->src = argv[optind];
+    a->tgt = argv[optind + 1];
+    a->po.neighbourhood = c.eval.neighbourhood;
+    a->po.retrieve = c.eval.retrieve;
+    return 0;
+}
+
+static int
+propose(const args *a, const ist_map *map, const ist_store *s, const ist_store *t,
+        ist_pairs **lists)
+{
+    uint64_t sums[MAX_LISTS];
+    ist_proposals *p = NULL;
+    ist_error err;
+
+    for (size_t i = 0; i < a->nlists; i++)
+        if (ist_pairs_checksum(lists[i], &sums[i], &err) != IST_OK)
+            return cli_report(CMD, &err);
+    if (ist_propose_run(map, s, t, (const ist_pairs *const *)lists, a->nlists, &a->po, &p,
+                        &err) != IST_OK)
+        return cli_report(CMD, &err);
+    ist_propose_inputs in = {a->src, a->tgt, a->map, ist_map_seed_checksum(map),
+                             a->lists, sums, a->nlists};
+    if (ist_proposals_write(p, s, t, &in, a->out, &err) != IST_OK) {
+        ist_proposals_free(p);
+        return cli_report(CMD, &err);
+    }
+    ist_propose_stats st = ist_proposals_stats(p);
+    cli_info("%zu most frequent source words: %zu already listed, %zu proposed, %zu rows%s",
+             st.considered, st.listed, st.proposed, st.rows, strcmp(a->out, "-") ? "" : "\n");
+    if (strcmp(a->out, "-") != 0)
+        cli_info(" -> %s\n", a->out);
+    if (a->po.skip_gold_targets)
+        cli_info("%zu candidates left out as gold targets of listed words\n", st.skipped_targets);
+    ist_proposals_free(p);
+    return 0;
+}
+
+static int
+run(int argc, char **argv)
+{
+    ist_pairs *lists[MAX_LISTS] = {0};
+    ist_store *s = NULL, *t = NULL;
+    ist_map *map = NULL;
+    ist_error err;
+    args a;
+    int rc;
+
+    memset(&a, 0, sizeof a);
+    if ((rc = parse(argc, argv, &a)) != 0)
+        return rc < 0 ? CLI_EXIT_OK : rc;
+    for (size_t i = 0; i < a.nlists; i++)
+        if (ist_pairs_read(a.lists[i], &lists[i], &err) != IST_OK) {
+            rc = cli_report(CMD, &err);
+            goto done;
+        }
+    if (ist_map_load(a.map, &map, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    if ((rc = ac_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
+        goto done;
+    rc = propose(&a, map, s, t, lists);
+done:
+    for (size_t i = 0; i < a.nlists; i++)
+        ist_pairs_free(lists[i]);
+    ist_map_free(map);
+    ist_store_free(s);
+    ist_store_free(t);
+    return rc;
+}
+
+const cli_command cmd_propose = {"propose", "propose new word pairs for review, as a TSV", run,
+                                 help};
