@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "alloc_int.h"
+#include "diag_int.h"
 #include "error_int.h"
 #include "json_int.h"
 #include "ofile_int.h"
@@ -150,6 +151,8 @@ ist_result_write(const char *path, const ist_result_info *in, const ist_result_r
     for (size_t i = 0; i < nruns; i++)
         write_run(&w, &runs[i], in->source);
     ist_jw_arr_end(&w);
+    if (in->diagnostics)
+        ist_result_write_diag(&w, in->diagnostics);
     ist_jw_obj_end(&w);
     rc = ist_jw_finish(&w, &text, err);
     if (rc != IST_OK)

@@ -10,5 +10,6 @@ extern const cli_command cmd_align;
 extern const cli_command cmd_score;
 extern const cli_command cmd_lookup;
 extern const cli_command cmd_prepare;
+extern const cli_command cmd_report;
 
 #endif

@@ -14,6 +14,7 @@ static const cli_command *const commands[] = {
     &cmd_score,
     &cmd_lookup,
     &cmd_prepare,
+    &cmd_report,
     NULL,
 };
 

@@ -14,6 +14,8 @@
 #include <isthmus/metrics.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
+#include <isthmus/diag.h>
+#include <isthmus/report.h>
 
 #ifdef __cplusplus
 extern "C" {
