@@ -31,6 +31,8 @@ static const char *const style =
     ".other{color:#4a3b00;background:#fbf3d0;font-weight:bold}"
     ".badge{display:inline-block;padding:2px 10px;border:2px solid currentColor;border-radius:4px}"
     "svg.chart{max-width:100%;height:auto;font-family:inherit;display:block;margin:.4em 0}"
+    ".row{display:flex;flex-wrap:wrap;gap:16px}.row>figure{flex:1 1 460px;margin:0}"
+    ".row svg.chart{width:100%}figcaption h3{margin:.3em 0}"
     "code{font-family:'DejaVu Sans Mono',monospace;font-size:.92em;word-break:break-all}"
     "@media print{body{max-width:none;padding:0;font-size:10pt}h2{break-after:avoid}"
     "section,table,svg{break-inside:avoid}.caution{background:none}"
@@ -264,7 +266,8 @@ band_label(const ist_jv *band, char *buf, size_t cap)
 }
 
 static void
-band_chart(rep *r, const ist_jv *runs, const char *key, size_t nb, const char *const *cats)
+band_chart(rep *r, const ist_jv *runs, const char *key, size_t nb, const size_t *keep,
+           const char *const *cats)
 {
     double v[MAX_RUNS][MAX_BANDS], lo[MAX_RUNS][MAX_BANDS], hi[MAX_RUNS][MAX_BANDS];
     char names[RS_MAX_SERIES][160], title[96];
@@ -275,7 +278,7 @@ band_chart(rep *r, const ist_jv *runs, const char *key, size_t nb, const char *c
     for (size_t i = nr > RS_MAX_SERIES ? nr - RS_MAX_SERIES : 0; i < nr; i++, ns++) {
         const ist_jv *run = ist_jv_at(runs, i), *bands = ist_jv_get(run, "bands");
         for (size_t j = 0; j < nb; j++) {
-            const ist_jv *band = ist_jv_at(bands, j);
+            const ist_jv *band = ist_jv_at(bands, keep[j]);
             bool has = ist_jv_num(ist_jv_get(band, "queries"), 0) > 0;
             v[ns][j] = has ? ist_jv_num(ist_jv_get(ist_jv_get(band, "precision"), key), NAN) : NAN;
             if (!has || !ci_of(band, key, &lo[ns][j], &hi[ns][j]))
@@ -290,9 +293,11 @@ band_chart(rep *r, const ist_jv *runs, const char *key, size_t nb, const char *c
                         "per run; black whiskers show the 95% confidence interval where the "
                         "result has one. The table below gives the same figures.",
                 .ylabel = key, .xlabel = "frequency rank of the source word", .cats = cats,
-                .ncat = nb, .s = s, .ns = ns, .ymax = 1, .percent = true, .labels = true};
-    rb_printf(&r->b, "<h3>%s</h3>\n", key);
+                .ncat = nb, .s = s, .ns = ns, .ymax = 1, .percent = true, .labels = true,
+                .width = 520};
+    rb_printf(&r->b, "<figure><figcaption><h3>%s</h3></figcaption>\n", key);
     rs_bars(&r->b, &c);
+    rb_put(&r->b, "</figure>\n");
 }
 
 static void
@@ -301,7 +306,7 @@ bands(rep *r)
     const ist_jv *runs = ist_jv_get(r->res, "runs");
     char cats_buf[MAX_BANDS][48];
     const char *cats[MAX_BANDS];
-    size_t nb = 0;
+    size_t nb = 0, keep[MAX_BANDS], nk = 0;
     rbuf *b = &r->b;
 
     rb_put(b, "<section><h2 id=\"bands\">Precision by frequency band</h2>\n");
@@ -315,13 +320,22 @@ bands(rep *r)
         return;
     }
     for (size_t j = 0; j < nb; j++) {
-        band_label(ist_jv_at(ist_jv_get(ist_jv_at(runs, 0), "bands"), j), cats_buf[j],
-                   sizeof cats_buf[j]);
-        cats[j] = cats_buf[j];
+        bool any = false;
+        for (size_t i = 0; i < ist_jv_len(runs); i++)
+            any |= ist_jv_num(ist_jv_get(ist_jv_at(ist_jv_get(ist_jv_at(runs, i), "bands"), j),
+                                         "queries"), 0) > 0;
+        if (!any)
+            continue;
+        band_label(ist_jv_at(ist_jv_get(ist_jv_at(runs, 0), "bands"), j), cats_buf[nk],
+                   sizeof cats_buf[nk]);
+        cats[nk] = cats_buf[nk];
+        keep[nk++] = j;
     }
-    rb_put(b, "<p class=\"muted\">Bands with no test word are left empty.</p>\n");
-    band_chart(r, runs, "p@1", nb, cats);
-    band_chart(r, runs, "p@10", nb, cats);
+    rb_printf(b, "<p class=\"muted\">%zu of %zu frequency bands hold test words; the others "
+                 "are left out.</p>\n<div class=\"row\">", nk, nb);
+    band_chart(r, runs, "p@1", nk, keep, cats);
+    band_chart(r, runs, "p@10", nk, keep, cats);
+    rb_put(b, "</div>\n");
     rb_put(b, "<table><tr><th>map, retrieval</th><th>frequency rank</th><th>queries</th>"
               "<th>P@1</th><th>P@5</th><th>P@10</th></tr>\n");
     for (size_t i = 0; i < ist_jv_len(runs); i++) {
@@ -330,6 +344,8 @@ bands(rep *r)
         run_name(run, name, sizeof name);
         for (size_t j = 0; j < ist_jv_len(bl); j++) {
             const ist_jv *band = ist_jv_at(bl, j);
+            if (ist_jv_num(ist_jv_get(band, "queries"), 0) == 0)
+                continue;
             band_label(band, lab, sizeof lab);
             rb_put(b, "<tr><td>");
             rb_esc(b, name);

@@ -45,8 +45,8 @@ similarity(rbuf *b, const ist_jv *sim, int *id)
             hi = i;
         }
     for (size_t i = lo; i <= hi; i++) {
-        double e0 = ist_jv_num(ist_jv_at(edges, i), 0), e1 = ist_jv_num(ist_jv_at(edges, i + 1), 0);
-        snprintf(lab[i - lo], sizeof lab[i - lo], "%.1f\xe2\x80\xa6%.1f", e0 + 0.0, e1 + 0.0);
+        double e0 = ist_jv_num(ist_jv_at(edges, i), 0);
+        snprintf(lab[i - lo], sizeof lab[i - lo], "%.1f", fabs(e0) < 1e-9 ? 0.0 : e0);
         cats[i - lo] = lab[i - lo];
         g[i - lo] = g[i] / tg;
         rnd[i - lo] = rnd[i] / tr;
@@ -63,7 +63,8 @@ similarity(rbuf *b, const ist_jv *sim, int *id)
     rchart c = {.id = ++*id, .title = "Cosine of gold pairs and of random pairs",
                 .desc = "Share of each kind of pair per cosine interval; gold pairs solid, random "
                         "pairs hatched.",
-                .ylabel = "share of pairs", .xlabel = "cosine after mapping", .cats = cats,
+                .ylabel = "share of pairs",
+                .xlabel = "cosine after mapping (each bar: from this value up to the next)", .cats = cats,
                 .ncat = hi - lo + 1, .s = s, .ns = 2, .percent = true,
                 .labels = hi - lo + 1 <= 8};
     rs_bars(b, &c);
@@ -171,7 +172,7 @@ isometry(rbuf *b, const ist_jv *iso)
               ist_jv_num(ist_jv_get(iso, "eigenvector_similarity"), NAN),
               ist_jv_num(ist_jv_get(iso, "top_n"), 0), ist_jv_num(ist_jv_get(iso, "graph_k"), 0),
               ist_jv_num(ist_jv_get(iso, "eigenvalues_compared"), 0));
-    rb_put(b, "<p>");
+    rb_put(b, "<p>How to read it: ");
     rb_esc(b, ist_jv_str(ist_jv_get(iso, "note"), ""));
     rb_put(b, ". Lower is better: a high value warns that the two spaces may not be alignable "
               "by a rotation. Compare it between runs on the same number of words.</p>\n"

@@ -39,6 +39,7 @@ typedef struct rchart {
     double ymax;                /* 0: from the data */
     bool percent;               /* values are fractions shown in percent */
     bool labels;                /* print each bar's value above it */
+    double width;               /* drawing width in px; 0: 720 */
 } rchart;
 
 /* Draw a grouped bar chart as an inline <svg> element with a legend. */

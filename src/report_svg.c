@@ -95,7 +95,8 @@ rb_esc(rbuf *b, const char *s)
 /* Our palette: dark blue, amber, plum, green; each at least 3:1 against white. */
 static const char *const colour[RS_MAX_SERIES] = {"#1b4f72", "#9a5b06", "#6c3483", "#117a65"};
 
-#define W 720.0
+#define WIDTH 720.0
+#define W (c->width > 0 ? c->width : WIDTH)
 #define H 300.0
 #define ML 64.0
 #define MR 16.0
@@ -165,12 +166,12 @@ value_text(char *buf, size_t cap, double v, bool percent)
 }
 
 static void
-axes(rbuf *b, const rchart *c, double ymax, double step)
+axes(rbuf *b, const rchart *c, double ymax, double step, double mt)
 {
-    double ph = H - MT - MB;
+    double ph = H - mt - MB;
     char t[32];
     for (double y = 0; y <= ymax * (1 + 1e-9); y += step) {
-        double py = MT + ph * (1 - y / ymax);
+        double py = mt + ph * (1 - y / ymax);
         value_text(t, sizeof t, y, c->percent);
         rb_printf(b, "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"#d5d8dc\"/>",
                   ML, py, W - MR, py);
@@ -178,12 +179,12 @@ axes(rbuf *b, const rchart *c, double ymax, double step)
                   ML - 6, py + 4, t);
     }
     rb_printf(b, "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"#222\"/>", ML,
-              MT + ph, W - MR, MT + ph);
-    rb_printf(b, "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"#222\"/>", ML, MT,
-              ML, MT + ph);
+              mt + ph, W - MR, mt + ph);
+    rb_printf(b, "<line x1=\"%.1f\" y1=\"%.1f\" x2=\"%.1f\" y2=\"%.1f\" stroke=\"#222\"/>", ML, mt,
+              ML, mt + ph);
     if (c->ylabel) {
         rb_printf(b, "<text transform=\"translate(14 %.1f) rotate(-90)\" text-anchor=\"middle\" "
-                     "font-size=\"12\">", MT + ph / 2);
+                     "font-size=\"12\">", mt + ph / 2);
         rb_esc(b, c->ylabel);
         rb_put(b, "</text>");
     }
@@ -195,18 +196,29 @@ axes(rbuf *b, const rchart *c, double ymax, double step)
     }
 }
 
-static void
+/* Draw the legend (when b is not NULL); returns the number of rows it takes. */
+static int
 legend(rbuf *b, const rchart *c)
 {
-    double x = ML;
+    double x = ML, y = 10;
+    int rows = 1;
     for (size_t s = 0; s < c->ns && s < RS_MAX_SERIES; s++) {
-        rb_printf(b, "<rect x=\"%.1f\" y=\"10\" width=\"16\" height=\"14\" fill=\"url(#p%d-%zu)\" "
-                     "stroke=\"%s\"/>", x, c->id, s, colour[s]);
-        rb_printf(b, "<text x=\"%.1f\" y=\"22\" font-size=\"12\">", x + 22);
-        rb_esc(b, c->s[s].name);
-        rb_put(b, "</text>");
-        x += 34 + 7.0 * (double)strlen(c->s[s].name ? c->s[s].name : "");
+        double wd = 34 + 7.0 * (double)strlen(c->s[s].name ? c->s[s].name : "");
+        if (x > ML && x + wd > W - MR) {
+            x = ML;
+            y += 18;
+            rows++;
+        }
+        if (b) {
+            rb_printf(b, "<rect x=\"%.1f\" y=\"%.1f\" width=\"16\" height=\"14\" "
+                         "fill=\"url(#p%d-%zu)\" stroke=\"%s\"/>", x, y, c->id, s, colour[s]);
+            rb_printf(b, "<text x=\"%.1f\" y=\"%.1f\" font-size=\"12\">", x + 22, y + 12);
+            rb_esc(b, c->s[s].name);
+            rb_put(b, "</text>");
+        }
+        x += wd;
     }
+    return rows;
 }
 
 static void
@@ -221,7 +233,7 @@ void
 rs_bars(rbuf *b, const rchart *c)
 {
     double ymax = c->ymax > 0 ? c->ymax : data_max(c);
-    double pw = W - ML - MR, ph = H - MT - MB;
+    double mt = MT + 18.0 * (legend(NULL, c) - 1), pw = W - ML - MR, ph = H - mt - MB;
     size_t ns = c->ns < RS_MAX_SERIES ? c->ns : RS_MAX_SERIES;
     char t[32];
 
@@ -238,11 +250,12 @@ rs_bars(rbuf *b, const rchart *c)
     rb_esc(b, c->desc);
     rb_put(b, "</desc>");
     patterns(b, c);
-    axes(b, c, ymax, step);
+    axes(b, c, ymax, step, mt);
     legend(b, c);
     double gw = c->ncat ? pw / (double)c->ncat : pw, bw = ns ? gw * 0.8 / (double)ns : gw;
+    bw = bw > 56 ? 56 : bw;
     for (size_t i = 0; i < c->ncat; i++) {
-        double gx = ML + gw * (double)i + gw * 0.1;
+        double gx = ML + gw * (double)i + (gw - bw * (double)ns) / 2;
         for (size_t s = 0; s < ns; s++) {
             double v = c->s[s].v[i];
             if (isnan(v))
@@ -251,22 +264,22 @@ rs_bars(rbuf *b, const rchart *c)
             value_text(t, sizeof t, v, c->percent);
             rb_printf(b, "<rect x=\"%.1f\" y=\"%.1f\" width=\"%.1f\" height=\"%.1f\" "
                          "fill=\"url(#p%d-%zu)\" stroke=\"%s\"><title>",
-                      x, MT + ph - h, bw > 2 ? bw - 1 : bw, h, c->id, s, colour[s]);
+                      x, mt + ph - h, bw > 2 ? bw - 1 : bw, h, c->id, s, colour[s]);
             rb_esc(b, c->s[s].name);
             rb_put(b, ", ");
             rb_esc(b, c->cats[i]);
             rb_printf(b, ": %s</title></rect>", t);
             if (c->s[s].lo && c->s[s].hi && !isnan(c->s[s].lo[i]) && !isnan(c->s[s].hi[i]))
-                interval(b, x + bw / 2, MT + ph * (1 - c->s[s].lo[i] / ymax),
-                         MT + ph * (1 - c->s[s].hi[i] / ymax));
+                interval(b, x + bw / 2, mt + ph * (1 - c->s[s].lo[i] / ymax),
+                         mt + ph * (1 - c->s[s].hi[i] / ymax));
             else if (c->labels)
                 rb_printf(b, "<text x=\"%.1f\" y=\"%.1f\" text-anchor=\"middle\" "
-                             "font-size=\"10\">%s</text>", x + bw / 2, MT + ph - h - 4, t);
+                             "font-size=\"10\">%s</text>", x + bw / 2, mt + ph - h - 4, t);
         }
-        bool show = c->ncat <= 12 || i % 2 == 0;
+        bool show = c->ncat <= 20 || i % 2 == 0;
         if (show) {
             rb_printf(b, "<text x=\"%.1f\" y=\"%.1f\" text-anchor=\"middle\" font-size=\"11\">",
-                      ML + gw * ((double)i + 0.5), MT + ph + 16);
+                      ML + gw * ((double)i + 0.5), mt + ph + 16);
             rb_esc(b, c->cats[i]);
             rb_put(b, "</text>");
         }
