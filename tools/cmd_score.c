@@ -38,7 +38,8 @@ help(FILE *out)
 enum { OPT_MAP = 1, OPT_TEST, OPT_STAGE };
 
 static int
-write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath, const char *tpath, const ist_map *map,
+write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath,
+           const char *tpath, const ist_map *map,
            const ist_pairs *test, const ist_pairs_coverage *cov, size_t shared,
            const ist_result_run *runs, size_t nruns, const char *stage, const ist_diag *diag)
 {

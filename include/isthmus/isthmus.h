@@ -16,6 +16,7 @@
 #include <isthmus/corpus.h>
 #include <isthmus/diag.h>
 #include <isthmus/report.h>
+#include <isthmus/sgns.h>
 
 #ifdef __cplusplus
 extern "C" {

@@ -1,0 +1,797 @@
+/* sgns.c - skip-gram with negative sampling: options, samplers, threads, the two update
+ * kernels (formulas and citations in include/isthmus/sgns.h and docs/methods.md). */
+#include <isthmus/sgns.h>
+
+#include <math.h>
+#include <pthread.h>
+#include <stdatomic.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+
+#include <isthmus/cancel.h>
+
+#include "alloc_int.h"
+#include "error_int.h"
+#include "matrix_int.h"
+#include "sgns_int.h"
+
+#define SENT_MAX 1024          /* kept words per window unit; longer lines are cut */
+#define PUBLISH_EVERY 10000    /* stream words between updates of the shared counters */
+#define SIG_RANGE 8.0f         /* sigmoid table covers [-8, 8] */
+#define SIG_SIZE 2048
+#define LR_FLOOR 1e-4
+#define LOSS_EVERY_MASK 7      /* the loss (for progress only) is summed on every 8th window */
+#define MAX_THREADS 256
+#define MAX_DIM 10000
+#define MAX_WINDOW 1000
+#define MAX_NEGATIVES 1000
+
+void
+ist_sgns_opts_init(ist_sgns_opts *o)
+{
+    memset(o, 0, sizeof *o);
+    o->dim = 100;
+    o->window = 5;
+    o->negatives = 5;
+    o->epochs = 5;
+    o->lr0 = 0.025;
+    o->subsample = 1e-4;
+    o->threads = 1;
+    o->seed = 1;
+    o->kernel = IST_SGNS_FAST;
+}
+
+/* ---- subsampling and noise ------------------------------------------------------------ */
+
+double
+ist_sgns_keep_prob(uint64_t count, uint64_t total, double t)
+{
+    if (t <= 0.0 || count == 0 || total == 0)
+        return 1.0;
+    double f = (double)count / (double)total;
+    double p = sqrt(t / f);
+    return p < 1.0 ? p : 1.0;
+}
+
+ist_status
+ist_sgns_keep_table(const uint64_t *counts, size_t n, double t, uint32_t **out, ist_error *err)
+{
+    uint64_t total = 0;
+    uint32_t *thr;
+
+    *out = NULL;
+    thr = ist_malloc((n ? n : 1) * sizeof *thr);
+    if (!thr)
+        return ist_error_nomem(err);
+    for (size_t i = 0; i < n; i++)
+        total += counts[i];
+    for (size_t i = 0; i < n; i++) {
+        double p = ist_sgns_keep_prob(counts[i], total, t);
+        thr[i] = p >= 1.0 ? UINT32_MAX : (uint32_t)(p * 4294967296.0);
+    }
+    *out = thr;
+    return IST_OK;
+}
+
+ist_status
+ist_sgns_noise_build(const uint64_t *counts, size_t n, double power, ist_sgns_noise *out,
+                     ist_error *err)
+{
+    double *p = NULL, sum = 0.0;
+    uint32_t *small = NULL, *large = NULL;
+    size_t ns = 0, nl = 0;
+
+    memset(out, 0, sizeof *out);
+    if (n == 0 || n >= UINT32_MAX)
+        return ist_error_set(err, IST_ERR_INVALID, "noise distribution over %zu words", n);
+    for (size_t i = 0; i < n; i++)
+        sum += pow((double)counts[i], power);
+    if (!(sum > 0.0))
+        return ist_error_set(err, IST_ERR_INVALID, "every word count is zero");
+    p = ist_malloc(n * sizeof *p);
+    small = ist_malloc(n * sizeof *small);
+    large = ist_malloc(n * sizeof *large);
+    out->cells = ist_malloc(n * sizeof *out->cells);
+    if (!p || !small || !large || !out->cells) {
+        ist_free(p), ist_free(small), ist_free(large), ist_free(out->cells);
+        out->cells = NULL;
+        return ist_error_nomem(err);
+    }
+    out->n = (uint32_t)n;
+    /* Vose's method: scale to mean 1, pair each under-full cell with an over-full one. */
+    for (size_t i = 0; i < n; i++) {
+        p[i] = pow((double)counts[i], power) * (double)n / sum;
+        if (p[i] < 1.0)
+            small[ns++] = (uint32_t)i;
+        else
+            large[nl++] = (uint32_t)i;
+    }
+    while (ns > 0 && nl > 0) {
+        uint32_t s = small[--ns], l = large[nl - 1];
+        out->cells[s].keep = (uint32_t)(p[s] * 4294967296.0);
+        out->cells[s].alias = l;
+        p[l] -= 1.0 - p[s];
+        if (p[l] < 1.0) {
+            nl--;
+            small[ns++] = l;
+        }
+    }
+    while (nl > 0) {             /* what rounding left: full cells */
+        uint32_t l = large[--nl];
+        out->cells[l].keep = UINT32_MAX;
+        out->cells[l].alias = l;
+    }
+    while (ns > 0) {
+        uint32_t s = small[--ns];
+        out->cells[s].keep = UINT32_MAX;
+        out->cells[s].alias = s;
+    }
+    ist_free(p), ist_free(small), ist_free(large);
+    return IST_OK;
+}
+
+void
+ist_sgns_noise_free(ist_sgns_noise *z)
+{
+    if (z) {
+        ist_free(z->cells);
+        z->cells = NULL;
+        z->n = 0;
+    }
+}
+
+/* ---- shared state --------------------------------------------------------------------- */
+
+typedef struct shared {
+    const uint32_t *ids;
+    size_t dim, stride, window, negatives, epochs, nthreads;
+    float *in, *out;                 /* vocab x stride each */
+    const uint32_t *keep;
+    ist_sgns_noise noise;
+    const ist_sgns_simd *simd;
+    ist_sgns_kernel kernel;
+    double lr0;
+    uint64_t words_per_epoch, words_total;
+    float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
+    atomic_int stop;
+    pthread_mutex_t lock;            /* guards the counters below */
+    pthread_cond_t wake;
+    uint64_t words_done, trained, pairs;
+    double loss_sum, last_epoch_loss;
+    uint64_t loss_n, last_epoch_n;
+    size_t finished;
+    ist_status fail;
+} shared;
+
+typedef struct worker {
+    char pad_head[128];              /* keeps the hot fields of neighbours off shared lines */
+    shared *sh;
+    size_t begin, end;               /* part of the stream */
+    uint64_t rng;
+    uint32_t sent[SENT_MAX];
+    /* FAST: pointers and products of one window; REFERENCE: the gradient row */
+    const float **xr, **yr;
+    float **xw, **yw, **dxr;
+    uint32_t *outs, *mult;
+    uint32_t *pre;                   /* FAST: noise words drawn ahead for the next window */
+    bool have_pre;
+    float *s, *g, *gt, *dx;
+    pthread_t thread;
+    bool started;
+    /* since the last publication */
+    uint64_t words, trained, pairs, loss_n, windows;
+    double loss;
+    char pad_tail[128];
+} worker;
+
+static void
+sig_tables(shared *sh)
+{
+    for (int i = 0; i <= SIG_SIZE; i++) {
+        double x = ((double)i / SIG_SIZE * 2.0 - 1.0) * SIG_RANGE;
+        sh->sig[i] = (float)(1.0 / (1.0 + exp(-x)));
+        sh->logsig[i] = (float)(-log1p(exp(-x)));   /* log s(x) */
+    }
+}
+
+static inline int
+sig_index(float x)
+{
+    return (int)((x + SIG_RANGE) * (SIG_SIZE / (2.0f * SIG_RANGE)) + 0.5f);
+}
+
+/* Gradient factor (label - s(x)) and the pair's loss -log s(+-x). */
+static inline float
+grad_loss(const shared *sh, float x, int label, double *loss)
+{
+    if (x >= SIG_RANGE) {
+        *loss += label ? 0.0 : x;
+        return label ? 0.0f : -1.0f;
+    }
+    if (x <= -SIG_RANGE) {
+        *loss += label ? -x : 0.0;
+        return label ? 1.0f : 0.0f;
+    }
+    int i = sig_index(x);
+    float s = sh->sig[i];
+    /* log s(-x) = log s(x) - x */
+    *loss -= label ? sh->logsig[i] : sh->logsig[i] - x;
+    return (float)label - s;
+}
+
+/* Gradient factor alone. */
+static inline float
+grad_only(const shared *sh, float x, int label)
+{
+    if (x >= SIG_RANGE)
+        return label ? 0.0f : -1.0f;
+    if (x <= -SIG_RANGE)
+        return label ? 1.0f : 0.0f;
+    return (float)label - sh->sig[sig_index(x)];
+}
+
+static double
+current_lr(const shared *sh, uint64_t done)
+{
+    double f = 1.0 - (double)done / (double)(sh->words_total + 1);
+    return sh->lr0 * (f > LR_FLOOR ? f : LR_FLOOR);
+}
+
+/* ---- the two kernels: one window centred on sent[i] ----------------------------------- */
+
+/* Plain per-pair loop: every (context, centre) pair draws its own noise words. The loops are
+ * left to the compiler (allowed to vectorise the sums, and built for AVX2 + FMA as well, chosen
+ * at run time) so that the comparison with the fast path is against a well-compiled loop. */
+#if defined(__x86_64__) && defined(__GNUC__) && !defined(__clang__)
+__attribute__((target_clones("arch=x86-64-v3", "default")))
+#endif
+static void
+window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
+{
+    shared *sh = w->sh;
+    size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, dim = sh->dim;
+    uint32_t centre = w->sent[i];
+    float *grad = w->dx;
+    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;
+
+    for (size_t j = lo; j < hi; j++) {
+        if (j == i)
+            continue;
+        float *x = sh->in + (size_t)w->sent[j] * sh->stride;
+        memset(grad, 0, dim * sizeof *grad);
+        for (size_t d = 0; d <= sh->negatives; d++) {
+            uint32_t o = d == 0 ? centre : ist_sgns_noise_draw(&sh->noise, &w->rng);
+            if (d > 0 && o == centre)
+                continue;
+            float *y = sh->out + (size_t)o * sh->stride, dot = 0.0f;
+#pragma omp simd reduction(+ : dot)
+            for (size_t c = 0; c < dim; c++)
+                dot += x[c] * y[c];
+            float g = sample ? grad_loss(sh, dot, d == 0, &w->loss) : grad_only(sh, dot, d == 0);
+            g *= lr;
+#pragma omp simd
+            for (size_t c = 0; c < dim; c++)
+                grad[c] += g * y[c];
+#pragma omp simd
+            for (size_t c = 0; c < dim; c++)
+                y[c] += g * x[c];
+            w->pairs++;
+            w->loss_n += sample;
+        }
+#pragma omp simd
+        for (size_t c = 0; c < dim; c++)
+            x[c] += grad[c];
+    }
+}
+
+static inline void
+prefetch_row(const float *row, size_t len)
+{
+    for (size_t d = 0; d < len; d += 16)
+        __builtin_prefetch(row + d, 1, 3);
+}
+
+/* The window's output rows: the centre word (label 1) then the distinct noise words with
+ * their multiplicities (a noise word equal to the centre is skipped). The noise words are
+ * drawn one window ahead so that their rows can be fetched from memory while the current
+ * window computes. Returns the number of rows; *drawn counts centre + noise words used. */
+static size_t
+window_outputs(worker *w, uint32_t centre, size_t *drawn)
+{
+    shared *sh = w->sh;
+    size_t no = 1, kn = sh->negatives, len = sh->stride;
+
+    if (!w->have_pre)
+        for (size_t d = 0; d < kn; d++)
+            w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
+    w->outs[0] = centre;
+    w->mult[0] = 1;
+    *drawn = 1;
+    for (size_t d = 0; d < kn; d++) {
+        uint32_t o = w->pre[d];
+        if (o == centre)
+            continue;
+        (*drawn)++;
+        size_t k = 1;
+        while (k < no && w->outs[k] != o)
+            k++;
+        if (k == no) {
+            w->outs[no] = o;
+            w->mult[no++] = 1;
+        } else {
+            w->mult[k]++;
+        }
+    }
+    for (size_t d = 0; d < kn; d++) {
+        w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
+        prefetch_row(sh->out + (size_t)w->pre[d] * len, len);
+    }
+    w->have_pre = true;
+    for (size_t k = 0; k < no; k++) {
+        float *y = sh->out + (size_t)w->outs[k] * len;
+        w->yr[k] = y;
+        w->yw[k] = y;
+    }
+    return no;
+}
+
+/* G = lr (L - s(S)) weighted by the output multiplicities, and its transpose; the loss is
+ * summed on every 8th window. Also zeroes the dX rows. Returns whether the loss was summed. */
+static bool
+window_gradients(worker *w, size_t m, size_t no, float lr)
+{
+    const shared *sh = w->sh;
+    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;
+
+    for (size_t j = 0; j < m; j++) {
+        for (size_t k = 0; k < no; k++) {
+            float x = w->s[j * no + k], g;
+            if (sample) {
+                double l = 0.0;
+                g = grad_loss(sh, x, k == 0, &l);
+                w->loss += l * w->mult[k];
+            } else {
+                g = grad_only(sh, x, k == 0);
+            }
+            g *= lr * (float)w->mult[k];
+            w->g[j * no + k] = g;
+            w->gt[k * m + j] = g;
+        }
+        memset(w->dxr[j], 0, sh->stride * sizeof(float));
+    }
+    return sample;
+}
+
+/* Shared noise words for the window; updates as small matrix products (Ji et al. 2016). */
+static void
+window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
+{
+    shared *sh = w->sh;
+    size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, len = sh->stride;
+    size_t m = 0, drawn;
+    const ist_sgns_simd *v = sh->simd;
+
+    size_t no = window_outputs(w, w->sent[i], &drawn);
+    if (i + 1 < n)
+        prefetch_row(sh->out + (size_t)w->sent[i + 1] * len, len);
+    if (i + sh->window + 1 < n)
+        prefetch_row(sh->in + (size_t)w->sent[i + sh->window + 1] * len, len);
+    for (size_t j = lo; j < hi; j++) {
+        if (j == i)
+            continue;
+        float *x = sh->in + (size_t)w->sent[j] * len;
+        w->xr[m] = x;
+        w->xw[m] = x;
+        m++;
+    }
+    if (m == 0)
+        return;
+    v->dots(w->xr, m, w->yr, no, len, w->s);
+    bool sample = window_gradients(w, m, no, lr);
+    v->acc(w->dxr, m, w->yr, no, w->g, len);       /* dX = G Y          */
+    v->acc(w->yw, no, w->xr, m, w->gt, len);       /* Y += G^T X        */
+    for (size_t j = 0; j < m; j++)                 /* X += dX, row by row: contexts may repeat */
+        v->add(w->xw[j], w->dxr[j], len);
+    w->pairs += m * drawn;
+    if (sample)
+        w->loss_n += m * drawn;
+}
+
+/* ---- threads ---------------------------------------------------------------------------- */
+
+/* Add this worker's counts to the shared ones; returns the learning rate to use next. */
+static float
+publish(worker *w, bool last_epoch)
+{
+    shared *sh = w->sh;
+    double lr;
+
+    pthread_mutex_lock(&sh->lock);
+    sh->words_done += w->words;
+    sh->trained += w->trained;
+    sh->pairs += w->pairs;
+    sh->loss_sum += w->loss;
+    sh->loss_n += w->loss_n;
+    if (last_epoch) {
+        sh->last_epoch_loss += w->loss;
+        sh->last_epoch_n += w->loss_n;
+    }
+    lr = current_lr(sh, sh->words_done);
+    pthread_mutex_unlock(&sh->lock);
+    w->words = w->trained = w->pairs = w->loss_n = 0;
+    w->loss = 0.0;
+    return (float)lr;
+}
+
+static void *
+worker_main(void *arg)
+{
+    worker *w = arg;
+    shared *sh = w->sh;
+    float lr = (float)sh->lr0;
+    uint64_t since = 0;
+    uint32_t win = (uint32_t)sh->window;
+
+    for (size_t e = 0; e < sh->epochs && !atomic_load_explicit(&sh->stop, memory_order_relaxed);
+         e++) {
+        bool last = e + 1 == sh->epochs;
+        size_t pos = w->begin;
+        while (pos < w->end) {
+            size_t n = 0;
+            while (pos < w->end) {
+                uint32_t id = sh->ids[pos++];
+                if (id == IST_CORPUS_EOL)
+                    break;
+                w->words++;
+                since++;
+                if (ist_sgns_keep(sh->keep, id, &w->rng)) {
+                    w->sent[n++] = id;
+                    if (n == SENT_MAX)
+                        break;
+                }
+            }
+            for (size_t i = 0; i < n; i++) {
+                size_t r = win - ist_sgns_below(ist_sgns_rand(&w->rng), win);
+                if (sh->kernel == IST_SGNS_FAST)
+                    window_fast(w, n, i, r, lr);
+                else
+                    window_reference(w, n, i, r, lr);
+            }
+            w->trained += n;
+            if (since >= PUBLISH_EVERY) {
+                since = 0;
+                lr = publish(w, last);
+                if (atomic_load_explicit(&sh->stop, memory_order_relaxed))
+                    break;
+            }
+        }
+        lr = publish(w, last);
+    }
+    pthread_mutex_lock(&sh->lock);
+    sh->finished++;
+    pthread_cond_signal(&sh->wake);
+    pthread_mutex_unlock(&sh->lock);
+    return NULL;
+}
+
+static double
+now_sec(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + (double)ts.tv_nsec * 1e-9;
+}
+
+/* The calling thread waits, reports progress every 0.25 s and passes on a stop request. */
+static void
+monitor(shared *sh, const ist_sgns_opts *o, double t0)
+{
+    uint64_t last_done = 0, last_n = 0;
+    double last_loss = 0.0, last_t = t0;
+
+    pthread_mutex_lock(&sh->lock);
+    while (sh->finished < sh->nthreads) {
+        struct timespec ts;
+        clock_gettime(CLOCK_REALTIME, &ts);
+        ts.tv_nsec += 250000000L;
+        if (ts.tv_nsec >= 1000000000L) {
+            ts.tv_sec++;
+            ts.tv_nsec -= 1000000000L;
+        }
+        pthread_cond_timedwait(&sh->wake, &sh->lock, &ts);
+        if (sh->finished >= sh->nthreads)
+            break;
+        if (ist_cancel_requested() && sh->fail == IST_OK) {
+            sh->fail = IST_ERR_CANCELLED;
+            atomic_store(&sh->stop, 1);
+        }
+        if (!o->progress || sh->fail != IST_OK)
+            continue;
+        double t = now_sec();
+        ist_sgns_progress p;
+        p.words_done = sh->words_done;
+        p.fraction = (double)sh->words_done / (double)sh->words_total;
+        p.words_per_sec = t > t0 ? (double)sh->words_done / (t - t0) : 0.0;
+        double recent = t > last_t ? (double)(sh->words_done - last_done) / (t - last_t) : 0.0;
+        double rate = recent > 0.0 ? recent : p.words_per_sec;
+        p.eta_sec = rate > 0.0 ? (double)(sh->words_total - sh->words_done) / rate : 0.0;
+        p.lr = current_lr(sh, sh->words_done);
+        p.loss = sh->loss_n > last_n ? (sh->loss_sum - last_loss) / (double)(sh->loss_n - last_n)
+                                     : 0.0;
+        if (sh->words_done != last_done) {
+            last_done = sh->words_done;
+            last_t = t;
+        }
+        last_loss = sh->loss_sum;
+        last_n = sh->loss_n;
+        pthread_mutex_unlock(&sh->lock);
+        int stop = o->progress(o->progress_ctx, &p);
+        pthread_mutex_lock(&sh->lock);
+        if (stop && sh->fail == IST_OK) {
+            sh->fail = IST_ERR_CANCELLED;
+            atomic_store(&sh->stop, 1);
+        }
+    }
+    pthread_mutex_unlock(&sh->lock);
+}
+
+/* ---- setup ------------------------------------------------------------------------------ */
+
+static ist_status
+check_opts(const ist_sgns_opts *o, size_t n_ids, size_t vocab_size, ist_error *err)
+{
+    if (o->dim == 0 || o->dim > MAX_DIM)
+        return ist_error_set(err, IST_ERR_INVALID, "dimension: expected 1 to %d, found %zu",
+                             MAX_DIM, o->dim);
+    if (o->window == 0 || o->window > MAX_WINDOW)
+        return ist_error_set(err, IST_ERR_INVALID, "context window: expected 1 to %d, found %zu",
+                             MAX_WINDOW, o->window);
+    if (o->negatives == 0 || o->negatives > MAX_NEGATIVES)
+        return ist_error_set(err, IST_ERR_INVALID, "noise samples: expected 1 to %d, found %zu",
+                             MAX_NEGATIVES, o->negatives);
+    if (o->epochs == 0 || o->epochs > 100000)
+        return ist_error_set(err, IST_ERR_INVALID, "passes: expected 1 to 100000, found %zu",
+                             o->epochs);
+    if (o->threads == 0 || o->threads > MAX_THREADS)
+        return ist_error_set(err, IST_ERR_INVALID, "threads: expected 1 to %d, found %zu",
+                             MAX_THREADS, o->threads);
+    if (!(o->lr0 > 0.0 && o->lr0 <= 10.0))
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "learning rate: expected a number in (0, 10], found %g", o->lr0);
+    if (!(o->subsample >= 0.0 && o->subsample <= 1.0))
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "subsampling threshold: expected 0 to 1, found %g", o->subsample);
+    if (o->kernel != IST_SGNS_FAST && o->kernel != IST_SGNS_REFERENCE)
+        return ist_error_set(err, IST_ERR_INVALID, "unknown kernel %d", (int)o->kernel);
+    if (vocab_size == 0 || vocab_size >= UINT32_MAX)
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "vocabulary size: expected 1 to %u words, found %zu",
+                             UINT32_MAX - 1, vocab_size);
+    if (n_ids == 0)
+        return ist_error_set(err, IST_ERR_INVALID, "the token stream is empty");
+    return IST_OK;
+}
+
+/* Count the words of the stream and check every id. */
+static ist_status
+scan_stream(const uint32_t *ids, size_t n, size_t vocab_size, uint64_t *words, ist_error *err)
+{
+    uint64_t c = 0;
+    for (size_t i = 0; i < n; i++) {
+        if (ids[i] == IST_CORPUS_EOL)
+            continue;
+        if (ids[i] >= vocab_size)
+            return ist_error_set(err, IST_ERR_INVALID,
+                                 "token %zu of the stream has id %u, expected below the "
+                                 "vocabulary size %zu", i, ids[i], vocab_size);
+        c++;
+    }
+    if (c == 0)
+        return ist_error_set(err, IST_ERR_INVALID, "the token stream is empty (only line ends)");
+    *words = c;
+    return IST_OK;
+}
+
+static void
+worker_free(worker *w)
+{
+    ist_free(w->xr), ist_free(w->yr), ist_free(w->xw), ist_free(w->yw), ist_free(w->dxr);
+    ist_free(w->outs), ist_free(w->mult), ist_free(w->pre);
+    ist_free(w->s), ist_free(w->g), ist_free(w->gt);
+    ist_aligned_free(w->dx);
+}
+
+static ist_status
+worker_alloc(worker *w, const shared *sh, ist_error *err)
+{
+    size_t m = 2 * sh->window, no = 1 + sh->negatives, rows = m > 1 ? m : 1;
+    w->xr = ist_malloc(m * sizeof *w->xr);
+    w->xw = ist_malloc(m * sizeof *w->xw);
+    w->dxr = ist_malloc(m * sizeof *w->dxr);
+    w->yr = ist_malloc(no * sizeof *w->yr);
+    w->yw = ist_malloc(no * sizeof *w->yw);
+    w->outs = ist_malloc(no * sizeof *w->outs);
+    w->mult = ist_malloc(no * sizeof *w->mult);
+    w->pre = ist_malloc(no * sizeof *w->pre);
+    w->s = ist_malloc(m * no * sizeof *w->s);
+    w->g = ist_malloc(m * no * sizeof *w->g);
+    w->gt = ist_malloc(m * no * sizeof *w->gt);
+    w->dx = ist_aligned_alloc(rows * sh->stride * sizeof *w->dx);
+    if (!w->xr || !w->xw || !w->dxr || !w->yr || !w->yw || !w->outs || !w->mult || !w->pre ||
+        !w->s || !w->g || !w->gt || !w->dx)
+        return ist_error_nomem(err);
+    for (size_t j = 0; j < m; j++)
+        w->dxr[j] = w->dx + j * sh->stride;
+    return IST_OK;
+}
+
+/* Thread t's part of the stream starts after the first line end at or past t * n / T. */
+static size_t
+part_start(const uint32_t *ids, size_t n, size_t t, size_t T)
+{
+    if (t == 0)
+        return 0;
+    if (t >= T)
+        return n;
+    size_t p = (size_t)((double)n * (double)t / (double)T), q = p;
+    while (q < n && ids[q] != IST_CORPUS_EOL && q - p < 100000)
+        q++;
+    return q < n && ids[q] == IST_CORPUS_EOL ? q + 1 : p;
+}
+
+static ist_status
+run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_error *err)
+{
+    double t0 = now_sec();
+    ist_status rc = IST_OK;
+
+    for (size_t t = 0; t < sh->nthreads; t++) {
+        ws[t].begin = part_start(sh->ids, n_ids, t, sh->nthreads);
+        ws[t].end = part_start(sh->ids, n_ids, t + 1, sh->nthreads);
+    }
+    for (size_t t = 0; t < sh->nthreads; t++) {
+        if (pthread_create(&ws[t].thread, NULL, worker_main, &ws[t]) != 0) {
+            rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start training thread %zu",
+                               t + 1);
+            pthread_mutex_lock(&sh->lock);
+            sh->finished += sh->nthreads - t;     /* the ones never started */
+            atomic_store(&sh->stop, 1);
+            pthread_mutex_unlock(&sh->lock);
+            break;
+        }
+        ws[t].started = true;
+    }
+    monitor(sh, o, t0);
+    for (size_t t = 0; t < sh->nthreads; t++)
+        if (ws[t].started)
+            pthread_join(ws[t].thread, NULL);
+    if (rc == IST_OK && (sh->fail == IST_ERR_CANCELLED || ist_cancel_requested()))
+        rc = ist_error_set(err, IST_ERR_CANCELLED, "training cancelled");
+    return rc;
+}
+
+static void
+init_vectors(float *in, size_t rows, size_t dim, size_t stride, uint64_t seed)
+{
+    uint64_t rng = seed ^ 0x5851f42d4c957f2du;
+    float scale = 1.0f / (float)dim;
+    for (size_t r = 0; r < rows; r++)
+        for (size_t c = 0; c < dim; c++)
+            in[r * stride + c] =
+                ((float)(ist_sgns_rand(&rng) >> 40) / 16777216.0f - 0.5f) * scale;
+}
+
+static bool
+all_finite(const float *a, size_t n)
+{
+    for (size_t i = 0; i < n; i++)
+        if (!isfinite(a[i]))
+            return false;
+    return true;
+}
+
+/* Fill the shared state of a run (the matrices and samplers are made by the caller). */
+static void
+shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix *in,
+             ist_matrix *out, const uint32_t *keep, uint64_t words)
+{
+    sh->ids = ids;
+    sh->dim = o->dim;
+    sh->stride = in->stride;
+    sh->window = o->window;
+    sh->negatives = o->negatives;
+    sh->epochs = o->epochs;
+    sh->nthreads = o->threads;
+    sh->in = in->data;
+    sh->out = out->data;
+    sh->keep = keep;
+    sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
+    sh->kernel = o->kernel;
+    sh->lr0 = o->lr0;
+    sh->words_per_epoch = words;
+    sh->words_total = words * o->epochs;
+    sig_tables(sh);
+    atomic_init(&sh->stop, 0);
+    pthread_mutex_init(&sh->lock, NULL);
+    pthread_cond_init(&sh->wake, NULL);
+}
+
+ist_status
+ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t vocab_size,
+               const ist_sgns_opts *o, ist_matrix **in_vectors, ist_matrix **ctx_vectors,
+               ist_sgns_result *res, ist_error *err)
+{
+    ist_matrix *in = NULL, *out = NULL;
+    uint32_t *keep = NULL;
+    worker *ws = NULL;
+    shared *sh = NULL;
+    uint64_t words = 0;
+    ist_status rc;
+    double t0 = now_sec();
+
+    *in_vectors = NULL;
+    if (ctx_vectors)
+        *ctx_vectors = NULL;
+    if ((rc = check_opts(o, n_ids, vocab_size, err)) != IST_OK)
+        return rc;
+    if (o->keep_context && !ctx_vectors)
+        return ist_error_set(err, IST_ERR_INVALID, "keep_context is set but ctx_vectors is NULL");
+    if ((rc = scan_stream(ids, n_ids, vocab_size, &words, err)) != IST_OK)
+        return rc;
+    sh = ist_calloc(1, sizeof *sh);
+    ws = ist_calloc(o->threads, sizeof *ws);
+    if (!sh || !ws) {
+        rc = ist_error_nomem(err);
+        goto fail;
+    }
+    if ((rc = ist_sgns_noise_build(counts, vocab_size, 0.75, &sh->noise, err)) != IST_OK ||
+        (rc = ist_sgns_keep_table(counts, vocab_size, o->subsample, &keep, err)) != IST_OK ||
+        (rc = ist_matrix_new(vocab_size, o->dim, &in, err)) != IST_OK ||
+        (rc = ist_matrix_new(vocab_size, o->dim, &out, err)) != IST_OK)
+        goto fail;
+    shared_setup(sh, ids, o, in, out, keep, words);
+    init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
+    for (size_t t = 0; t < o->threads; t++) {
+        ws[t].sh = sh;
+        ws[t].rng = o->seed * 0x9e3779b97f4a7c15u + (uint64_t)t * 0xd1b54a32d192ed03u + 1;
+        if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK)
+            goto fail_sync;
+    }
+    if ((rc = run_threads(sh, ws, o, n_ids, err)) != IST_OK)
+        goto fail_sync;
+    if (!all_finite(in->data, vocab_size * in->stride)) {
+        rc = ist_error_set(err, IST_ERR_NUMERIC, "training diverged (the vectors hold NaN or "
+                                                 "infinity): lower the learning rate");
+        goto fail_sync;
+    }
+    if (res) {
+        res->words_seen = sh->words_done;
+        res->words_trained = sh->trained;
+        res->pairs = sh->pairs;
+        res->seconds = now_sec() - t0;
+        res->words_per_sec = res->seconds > 0 ? (double)sh->words_done / res->seconds : 0.0;
+        res->final_loss = sh->last_epoch_n ? sh->last_epoch_loss / (double)sh->last_epoch_n : 0.0;
+    }
+    *in_vectors = in;
+    if (o->keep_context)
+        *ctx_vectors = out;
+    else
+        ist_matrix_free(out);
+    in = out = NULL;
+fail_sync:
+    pthread_mutex_destroy(&sh->lock);
+    pthread_cond_destroy(&sh->wake);
+fail:
+    if (ws)
+        for (size_t t = 0; t < o->threads; t++)
+            worker_free(&ws[t]);
+    ist_free(ws);
+    if (sh)
+        ist_sgns_noise_free(&sh->noise);
+    ist_free(sh);
+    ist_free(keep);
+    ist_matrix_free(in);
+    ist_matrix_free(out);
+    return rc;
+}

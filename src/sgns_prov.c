@@ -1,0 +1,67 @@
+/* sgns_prov.c - the provenance record of trained vectors (what, from what, how). */
+#include <isthmus/isthmus.h>
+
+#include <stdio.h>
+
+#include "alloc_int.h"
+#include "json_int.h"
+
+ist_status
+ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
+                         const char *text_json, const char *sources_json, uint64_t tokens,
+                         size_t types, char **json, ist_error *err)
+{
+    ist_jw w;
+    char producer[64];
+
+    *json = NULL;
+    snprintf(producer, sizeof producer, "isthmus %s", ist_version());
+    ist_jw_init(&w, false);
+    ist_jw_obj_begin(&w, NULL);
+    ist_jw_str(&w, "producer", producer);
+    ist_jw_str(&w, "command", "train");
+    if (text_json)
+        ist_jw_raw(&w, "text", text_json);
+    else
+        ist_jw_null(&w, "text");
+    ist_jw_obj_begin(&w, "corpus");
+    if (sources_json)
+        ist_jw_raw(&w, "sources", sources_json);
+    else
+        ist_jw_null(&w, "sources");
+    ist_jw_uint(&w, "tokens", tokens);
+    ist_jw_uint(&w, "types", types);
+    ist_jw_obj_end(&w);
+    ist_jw_obj_begin(&w, "training");
+    ist_jw_str(&w, "method", "skip-gram negative sampling");
+    ist_jw_uint(&w, "dimension", o->dim);
+    ist_jw_uint(&w, "context", o->window);
+    ist_jw_uint(&w, "noise_samples", o->negatives);
+    ist_jw_num(&w, "noise_power", 0.75);
+    ist_jw_uint(&w, "passes", o->epochs);
+    ist_jw_num(&w, "rate", o->lr0);
+    ist_jw_num(&w, "subsample", o->subsample);
+    ist_jw_uint(&w, "threads", o->threads);
+    ist_jw_uint(&w, "seed", o->seed);
+    ist_jw_str(&w, "kernel", o->kernel == IST_SGNS_REFERENCE ? "reference" : "fast");
+    ist_jw_str(&w, "simd", ist_sgns_simd_name());
+    ist_jw_bool(&w, "keep_context", o->keep_context);
+    ist_jw_obj_end(&w);
+    if (res) {
+        ist_jw_obj_begin(&w, "result");
+        ist_jw_uint(&w, "words_seen", res->words_seen);
+        ist_jw_uint(&w, "words_trained", res->words_trained);
+        ist_jw_uint(&w, "pairs", res->pairs);
+        ist_jw_num(&w, "seconds", res->seconds);
+        ist_jw_num(&w, "final_loss", res->final_loss);
+        ist_jw_obj_end(&w);
+    }
+    ist_jw_obj_end(&w);
+    return ist_jw_finish(&w, json, err);
+}
+
+void
+ist_sgns_free(void *p)
+{
+    ist_free(p);
+}
