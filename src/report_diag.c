@@ -64,7 +64,8 @@ similarity(rbuf *b, const ist_jv *sim, int *id)
                 .desc = "Share of each kind of pair per cosine interval; gold pairs solid, random "
                         "pairs hatched.",
                 .ylabel = "share of pairs",
-                .xlabel = "cosine after mapping (each bar: from this value up to the next)", .cats = cats,
+                .xlabel = "cosine after mapping (each bar: from this value up to the next)",
+                .cats = cats,
                 .ncat = hi - lo + 1, .s = s, .ns = 2, .percent = true,
                 .labels = hi - lo + 1 <= 8};
     rs_bars(b, &c);

@@ -39,7 +39,8 @@ static const char *const nasty =
     "     \"precision\": {\"p@1\": 0.5, \"p@5\": 0.75, \"p@10\": 1},\n"
     "     \"ci\": {\"p@1\": [0.25, 0.75]}}]}],\n"
     " \"diagnostics\": {\"worst_misses\": [{\"source\": \"<script>x</script>\",\n"
-    "   \"gold\": [\"\\\"q\\\" & 'a'\"], \"ranked\": \"b<c\", \"score\": 0.5, \"gold_rank\": 0}]}}\n";
+    "   \"gold\": [\"\\\"q\\\" & 'a'\"], \"ranked\": \"b<c\", \"score\": 0.5,\n"
+    "   \"gold_rank\": 0}]}}\n";
 
 static void
 escapes_input_text(void **state)
