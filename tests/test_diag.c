@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include <isthmus/isthmus.h>
+#include <isthmus/testing.h>
 
 #include "json_int.h"
 
@@ -247,6 +248,49 @@ worst_misses_and_histograms(void **state)
     ist_store_free(t);
 }
 
+/* Every allocation of the diagnostics can fail: the call then reports
+ * IST_ERR_NOMEM and leaks nothing (LeakSanitizer in the sanitizer build). */
+static void
+diagnostics_survive_every_failed_allocation(void **state)
+{
+    (void)state;
+    const size_t n = 60, d = 8;
+    ist_store *s = random_store(n, d, 4, "s"), *t = random_store(n, d, 5, "t");
+    ist_pairs *p = NULL;
+    ist_diag_opts o;
+    int k;
+
+    assert_int_equal(ist_pairs_new(&p, NULL), IST_OK);
+    for (size_t i = 0; i < 20; i++) {
+        char a[16], b[16];
+        snprintf(a, sizeof a, "s%zu", i);
+        snprintf(b, sizeof b, "t%zu", (i * 7) % n);
+        assert_int_equal(ist_pairs_add(p, a, b, NULL), IST_OK);
+    }
+    assert_int_equal(ist_pairs_resolve(p, s, t, NULL, NULL), IST_OK);
+    ist_diag_opts_init(&o);
+    o.isometry_words = 30;
+    o.retrieve.threads = 1;
+    for (k = 0; k < 100000; k++) {
+        ist_diag *dg = NULL;
+        ist_testing_fail_alloc_after(k);
+        ist_status rc = ist_diag_run(ist_store_view(s), ist_store_view(t), t, p, &o, &dg, NULL);
+        ist_testing_fail_alloc_after(-1);
+        ist_diag_free(dg);
+        if (rc == IST_OK)
+            break;
+        if (rc != IST_ERR_NOMEM)
+            fail_msg("allocation %d failing gave status %d, expected out of memory", k, (int)rc);
+        assert_null(dg);
+    }
+    /* with injection on (the sanitizer build) many points were failed first; off, the first
+     * call succeeds */
+    assert_true((!ist_testing_fault_injection_enabled() || k > 0) && k < 100000);
+    ist_pairs_free(p);
+    ist_store_free(s);
+    ist_store_free(t);
+}
+
 int
 main(void)
 {
@@ -255,6 +299,7 @@ main(void)
         cmocka_unit_test(planted_hub_has_highest_k_occurrence),
         cmocka_unit_test(isometry_rotated_vs_unrelated),
         cmocka_unit_test(worst_misses_and_histograms),
+        cmocka_unit_test(diagnostics_survive_every_failed_allocation),
     };
     HARNESS_RUN("diag", tests);
 }
