@@ -175,6 +175,23 @@ done:
 
 /* ---- hubness ------------------------------------------------------------ */
 
+ist_status
+ist_diag_csls_topk(const ist_diag *d, ist_cmatview q, ist_cmatview zt, size_t k,
+                   const ist_diag_opts *o, ist_topk **out, ist_error *err)
+{
+    float *rt = ist_malloc(q.rows * sizeof *rt + 1);
+    ist_status rc;
+
+    *out = NULL;
+    if (!rt)
+        return ist_error_nomem(err);
+    rc = ist_retrieve_neighbourhood(q, zt, o->neighbourhood, &o->retrieve, rt, err);
+    if (rc == IST_OK)
+        rc = ist_retrieve_topk(q, zt, k, 2.0f, rt, d->rs, &o->retrieve, out, err);
+    ist_free(rt);
+    return rc;
+}
+
 static int
 cmp_hub(const void *x, const void *y)
 {
@@ -192,9 +209,11 @@ hubness(ist_diag *d, int m, ist_cmatview xs, ist_cmatview zt, const ist_store *t
     double *v = NULL;
     ist_status rc;
 
-    rc = ist_retrieve_rank(first_rows(xs, d->nq), xs, zt,
-                           m ? IST_RETRIEVAL_CSLS : IST_RETRIEVAL_COSINE, d->k, o->neighbourhood,
-                           &o->retrieve, &tk, err);
+    if (m)
+        rc = ist_diag_csls_topk(d, first_rows(xs, d->nq), zt, d->k, o, &tk, err);
+    else
+        rc = ist_retrieve_topk(first_rows(xs, d->nq), zt, d->k, 1.0f, NULL, NULL, &o->retrieve,
+                               &tk, err);
     if (rc != IST_OK)
         return rc;
     d->occ[m] = ist_calloc(d->nt + 1, sizeof *d->occ[m]);
@@ -266,6 +285,18 @@ ist_diag_run(ist_cmatview xs, ist_cmatview zt, const ist_store *tgt, const ist_p
     d->nt = zt.rows;
     d->neighbourhood = opts->neighbourhood;
     d->iso = -1;
+    if (d->neighbourhood == 0) {
+        rc = ist_error_set(err, IST_ERR_INVALID, "diagnostics: expected a CSLS neighbourhood >= 1");
+        goto fail;
+    }
+    d->rs = ist_malloc(zt.rows * sizeof *d->rs);
+    if (!d->rs) {
+        rc = ist_error_nomem(err);
+        goto fail;
+    }
+    if ((rc = ist_retrieve_neighbourhood(zt, xs, d->neighbourhood, &opts->retrieve, d->rs,
+                                         err)) != IST_OK)
+        goto fail;
     for (int m = 0; m < 2; m++)
         if ((rc = hubness(d, m, xs, zt, tgt, opts, err)) != IST_OK)
             goto fail;
@@ -284,6 +315,8 @@ ist_diag_run(ist_cmatview xs, ist_cmatview zt, const ist_store *tgt, const ist_p
     }
     if (test && (rc = ist_diag_fill_test(d, xs, zt, tgt, test, opts, err)) != IST_OK)
         goto fail;
+    ist_free(d->rs);
+    d->rs = NULL;
     *out = d;
     return IST_OK;
 fail:
@@ -310,6 +343,7 @@ ist_diag_free(ist_diag *d)
         ist_free(d->miss[i].gold);
     }
     ist_free(d->miss);
+    ist_free(d->rs);
     ist_free(d);
 }
 

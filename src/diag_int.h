@@ -40,7 +40,13 @@ struct ist_diag {
     size_t gold_hist[IST_DIAG_SIM_BINS], random_hist[IST_DIAG_SIM_BINS];
     size_t ngold, nrandom;
     double gold_mean, random_mean;
+    float *rs;                        /* CSLS r_S of every target row, while computing */
 };
+
+/* Top-k of the queries q among zt by CSLS, with the target term r_S (d->rs)
+ * computed once for all callers. */
+ist_status ist_diag_csls_topk(const ist_diag *d, ist_cmatview q, ist_cmatview zt, size_t k,
+                              const ist_diag_opts *o, ist_topk **out, ist_error *err);
 
 /* Worst misses and the gold/random similarity histograms (diag_test.c). */
 ist_status ist_diag_fill_test(ist_diag *d, ist_cmatview xs, ist_cmatview zt, const ist_store *tgt,

@@ -132,8 +132,7 @@ misses(ist_diag *d, ist_cmatview xs, ist_cmatview zt, const ist_store *tgt,
     for (size_t i = 0; i < nq; i++)
         memcpy(qv.data + i * qv.stride, xs.data + p[first[i]].s * xs.stride,
                xs.cols * sizeof(float));
-    rc = ist_retrieve_rank(ist_matview_const(qv), xs, zt, IST_RETRIEVAL_CSLS, MISS_TOP,
-                           o->neighbourhood, &o->retrieve, &tk, err);
+    rc = ist_diag_csls_topk(d, ist_matview_const(qv), zt, MISS_TOP, o, &tk, err);
     if (rc != IST_OK)
         goto done;
     d->miss = ist_calloc(nq + 1, sizeof *d->miss);
