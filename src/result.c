@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "alloc_int.h"
+#include "diag_int.h"
 #include "error_int.h"
 #include "json_int.h"
 #include "ofile_int.h"
@@ -131,6 +132,8 @@ ist_result_render(const ist_result_info *in, const ist_result_run *runs, size_t 
     for (size_t i = 0; i < nruns; i++)
         write_run(&w, &runs[i], in->source, ci);
     ist_jw_arr_end(&w);
+    if (in->diagnostics)
+        ist_result_write_diag(&w, in->diagnostics);
     ist_jw_obj_end(&w);
     return ist_jw_finish(&w, text, err);
 }

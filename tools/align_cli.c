@@ -12,6 +12,8 @@ ac_common_init(ac_common *c, ac_methods dflt)
     memset(c, 0, sizeof *c);
     c->methods = dflt;
     ist_eval_opts_init(&c->eval);
+    c->diagnostics = true;
+    ist_diag_opts_init(&c->diag);
 }
 
 static bool
@@ -72,6 +74,14 @@ ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
     case AC_OPT_JSON_OUT:
         c->json_out = arg;
         return true;
+    case AC_OPT_NO_DIAG:
+        c->diagnostics = false;
+        return true;
+    case AC_OPT_DIAG_WORDS:
+        return cli_parse_size(cmd, "--diagnostics-words", arg, 1, (size_t)1 << 24,
+                              &c->diag.queries);
+    case AC_OPT_ISO_WORDS:
+        return cli_parse_size(cmd, "--isometry-words", arg, 0, 4000, &c->diag.isometry_words);
     default:
         return false;
     }
@@ -86,7 +96,13 @@ ac_common_help(FILE *out, bool scoring)
               "                          [default: 5000,20000]\n"
               "      --allow-overlap     score even when test source words are also seed\n"
               "                          source words (the result says so) [default: refuse]\n"
-              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n",
+              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n"
+              "      --no-diagnostics    leave the diagnostics (hubness, isometry, worst misses,\n"
+              "                          similarity histograms) out of the JSON result\n"
+              "      --diagnostics-words=N  hubness queries: the N most frequent source words\n"
+              "                          [default: 5000]\n"
+              "      --isometry-words=N  isometry: the N most frequent words of each side,\n"
+              "                          0 to skip, at most 4000 [default: 1000]\n",
               out);
     fputs("      --neighbourhood=K   CSLS neighbourhood size [default: 10]\n"
           "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
@@ -304,4 +320,37 @@ ac_options_json(const ac_common *c, const char *extra, char *buf, size_t cap)
         at += (size_t)snprintf(buf + at, cap - at, "%s%zu", i ? "," : "", c->eval.band_edges[i]);
     if (at < cap)
         snprintf(buf + at, cap - at, "]%s%s}", extra ? "," : "", extra ? extra : "");
+}
+
+int
+ac_diagnose(const char *cmd, const ac_common *c, const ist_map *map, const ist_store *s,
+            const ist_store *t, const ist_pairs *test, ist_diag **out)
+{
+    ist_matrix *xs = NULL, *zt = NULL;
+    ist_diag_opts o = c->diag;
+    ist_error err;
+    int rc = 0;
+
+    *out = NULL;
+    if (!c->diagnostics || !c->json_out)
+        return 0;
+    o.neighbourhood = c->eval.neighbourhood;
+    o.retrieve = c->eval.retrieve;
+    double t0 = cli_now();
+    if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK ||
+        ist_diag_run(ist_matrix_cview(xs), ist_matrix_cview(zt), t, test, &o, out, &err) !=
+            IST_OK)
+        rc = cli_report(cmd, &err);
+    ist_matrix_free(xs);
+    ist_matrix_free(zt);
+    if (rc == 0) {
+        printf("\n%-10s hubness skewness (k=10, %zu queries): cosine %.2f, csls %.2f", "diagnose",
+               ist_diag_queries(*out), ist_diag_skewness(*out, IST_RETRIEVAL_COSINE),
+               ist_diag_skewness(*out, IST_RETRIEVAL_CSLS));
+        if (ist_diag_isometry(*out) >= 0)
+            printf("; isometry %.4g", ist_diag_isometry(*out));
+        printf("\n");
+        cli_info("diagnostics in %.1f s\n", cli_now() - t0);
+    }
+    return rc;
 }

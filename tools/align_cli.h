@@ -14,6 +14,9 @@ enum {
     AC_OPT_BANDS,
     AC_OPT_ALLOW_OVERLAP,
     AC_OPT_JSON_OUT,
+    AC_OPT_NO_DIAG,
+    AC_OPT_DIAG_WORDS,
+    AC_OPT_ISO_WORDS,
 };
 
 /* Which retrieval methods to score with. */
@@ -24,6 +27,8 @@ typedef struct ac_common {
     ist_eval_opts eval;           /* neighbourhood, bands, retrieval budget and threads */
     bool allow_overlap;
     const char *json_out;
+    bool diagnostics;             /* compute them for the JSON result [true] */
+    ist_diag_opts diag;
 } ac_common;
 
 void ac_common_init(ac_common *c, ac_methods dflt);
@@ -51,6 +56,12 @@ int ac_score(const char *cmd, const char *label, const ac_common *c, const ist_m
              const ist_store *s, const ist_store *t, const ist_pairs *test,
              ist_result_run *runs, size_t *nruns);
 void ac_print_runs(const ist_result_run *runs, size_t n);
+
+/* Diagnostics of a map on a test list (test may be NULL) for the JSON result,
+ * when c->diagnostics and c->json_out; *out stays NULL otherwise. Prints a
+ * summary line. Returns 0 or the exit status after printing the error. */
+int ac_diagnose(const char *cmd, const ac_common *c, const ist_map *map, const ist_store *s,
+                const ist_store *t, const ist_pairs *test, ist_diag **out);
 
 /* The shared options as a JSON object text into buf; extra (may be NULL) holds
  * more members, already JSON ("\"key\":value,..."). */

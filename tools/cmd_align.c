@@ -118,6 +118,9 @@ parse(int argc, char **argv, args *a)
         {"bands", required_argument, NULL, AC_OPT_BANDS},
         {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
         {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
+        {"no-diagnostics", no_argument, NULL, AC_OPT_NO_DIAG},
+        {"diagnostics-words", required_argument, NULL, AC_OPT_DIAG_WORDS},
+        {"isometry-words", required_argument, NULL, AC_OPT_ISO_WORDS},
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -273,6 +276,9 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     }
     if (!a->c.json_out)
         return 0;
+    ist_diag *diag = NULL;
+    if (test && (rc = ac_diagnose(CMD, &a->c, map, s, t, test, &diag)) != 0)
+        return rc;
     ist_result_info info;
     char opts[2048], extra[1024], *mj = NULL;
     memset(&info, 0, sizeof info);
@@ -284,8 +290,10 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
              a->ident_marked ? "true" : "false", a->hold_out, a->split_seed,
              a->keep_seeds ? "true" : "false");
     ac_options_json(&a->c, extra, opts, sizeof opts);
-    if (ist_map_describe(map, &mj, &err) != IST_OK)
+    if (ist_map_describe(map, &mj, &err) != IST_OK) {
+        ist_diag_free(diag);
         return cli_report(CMD, &err);
+    }
     info.command = CMD;
     info.source_path = a->src;
     info.target_path = a->tgt;
@@ -299,6 +307,7 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
         if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
             ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
             ist_map_free_text(mj);
+            ist_diag_free(diag);
             return cli_report(CMD, &err);
         }
         info.test_sources = nruns ? runs[0].m.queries : 0;
@@ -309,10 +318,12 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     info.options_json = opts;
     info.map_json = mj;
     info.source = s;
+    info.diagnostics = diag;
     rc = ist_result_write(a->c.json_out, &info, runs, nruns, &err) == IST_OK
              ? 0
              : cli_report(CMD, &err);
     ist_map_free_text(mj);
+    ist_diag_free(diag);
     return rc;
 }
 

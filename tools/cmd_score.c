@@ -41,7 +41,7 @@ static int
 write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath,
            const char *tpath, const ist_map *map,
            const ist_pairs *test, const ist_pairs_coverage *cov, size_t shared,
-           const ist_result_run *runs, size_t nruns, const char *stage)
+           const ist_result_run *runs, size_t nruns, const char *stage, const ist_diag *diag)
 {
     ist_result_info info;
     char opts[2048], extra[128], *mj = NULL;
@@ -73,6 +73,7 @@ write_json(const ac_common *c, const ist_store *src, char **argv, const char *mp
     info.options_json = opts;
     info.map_json = mj;
     info.source = src;
+    info.diagnostics = diag;
     rc = ist_result_write(c->json_out, &info, runs, nruns, &err) == IST_OK
              ? 0
              : cli_report(CMD, &err);
@@ -94,6 +95,9 @@ run(int argc, char **argv)
         {"bands", required_argument, NULL, AC_OPT_BANDS},
         {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
         {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
+        {"no-diagnostics", no_argument, NULL, AC_OPT_NO_DIAG},
+        {"diagnostics-words", required_argument, NULL, AC_OPT_DIAG_WORDS},
+        {"isometry-words", required_argument, NULL, AC_OPT_ISO_WORDS},
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -101,6 +105,7 @@ run(int argc, char **argv)
     const char *mpath = NULL, *tpath = NULL;
     ist_store *s = NULL, *t = NULL;
     ist_map *map = NULL, *seed_only = NULL;
+    ist_diag *diag = NULL;
     ist_pairs *test = NULL;
     ist_pairs_coverage cov;
     ist_result_run runs[4];
@@ -158,10 +163,13 @@ run(int argc, char **argv)
                        runs, &nruns)) != 0)
         goto done;
     ac_print_runs(runs, nruns);
+    if ((rc = ac_diagnose(CMD, &c, stage == 1 ? seed_only : map, s, t, test, &diag)) != 0)
+        goto done;
     if (c.json_out)
         rc = write_json(&c, s, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns,
-                        stages[stage]);
+                        stages[stage], diag);
 done:
+    ist_diag_free(diag);
     for (size_t i = 0; i < nruns; i++)
         ist_metrics_release(&runs[i].m);
     ist_map_free(seed_only);

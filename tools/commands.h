@@ -10,6 +10,7 @@ extern const cli_command cmd_align;
 extern const cli_command cmd_score;
 extern const cli_command cmd_lookup;
 extern const cli_command cmd_prepare;
+extern const cli_command cmd_report;
 extern const cli_command cmd_train;
 extern const cli_command cmd_gate;
 extern const cli_command cmd_propose;

@@ -17,6 +17,7 @@ static const cli_command *const commands[] = {
     &cmd_gate,
     &cmd_propose,
     &cmd_merge_pairs,
+    &cmd_report,
     &cmd_inspect,
     &cmd_convert,
     NULL,

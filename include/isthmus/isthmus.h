@@ -16,6 +16,8 @@
 #include <isthmus/propose.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
+#include <isthmus/diag.h>
+#include <isthmus/report.h>
 #include <isthmus/sgns.h>
 
 #ifdef __cplusplus

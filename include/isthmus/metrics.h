@@ -100,6 +100,7 @@ typedef struct ist_result_info {
     const char *options_json;             /* the options as a JSON object, or NULL */
     const ist_store *source;              /* names the per-query source words; may be NULL */
     const char *map_json;                 /* map summary as a JSON object, or NULL */
+    const struct ist_diag *diagnostics;   /* ist_diag_run() figures (isthmus/diag.h), or NULL */
 } ist_result_info;
 
 /** Write the result JSON (docs/formats.md "Result JSON") to path atomically;

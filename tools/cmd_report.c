@@ -1,0 +1,69 @@
+/* cmd_report.c - isthmus report: one self-contained HTML page from a result file. */
+#include <getopt.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+#define CMD "report"
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus report [OPTIONS] RESULT.json -o REPORT.html\n"
+          "Turn a result file (and a gate verdict) into one self-contained HTML page with\n"
+          "the figures, charts of precision by band, similarity and hubness, the worst misses\n"
+          "and the inputs; no network, scripts, fonts or images are needed to view or print it.\n"
+          "\n"
+          "Arguments:\n"
+          "  RESULT.json             written by 'isthmus score --json-out' or\n"
+          "                          'isthmus align --test ... --json-out'\n"
+          "\n"
+          "Options:\n"
+          "  -o, --output=FILE       HTML file to write ('-': standard output) (required)\n"
+          "      --verdict=FILE      gate verdict JSON to show [default: none]\n"
+          "  -h, --help              show this help and exit\n"
+          "\n"
+          "Example:\n"
+          "  isthmus score en.isv es.isv --map=shop.map --test=data-samples/demo-test.pairs \\\n"
+          "      --json-out=result.json\n"
+          "  isthmus report result.json -o report.html\n",
+          out);
+}
+
+enum { OPT_VERDICT = 1 };
+
+static int
+run(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"output", required_argument, NULL, 'o'},
+        {"verdict", required_argument, NULL, OPT_VERDICT},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    const char *out = NULL, *verdict = NULL;
+    ist_error err;
+    int c;
+
+    while ((c = getopt_long(argc, argv, "o:h", opts, NULL)) != -1) {
+        switch (c) {
+        case 'o': out = optarg; break;
+        case OPT_VERDICT: verdict = optarg; break;
+        case 'h': help(stdout); return CLI_EXIT_OK;
+        default: return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (argc - optind != 1)
+        return cli_usage_error(CMD, "expected one RESULT.json, got %d arguments", argc - optind);
+    if (!out)
+        return cli_usage_error(CMD, "expected -o REPORT.html");
+    if (ist_report_write(argv[optind], verdict, out, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    if (strcmp(out, "-") != 0)
+        cli_info("report written to %s\n", out);
+    return CLI_EXIT_OK;
+}
+
+const cli_command cmd_report = {"report", "write a self-contained HTML report of a result", run,
+                                help};
