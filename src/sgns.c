@@ -32,7 +32,7 @@ ist_sgns_opts_init(ist_sgns_opts *o)
 {
     memset(o, 0, sizeof *o);
     o->dim = 100;
-    o->window = 5;
+    o->window = 10;   /* measured best on the real-data check: docs/defaults.md */
     o->negatives = 5;
     o->epochs = 5;
     o->lr0 = 0.025;

@@ -22,7 +22,7 @@ help(FILE *out)
           "  -o, --output=OUT        vector file to write (required)\n"
           "      --dimension=N       vector components [default: 100]\n"
           "      --context=N         largest window radius in words; each position draws its\n"
-          "                          radius uniformly from 1..N [default: 5]\n"
+          "                          radius uniformly from 1..N [default: 10]\n"
           "      --noise-samples=N   noise words per positive pair [default: 5]\n"
           "      --passes=N          passes over the corpus; 'auto' = 16M / tokens, kept\n"
           "                          within 5..20 [default: auto]\n"

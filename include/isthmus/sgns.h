@@ -66,7 +66,7 @@ typedef struct ist_sgns_progress {
 
 typedef struct ist_sgns_opts {
     size_t dim;              /* vector dimension [default 100] */
-    size_t window;           /* largest context radius [default 5] */
+    size_t window;           /* largest context radius [default 10] */
     size_t negatives;        /* noise words k per positive pair [default 5] */
     size_t epochs;           /* passes over the stream [default 5] */
     double lr0;              /* start learning rate [default 0.025] */
