@@ -6,6 +6,9 @@
 
 extern const cli_command cmd_inspect;
 extern const cli_command cmd_convert;
+extern const cli_command cmd_align;
+extern const cli_command cmd_score;
+extern const cli_command cmd_lookup;
 extern const cli_command cmd_prepare;
 extern const cli_command cmd_train;
 

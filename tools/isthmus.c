@@ -10,6 +10,9 @@
 static const cli_command *const commands[] = {
     &cmd_inspect,
     &cmd_convert,
+    &cmd_align,
+    &cmd_score,
+    &cmd_lookup,
     &cmd_prepare,
     &cmd_train,
     NULL,

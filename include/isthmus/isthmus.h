@@ -7,6 +7,11 @@
 #include <isthmus/matrix.h>
 #include <isthmus/vocab.h>
 #include <isthmus/store.h>
+#include <isthmus/linalg.h>
+#include <isthmus/retrieve.h>
+#include <isthmus/pairs.h>
+#include <isthmus/align.h>
+#include <isthmus/metrics.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
 #include <isthmus/sgns.h>

@@ -1,0 +1,106 @@
+/* isthmus/linalg.h - checked dense linear algebra, orthogonal Procrustes and the
+ * normalisation steps applied to vector spaces before they are aligned.
+ *
+ * Owns nothing but the recorded normalisation plans. The routines wrap CBLAS and
+ * LAPACKE and check every shape; a LAPACKE failure (info != 0) becomes
+ * IST_ERR_NUMERIC naming the routine.
+ *
+ * Orthogonal Procrustes: the orthogonal W minimising ||XW - Z||_F is W = U V^T
+ * where U S V^T is the SVD of X^T Z (Schönemann 1966, "A generalized solution of
+ * the orthogonal Procrustes problem"); its use for word vectors: Xing et al.
+ * 2015, Smith et al. 2017. Rows are vectors: a source row x maps to x W.
+ *
+ * Normalisation: unit length and mean centring (Artetxe et al. 2016, "Learning
+ * principled bilingual mappings of word embeddings while preserving monolingual
+ * invariance"; Artetxe et al. 2018, AAAI) and iterative normalisation, which
+ * alternates the two until both hold (Zhang et al. 2019, "Are girls neko or
+ * shojo? Cross-lingual alignment of non-isomorphic embeddings with iterative
+ * normalization", ACL). A plan records each step and the means it subtracted, so the
+ * same transform can be replayed exactly on use. */
+#ifndef ISTHMUS_LINALG_H
+#define ISTHMUS_LINALG_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <isthmus/error.h>
+#include <isthmus/matrix.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/** C = alpha * op(A) op(B) + beta * C in single precision, where op(X) is X or
+ *  X^T (ta, tb). IST_ERR_INVALID when the shapes do not agree. */
+IST_API ist_status ist_linalg_gemm(bool ta, bool tb, float alpha, ist_cmatview a, ist_cmatview b,
+                                   float beta, ist_matview c, ist_error *err);
+
+/** Singular values of A (rows x cols) in descending order into out (room for
+ *  min(rows, cols) values), computed in double precision (LAPACKE dgesdd).
+ *  IST_ERR_NUMERIC when the routine does not converge. */
+IST_API ist_status ist_linalg_singular_values(ist_cmatview a, double *out, ist_error *err);
+
+/** What a Procrustes fit reports. */
+typedef struct ist_procrustes_info {
+    double orth_error;     /* ||W^T W - I||_F, computed in double */
+    double seed_cos;       /* mean cosine of (x_i W, z_i) over the pairs */
+    double residual;       /* ||XW - Z||_F / ||Z||_F */
+    double sv_min, sv_max; /* extreme singular values of X^T Z */
+} ist_procrustes_info;
+
+/** Orthogonal W (dim x dim, written into w) minimising ||XW - Z||_F for the
+ *  pairs of rows of x and z (n x dim each, n >= 1). X^T Z is accumulated in
+ *  double precision (dgemm over blocks of rows), its SVD taken with dgesdd
+ *  (dgesvd when that fails to converge). info may be NULL. */
+IST_API ist_status ist_linalg_procrustes(ist_cmatview x, ist_cmatview z, ist_matview w,
+                                         ist_procrustes_info *info, ist_error *err);
+
+/** ||W^T W - I||_F for a square matrix, in double precision. */
+IST_API double ist_linalg_orth_error(ist_cmatview w);
+
+/* ---- normalisation plans ---------------------------------------------- */
+
+typedef enum ist_norm_kind {
+    IST_NORM_UNIT = 1,    /* scale every row to length 1 (zero rows stay zero) */
+    IST_NORM_CENTRE = 2   /* subtract the recorded mean row */
+} ist_norm_kind;
+
+typedef struct ist_norm ist_norm;   /* opaque: a recorded sequence of steps */
+
+/** Default specification: the combination that measured best (docs/methods.md). */
+#define IST_NORM_DEFAULT "unit,centre,unit"
+
+/** Parse a specification, a comma-separated list of "unit", "centre" (or
+ *  "center"), "iterative" (5 rounds of unit + centre, then unit) or
+ *  "iterative=N", or "none"; apply it to m in place (rows x dim) and record
+ *  the steps with the means each centring subtracted.
+ *  Success: *out owns the plan; release with ist_norm_free(). IST_ERR_INVALID
+ *  names the bad word. */
+IST_API ist_status ist_norm_fit(const char *spec, ist_matview m, ist_norm **out, ist_error *err);
+
+/** Check a specification without applying it. */
+IST_API ist_status ist_norm_check(const char *spec, ist_error *err);
+
+/** Replay a recorded plan on m (same dim), e.g. on the rows a query needs. */
+IST_API ist_status ist_norm_apply(const ist_norm *plan, ist_matview m, ist_error *err);
+
+/** A plan made from recorded steps (as read from a map file): kinds[i] for
+ *  i < nsteps; means holds dim values for each IST_NORM_CENTRE step, in order. */
+IST_API ist_status ist_norm_from_steps(size_t dim, const ist_norm_kind *kinds, size_t nsteps,
+                                       const double *means, ist_norm **out, ist_error *err);
+
+IST_API void ist_norm_free(ist_norm *plan);          /* NULL: no-op */
+
+IST_API size_t ist_norm_dim(const ist_norm *plan);
+IST_API size_t ist_norm_steps(const ist_norm *plan);
+IST_API ist_norm_kind ist_norm_step_kind(const ist_norm *plan, size_t i);
+/** Mean row subtracted by centring step i (dim values); NULL for other steps.
+ *  Borrowed; valid until ist_norm_free(). */
+IST_API const double *ist_norm_step_mean(const ist_norm *plan, size_t i);
+/** The specification the plan was made from ("unit,centre,unit"), or the list
+ *  of its steps when made from recorded steps. Borrowed. */
+IST_API const char *ist_norm_spec(const ist_norm *plan);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

@@ -1,0 +1,265 @@
+/* align_cli.c - option handling and tables shared by align, score and lookup. */
+#include "align_cli.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+#define OVERLAP_SHOWN 8
+
+void
+ac_common_init(ac_common *c, ac_methods dflt)
+{
+    memset(c, 0, sizeof *c);
+    c->methods = dflt;
+    ist_eval_opts_init(&c->eval);
+}
+
+static bool
+parse_bands(const char *cmd, const char *arg, ist_eval_opts *e)
+{
+    char buf[256], *save = NULL;
+    size_t prev = 0;
+
+    if (strlen(arg) >= sizeof buf)
+        return cli_usage_error(cmd, "--bands: list too long") == 0;
+    strcpy(buf, arg);
+    e->nedges = 0;
+    for (char *tok = strtok_r(buf, ",", &save); tok; tok = strtok_r(NULL, ",", &save)) {
+        size_t v;
+        if (e->nedges >= IST_METRICS_MAX_BANDS - 1)
+            return cli_usage_error(cmd, "--bands: at most %d limits",
+                                   IST_METRICS_MAX_BANDS - 1) == 0;
+        if (!cli_parse_size(cmd, "--bands", tok, prev + 1, (size_t)1 << 40, &v))
+            return false;
+        e->band_edges[e->nedges++] = v;
+        prev = v;
+    }
+    return true;
+}
+
+bool
+ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
+{
+    static const char *const methods[] = {"cosine", "csls", "both", NULL};
+    size_t v;
+    int m;
+
+    switch (opt) {
+    case AC_OPT_RETRIEVAL:
+        if (!cli_parse_choice(cmd, "--retrieval", arg, methods, &m))
+            return false;
+        c->methods = (ac_methods)(m + 1);
+        return true;
+    case AC_OPT_NEIGHBOURHOOD:
+        if (!cli_parse_size(cmd, "--neighbourhood", arg, 1, 1000, &c->eval.neighbourhood))
+            return false;
+        return true;
+    case AC_OPT_MEMORY:
+        if (!cli_parse_size(cmd, "--memory", arg, 1, (size_t)1 << 20, &v))
+            return false;
+        c->eval.retrieve.budget = v << 20;
+        return true;
+    case AC_OPT_THREADS:
+        if (!cli_parse_size(cmd, "--threads", arg, 0, 64, &v))
+            return false;
+        c->eval.retrieve.threads = (unsigned)v;
+        return true;
+    case AC_OPT_BANDS:
+        return parse_bands(cmd, arg, &c->eval);
+    case AC_OPT_ALLOW_OVERLAP:
+        c->allow_overlap = true;
+        return true;
+    case AC_OPT_JSON_OUT:
+        c->json_out = arg;
+        return true;
+    default:
+        return false;
+    }
+}
+
+void
+ac_common_help(FILE *out, bool scoring)
+{
+    if (scoring)
+        fputs("      --retrieval=METHOD  cosine, csls or both [default: both]\n"
+              "      --bands=R1,R2,...   upper frequency ranks of the bands reported\n"
+              "                          [default: 5000,20000]\n"
+              "      --allow-overlap     score even when test source words are also seed\n"
+              "                          source words (the result says so) [default: refuse]\n"
+              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n",
+              out);
+    fputs("      --neighbourhood=K   CSLS neighbourhood size [default: 10]\n"
+          "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
+          "      --threads=N         worker threads, 0 = one per processor [default: 0]\n",
+          out);
+}
+
+int
+ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s, ist_store **t)
+{
+    ist_error err;
+
+    *s = *t = NULL;
+    if (ist_store_open(src, NULL, s, &err) != IST_OK)
+        return cli_report(cmd, &err);
+    if (ist_store_open(tgt, NULL, t, &err) != IST_OK) {
+        ist_store_free(*s);
+        *s = NULL;
+        return cli_report(cmd, &err);
+    }
+    if (ist_store_dim(*s) != ist_store_dim(*t)) {
+        fprintf(stderr, "isthmus %s: %s has dimension %zu but %s has %zu\n", cmd, src,
+                ist_store_dim(*s), tgt, ist_store_dim(*t));
+        ist_store_free(*s);
+        ist_store_free(*t);
+        *s = *t = NULL;
+        return CLI_EXIT_ERROR;
+    }
+    return 0;
+}
+
+void
+ac_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c)
+{
+    printf("%-10s %s: %zu pairs read, %zu kept; %zu of %zu source words covered\n", what, path,
+           c->read, c->kept, c->sources_kept, c->sources_read);
+    printf("%-10s dropped: %zu source word missing, %zu target word missing, %zu both, "
+           "%zu duplicate%s\n",
+           "", c->missing_source, c->missing_target, c->missing_both, c->duplicates,
+           c->duplicates == 1 ? "" : "s");
+    if (c->source_exact || c->target_exact)
+        printf("%-10s words matched exactly (no text options recorded in the %s vectors)\n", "",
+               c->source_exact && c->target_exact ? "source and target"
+               : c->source_exact                  ? "source"
+                                                  : "target");
+}
+
+int
+ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_store *s,
+              const ist_store *t, ist_pairs **out, ist_pairs_coverage *cov)
+{
+    ist_error err;
+
+    if (ist_pairs_read(path, out, &err) != IST_OK)
+        return cli_report(cmd, &err);
+    if (ist_pairs_resolve(*out, s, t, cov, &err) != IST_OK) {
+        ist_pairs_free(*out);
+        *out = NULL;
+        return cli_report(cmd, &err);
+    }
+    ac_print_coverage(what, path, cov);
+    return 0;
+}
+
+int
+ac_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test, bool allow,
+                 size_t *shared)
+{
+    const char *first[OVERLAP_SHOWN];
+    ist_error err;
+    size_t n;
+
+    if (ist_pairs_overlap(seeds, test, first, OVERLAP_SHOWN, &n, &err) != IST_OK)
+        return cli_report(cmd, &err);
+    *shared = n;
+    if (n == 0)
+        return 0;
+    fprintf(stderr, "isthmus %s: %s%zu test source word%s also %sseed source word%s:", cmd,
+            allow ? "warning: " : "", n, n == 1 ? " is" : "s are", n == 1 ? "a " : "",
+            n == 1 ? "" : "s");
+    for (size_t i = 0; i < n && i < OVERLAP_SHOWN; i++)
+        fprintf(stderr, " %s", first[i]);
+    fprintf(stderr, "%s\n", n > OVERLAP_SHOWN ? " ..." : "");
+    if (allow) {
+        printf("%-10s LEAKAGE: %zu test source words are also seeds (--allow-overlap)\n", "", n);
+        return 0;
+    }
+    fprintf(stderr, "isthmus %s: refusing to score a test list that shares words with the "
+                    "seeds; use --allow-overlap to score it anyway\n", cmd);
+    return CLI_EXIT_ERROR;
+}
+
+int
+ac_score(const char *cmd, const char *label, const ac_common *c, const ist_map *map,
+         const ist_store *s, const ist_store *t, const ist_pairs *test, ist_result_run *runs,
+         size_t *nruns)
+{
+    ist_matrix *xs = NULL, *zt = NULL;
+    ist_error err;
+    int rc = 0;
+
+    if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK)
+        return cli_report(cmd, &err);
+    for (int m = 0; m < 2; m++) {
+        if (!(c->methods & (m ? AC_CSLS : AC_COSINE)))
+            continue;
+        ist_eval_opts eo = c->eval;
+        eo.method = m ? IST_RETRIEVAL_CSLS : IST_RETRIEVAL_COSINE;
+        ist_result_run *r = &runs[(*nruns)++];
+        r->label = label;
+        if (ist_eval_run(ist_matrix_cview(xs), ist_matrix_cview(zt), test, &eo, &r->m, &err) !=
+            IST_OK) {
+            rc = cli_report(cmd, &err);
+            break;
+        }
+    }
+    ist_matrix_free(xs);
+    ist_matrix_free(zt);
+    return rc;
+}
+
+static void
+band_name(const ist_band *b, char *buf, size_t cap)
+{
+    if (b->hi)
+        snprintf(buf, cap, "%zu-%zu", b->lo, b->hi);
+    else
+        snprintf(buf, cap, "%zu+", b->lo);
+}
+
+void
+ac_print_runs(const ist_result_run *runs, size_t n)
+{
+    printf("\n%-12s %-9s %8s %9s %7s %7s %7s\n", "map", "retrieval", "queries", "coverage",
+           "P@1", "P@5", "P@10");
+    for (size_t i = 0; i < n; i++) {
+        const ist_metrics *m = &runs[i].m;
+        printf("%-12s %-9s %8zu %8.1f%% %7.1f %7.1f %7.1f\n", runs[i].label,
+               ist_retrieval_name(m->method), m->queries, 100 * m->coverage, 100 * m->p[0],
+               100 * m->p[1], 100 * m->p[2]);
+    }
+    printf("\n%-12s %-9s %-14s %8s %7s %7s %7s\n", "map", "retrieval", "frequency rank",
+           "queries", "P@1", "P@5", "P@10");
+    for (size_t i = 0; i < n; i++) {
+        const ist_metrics *m = &runs[i].m;
+        for (size_t b = 0; b < m->nbands; b++) {
+            char name[48];
+            band_name(&m->band[b], name, sizeof name);
+            if (m->band[b].queries == 0)
+                continue;   /* the JSON result lists every band */
+            printf("%-12s %-9s %-14s %8zu %7.1f %7.1f %7.1f\n", runs[i].label,
+                   ist_retrieval_name(m->method), name, m->band[b].queries, 100 * m->band[b].p[0],
+                   100 * m->band[b].p[1], 100 * m->band[b].p[2]);
+        }
+    }
+    printf("(precision in percent over covered queries; a query is right at k when any of\n"
+           " its gold targets is among its k best targets)\n");
+}
+
+void
+ac_options_json(const ac_common *c, const char *extra, char *buf, size_t cap)
+{
+    size_t at = (size_t)snprintf(buf, cap,
+                                 "{\"retrieval\":\"%s\",\"neighbourhood\":%zu,"
+                                 "\"memory_bytes\":%zu,\"threads\":%u,\"allow_overlap\":%s,"
+                                 "\"bands\":[",
+                                 c->methods == AC_BOTH   ? "both"
+                                 : c->methods == AC_CSLS ? "csls"
+                                                         : "cosine",
+                                 c->eval.neighbourhood, c->eval.retrieve.budget,
+                                 c->eval.retrieve.threads, c->allow_overlap ? "true" : "false");
+    for (size_t i = 0; i < c->eval.nedges && at < cap; i++)
+        at += (size_t)snprintf(buf + at, cap - at, "%s%zu", i ? "," : "", c->eval.band_edges[i]);
+    if (at < cap)
+        snprintf(buf + at, cap - at, "]%s%s}", extra ? "," : "", extra ? extra : "");
+}

@@ -1,0 +1,59 @@
+/* align_cli.h - what align, score and lookup share: retrieval options, opening
+ * two vector files, printing coverage and precision tables. */
+#ifndef ISTHMUS_ALIGN_CLI_H
+#define ISTHMUS_ALIGN_CLI_H
+
+#include "cli.h"
+
+/* Options the three commands share (long option values 1000 and up). */
+enum {
+    AC_OPT_RETRIEVAL = 1000,
+    AC_OPT_NEIGHBOURHOOD,
+    AC_OPT_MEMORY,
+    AC_OPT_THREADS,
+    AC_OPT_BANDS,
+    AC_OPT_ALLOW_OVERLAP,
+    AC_OPT_JSON_OUT,
+};
+
+/* Which retrieval methods to score with. */
+typedef enum ac_methods { AC_COSINE = 1, AC_CSLS = 2, AC_BOTH = 3 } ac_methods;
+
+typedef struct ac_common {
+    ac_methods methods;
+    ist_eval_opts eval;           /* neighbourhood, bands, retrieval budget and threads */
+    bool allow_overlap;
+    const char *json_out;
+} ac_common;
+
+void ac_common_init(ac_common *c, ac_methods dflt);
+/* Handle one of the shared options; false after a usage error was printed. */
+bool ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg);
+/* Help lines of the shared options. */
+void ac_common_help(FILE *out, bool scoring);
+
+/* Open two vector files; on failure prints the error and returns the exit status. */
+int ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s,
+                   ist_store **t);
+
+/* Read a pair list and resolve it; prints its coverage line. */
+int ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_store *s,
+                  const ist_store *t, ist_pairs **out, ist_pairs_coverage *cov);
+void ac_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c);
+
+/* Refuse (exit 1) when test source words are also seed source words, unless
+ * allowed; prints the first few. *shared gets the count. Returns 0 to go on. */
+int ac_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test, bool allow,
+                     size_t *shared);
+
+/* Score the test list with each method; runs[] gets one entry per method. */
+int ac_score(const char *cmd, const char *label, const ac_common *c, const ist_map *map,
+             const ist_store *s, const ist_store *t, const ist_pairs *test,
+             ist_result_run *runs, size_t *nruns);
+void ac_print_runs(const ist_result_run *runs, size_t n);
+
+/* The shared options as a JSON object text into buf; extra (may be NULL) holds
+ * more members, already JSON ("\"key\":value,..."). */
+void ac_options_json(const ac_common *c, const char *extra, char *buf, size_t cap);
+
+#endif

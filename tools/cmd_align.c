@@ -1,0 +1,402 @@
+/* cmd_align.c - isthmus align: fit an orthogonal map from seed pairs, refine it, save it. */
+#include <getopt.h>
+#include <inttypes.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "align_cli.h"
+
+#define CMD "align"
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus align [OPTIONS] SRC TGT -o MAP\n"
+          "Fit an orthogonal map from the source vectors onto the target vectors on seed word\n"
+          "pairs (Procrustes), refine it on mutual CSLS neighbours, and write the map file.\n"
+          "\n"
+          "Arguments:\n"
+          "  SRC, TGT                source and target vector files (native or text table)\n"
+          "\n"
+          "Options:\n"
+          "  -o, --output=MAP        map file to write (required)\n"
+          "      --seeds=FILE        seed pairs: 'source target' per line, tab or space\n"
+          "      --identical-seeds   also use words spelt the same in both vocabularies\n"
+          "      --identical-min-count=N\n"
+          "                          ...seen at least N times on both sides [default: 5]\n"
+          "      --identical-marked  ...and only those holding a digit or a capital letter\n"
+          "      --hold-out=FRACTION hold out this share of the --seeds source words as a test\n"
+          "                          list (split by source word) [default: 0]\n"
+          "      --split-seed=N      seed of the hold-out split [default: 1]\n"
+          "      --write-test=FILE   write the held-out pairs to FILE\n"
+          "      --test=FILE         score the map before and after refinement on this list\n"
+          "      --normalise=SPEC    steps for both sides: unit, centre, iterative[=N], none,\n"
+          "                          comma-separated [default: " IST_NORM_DEFAULT "]\n"
+          "      --refine-rounds=N   at most N refinement rounds, 0 = none [default: 5]\n"
+          "      --refine-vocab=N    refine among the N most frequent words of each side\n"
+          "                          [default: 5000]\n"
+          "      --refine-keep-seeds refit on the induced pairs and the seed pairs together\n"
+          "                          [default: induced pairs only]\n"
+          "      --mapped-out=FILE   also write the mapped source vectors as a vector file\n",
+          out);
+    ac_common_help(out, true);
+    fputs("  -h, --help              show this help and exit\n"
+          "\n"
+          "Refinement stops early when the mean CSLS of the induced pairs stops rising.\n"
+          "All files are written to a temporary name and renamed into place when complete.\n"
+          "\n"
+          "Example (en.isv, es.isv from 'isthmus train -o en.isv data-samples/tillwick-en.txt.gz'\n"
+          "and the same for es):\n"
+          "  isthmus align en.isv es.isv --seeds=data-samples/demo-seed.pairs \\\n"
+          "      --test=data-samples/demo-test.pairs -o shop.map\n",
+          out);
+}
+
+enum {
+    OPT_SEEDS = 1,
+    OPT_IDENT,
+    OPT_IDENT_MIN,
+    OPT_IDENT_MARKED,
+    OPT_HOLD_OUT,
+    OPT_SPLIT_SEED,
+    OPT_WRITE_TEST,
+    OPT_TEST,
+    OPT_NORMALISE,
+    OPT_ROUNDS,
+    OPT_RVOCAB,
+    OPT_MAPPED,
+    OPT_KEEP_SEEDS,
+};
+
+typedef struct args {
+    const char *src, *tgt, *out, *seeds, *test, *write_test, *mapped, *normalise;
+    bool ident, ident_marked, keep_seeds;
+    uint64_t ident_min, split_seed;
+    double hold_out;
+    size_t rounds, rvocab;
+    ac_common c;
+} args;
+
+static void
+on_round(const ist_align_round *r, void *ctx)
+{
+    (void)ctx;
+    if (!r->kept)
+        cli_info("round %zu: %zu mutual CSLS pairs, mean CSLS %.4f: did not rise; keeping the "
+                 "earlier map\n", r->round, r->pairs, r->mean_csls);
+    else if (r->seed_cos == r->seed_cos)
+        cli_info("round %zu: %zu mutual CSLS pairs, mean CSLS %.4f; refitted (mean cosine %.4f, "
+                 "orthogonality error %.2g)\n",
+                 r->round, r->pairs, r->mean_csls, r->seed_cos, r->orth_error);
+    else
+        cli_info("round %zu: %zu mutual CSLS pairs, mean CSLS %.4f: still rising; rounds used "
+                 "up\n", r->round, r->pairs, r->mean_csls);
+}
+
+static int
+parse(int argc, char **argv, args *a)
+{
+    static const struct option opts[] = {
+        {"output", required_argument, NULL, 'o'},
+        {"seeds", required_argument, NULL, OPT_SEEDS},
+        {"identical-seeds", no_argument, NULL, OPT_IDENT},
+        {"identical-min-count", required_argument, NULL, OPT_IDENT_MIN},
+        {"identical-marked", no_argument, NULL, OPT_IDENT_MARKED},
+        {"hold-out", required_argument, NULL, OPT_HOLD_OUT},
+        {"split-seed", required_argument, NULL, OPT_SPLIT_SEED},
+        {"write-test", required_argument, NULL, OPT_WRITE_TEST},
+        {"test", required_argument, NULL, OPT_TEST},
+        {"normalise", required_argument, NULL, OPT_NORMALISE},
+        {"refine-rounds", required_argument, NULL, OPT_ROUNDS},
+        {"refine-vocab", required_argument, NULL, OPT_RVOCAB},
+        {"mapped-out", required_argument, NULL, OPT_MAPPED},
+        {"refine-keep-seeds", no_argument, NULL, OPT_KEEP_SEEDS},
+        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
+        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
+        {"memory", required_argument, NULL, AC_OPT_MEMORY},
+        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        {"bands", required_argument, NULL, AC_OPT_BANDS},
+        {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
+        {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    ist_error err;
+    int c;
+
+    while ((c = getopt_long(argc, argv, "o:h", opts, NULL)) != -1) {
+        switch (c) {
+        case 'o': a->out = optarg; break;
+        case OPT_SEEDS: a->seeds = optarg; break;
+        case OPT_IDENT: a->ident = true; break;
+        case OPT_IDENT_MIN:
+            if (!cli_parse_u64(CMD, "--identical-min-count", optarg, 0, UINT64_MAX,
+                               &a->ident_min))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_IDENT_MARKED: a->ident_marked = true; break;
+        case OPT_HOLD_OUT:
+            if (!cli_parse_double(CMD, "--hold-out", optarg, 0, 0.95, &a->hold_out))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_SPLIT_SEED:
+            if (!cli_parse_u64(CMD, "--split-seed", optarg, 0, UINT64_MAX, &a->split_seed))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_WRITE_TEST: a->write_test = optarg; break;
+        case OPT_TEST: a->test = optarg; break;
+        case OPT_NORMALISE:
+            if (ist_norm_check(optarg, &err) != IST_OK)
+                return cli_usage_error(CMD, "--normalise: %s", err.msg);
+            a->normalise = optarg;
+            break;
+        case OPT_ROUNDS:
+            if (!cli_parse_size(CMD, "--refine-rounds", optarg, 0, 50, &a->rounds))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_RVOCAB:
+            if (!cli_parse_size(CMD, "--refine-vocab", optarg, 1, 10000000, &a->rvocab))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_MAPPED: a->mapped = optarg; break;
+        case OPT_KEEP_SEEDS: a->keep_seeds = true; break;
+        case 'h': help(stdout); return -1;
+        default:
+            if (c >= 1000) {
+                if (!ac_common_option(CMD, &a->c, c, optarg))
+                    return CLI_EXIT_USAGE;
+                break;
+            }
+            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (argc - optind != 2)
+        return cli_usage_error(CMD, "expected SRC and TGT vector files, got %d argument%s",
+                               argc - optind, argc - optind == 1 ? "" : "s");
+    if (!a->out)
+        return cli_usage_error(CMD, "expected -o MAP, the map file to write");
+    if (!a->seeds && !a->ident)
+        return cli_usage_error(CMD, "expected --seeds=FILE or --identical-seeds");
+    if (a->hold_out > 0 && !a->seeds)
+        return cli_usage_error(CMD, "--hold-out splits the --seeds list; give --seeds=FILE");
+    if (a->hold_out > 0 && a->test)
+        return cli_usage_error(CMD, "--hold-out and --test both name a test list; give one");
+    if (a->write_test && a->hold_out <= 0)
+        return cli_usage_error(CMD, "--write-test needs --hold-out");
+    return 0;
+}
+
+/* The seed list: the file's kept pairs, the identical strings, or both. */
+static int
+build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
+            ist_pairs **test, ist_pairs_coverage *tcov)
+{
+    ist_pairs *file = NULL, *ident = NULL;
+    ist_pairs_coverage cov;
+    ist_error err;
+    int rc;
+
+    *seeds = *test = NULL;
+    if (a->seeds && (rc = ac_read_pairs(CMD, "seeds", a->seeds, s, t, &file, &cov)) != 0)
+        return rc;
+    if (file && a->hold_out > 0) {
+        ist_pairs *sp, *tp;
+        if (ist_pairs_split(file, a->hold_out, a->split_seed, &sp, &tp, &err) != IST_OK) {
+            ist_pairs_free(file);
+            return cli_report(CMD, &err);
+        }
+        ist_pairs_free(file);
+        file = sp;
+        *test = tp;
+        *tcov = cov;   /* the test part comes from the same file */
+        printf("%-10s held out %zu pairs (share %.2f of the source words, split seed %" PRIu64
+               ") for testing; %zu pairs stay seeds\n",
+               "", ist_pairs_count(tp), a->hold_out, a->split_seed, ist_pairs_count(sp));
+        if (a->write_test && ist_pairs_save(tp, a->write_test, &err) != IST_OK) {
+            ist_pairs_free(file);
+            return cli_report(CMD, &err);
+        }
+    }
+    if (a->ident) {
+        if (ist_pairs_identical(s, t, a->ident_min, a->ident_marked, &ident, &err) != IST_OK) {
+            ist_pairs_free(file);
+            return cli_report(CMD, &err);
+        }
+        printf("%-10s %zu words spelt the same on both sides (count >= %" PRIu64 "%s)\n",
+               "identical", ist_pairs_count(ident), a->ident_min,
+               a->ident_marked ? ", with a digit or capital" : "");
+    }
+    if (file && ident) {
+        ist_status st = IST_OK;
+        for (size_t i = 0; st == IST_OK && i < ist_pairs_count(ident); i++)
+            st = ist_pairs_add(file, ist_pairs_source(ident, i), ist_pairs_target(ident, i),
+                               &err);
+        if (st == IST_OK)
+            st = ist_pairs_resolve(file, s, t, &cov, &err);
+        ist_pairs_free(ident);
+        if (st != IST_OK) {
+            ist_pairs_free(file);
+            return cli_report(CMD, &err);
+        }
+        printf("%-10s %zu seed pairs in all after merging (%zu duplicates dropped)\n", "",
+               cov.kept, cov.duplicates);
+        *seeds = file;
+    } else {
+        *seeds = file ? file : ident;
+    }
+    return 0;
+}
+
+static int
+evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
+         const ist_pairs *seeds, ist_pairs *test, const ist_pairs_coverage *tcov,
+         ist_result_run *runs, size_t *nrun_out)
+{
+    size_t nruns = 0, shared = 0;
+    ist_map *seed_only = NULL;
+    ist_error err;
+    int rc;
+
+    if (test && ist_pairs_overlap(seeds, test, NULL, 0, &shared, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    if (test) {
+        if (ist_map_seed_only(map, &seed_only, &err) != IST_OK)
+            return cli_report(CMD, &err);
+        rc = ac_score(CMD, "procrustes", &a->c, seed_only, s, t, test, runs, &nruns);
+        ist_map_free(seed_only);
+        if (rc == 0 && ist_map_rounds(map) > 0)
+            rc = ac_score(CMD, "refined", &a->c, map, s, t, test, runs, &nruns);
+        *nrun_out = nruns;
+        if (rc != 0)
+            return rc;
+        ac_print_runs(runs, nruns);
+    }
+    if (!a->c.json_out)
+        return 0;
+    ist_result_info info;
+    char opts[2048], extra[1024], *mj = NULL;
+    memset(&info, 0, sizeof info);
+    snprintf(extra, sizeof extra,
+             "\"normalise\":\"%s\",\"refine_rounds\":%zu,\"refine_vocab\":%zu,"
+             "\"identical_seeds\":%s,\"identical_min_count\":%" PRIu64 ",\"identical_marked\":%s,"
+             "\"hold_out\":%g,\"split_seed\":%" PRIu64 ",\"refine_keep_seeds\":%s",
+             a->normalise, a->rounds, a->rvocab, a->ident ? "true" : "false", a->ident_min,
+             a->ident_marked ? "true" : "false", a->hold_out, a->split_seed,
+             a->keep_seeds ? "true" : "false");
+    ac_options_json(&a->c, extra, opts, sizeof opts);
+    if (ist_map_describe(map, &mj, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    info.command = CMD;
+    info.source_path = a->src;
+    info.target_path = a->tgt;
+    info.source_fingerprint = ist_map_source_fingerprint(map);
+    info.target_fingerprint = ist_map_target_fingerprint(map);
+    info.map_path = a->out;
+    info.seeds_path = a->seeds ? a->seeds : "(identical strings)";
+    info.seeds_checksum = ist_map_seed_checksum(map);
+    if (test) {
+        info.test_path = a->test ? a->test : "(held out from the seeds)";
+        if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
+            ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
+            ist_map_free_text(mj);
+            return cli_report(CMD, &err);
+        }
+        info.test_sources = nruns ? runs[0].m.queries : 0;
+        info.test_coverage = *tcov;
+    }
+    info.overlap = shared;
+    info.overlap_allowed = a->c.allow_overlap;
+    info.options_json = opts;
+    info.map_json = mj;
+    info.source = s;
+    rc = ist_result_write(a->c.json_out, &info, runs, nruns, &err) == IST_OK
+             ? 0
+             : cli_report(CMD, &err);
+    ist_map_free_text(mj);
+    return rc;
+}
+
+static int
+run(int argc, char **argv)
+{
+    args a;
+    ist_store *s = NULL, *t = NULL;
+    ist_pairs *seeds = NULL, *test = NULL;
+    ist_pairs_coverage tcov;
+    ist_result_run runs[4];
+    size_t nruns = 0;
+    ist_align_opts ao;
+    ist_map *map = NULL;
+    ist_error err;
+    int rc;
+
+    memset(&a, 0, sizeof a);
+    memset(&tcov, 0, sizeof tcov);
+    a.ident_min = 5;
+    a.split_seed = 1;
+    a.normalise = IST_NORM_DEFAULT;
+    a.rounds = IST_ALIGN_REFINE_ROUNDS_DEFAULT;
+    a.rvocab = IST_ALIGN_REFINE_VOCAB_DEFAULT;
+    ac_common_init(&a.c, AC_BOTH);
+    if ((rc = parse(argc, argv, &a)) != 0)
+        return rc < 0 ? CLI_EXIT_OK : rc;
+    a.src = argv[optind];
+    a.tgt = argv[optind + 1];
+    if ((rc = ac_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
+        return rc;
+    if ((rc = build_seeds(&a, s, t, &seeds, &test, &tcov)) != 0)
+        goto done;
+    if (a.test && (rc = ac_read_pairs(CMD, "test", a.test, s, t, &test, &tcov)) != 0)
+        goto done;
+    if (test) {
+        size_t shared;
+        if ((rc = ac_check_overlap(CMD, seeds, test, a.c.allow_overlap, &shared)) != 0)
+            goto done;
+    }
+    ist_align_opts_init(&ao);
+    ao.source_norm = ao.target_norm = a.normalise;
+    ao.refine_rounds = a.rounds;
+    ao.refine_vocab = a.rvocab;
+    ao.refine_keep_seeds = a.keep_seeds;
+    ao.neighbourhood = a.c.eval.neighbourhood;
+    ao.retrieve = a.c.eval.retrieve;
+    ao.on_round = on_round;
+    double t0 = cli_now();
+    if (ist_align_fit(s, t, seeds, &ao, &map, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    ist_procrustes_info fi = ist_map_seed_fit(map);
+    printf("%-10s %zu seed pairs, dimension %zu, normalisation %s; mean cosine %.4f, "
+           "orthogonality error %.2g\n",
+           "fit", ist_map_seed_pairs(map), ist_map_dim(map), a.normalise, fi.seed_cos,
+           fi.orth_error);
+    cli_info("fitted in %.1f s\n", cli_now() - t0);
+    if (ist_map_save(map, a.out, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    if (a.mapped) {
+        ist_matrix *xs = NULL;
+        if (ist_map_apply(map, s, t, &xs, NULL, &err) != IST_OK ||
+            ist_map_save_mapped(map, s, xs, a.mapped, &err) != IST_OK) {
+            ist_matrix_free(xs);
+            rc = cli_report(CMD, &err);
+            goto done;
+        }
+        ist_matrix_free(xs);
+    }
+    rc = evaluate(&a, map, s, t, seeds, test, &tcov, runs, &nruns);
+done:
+    for (size_t i = 0; i < nruns; i++)
+        ist_metrics_release(&runs[i].m);
+    ist_map_free(map);
+    ist_pairs_free(seeds);
+    ist_pairs_free(test);
+    ist_store_free(s);
+    ist_store_free(t);
+    return rc;
+}
+
+const cli_command cmd_align = {"align", "fit an orthogonal map between two vector spaces", run,
+                               help};

@@ -1,0 +1,174 @@
+/* cmd_score.c - isthmus score: precision@k of a map on a test word list. */
+#include <getopt.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "align_cli.h"
+
+#define CMD "score"
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus score [OPTIONS] SRC TGT --map=MAP --test=FILE\n"
+          "Measure how well a map translates: precision@1, @5 and @10 of the test list's source\n"
+          "words against the whole target vocabulary, with coverage, by frequency band.\n"
+          "\n"
+          "Arguments:\n"
+          "  SRC, TGT                the vector files the map was fitted on\n"
+          "\n"
+          "Options:\n"
+          "      --map=MAP           map file written by 'isthmus align' (required)\n"
+          "      --test=FILE         test pairs: 'source target' per line (required)\n"
+          "      --stage=WHICH       final (after refinement), seed (Procrustes on the seeds\n"
+          "                          only) or both [default: final]\n",
+          out);
+    ac_common_help(out, true);
+    fputs("  -h, --help              show this help and exit\n"
+          "\n"
+          "Test source words that are also seed source words (recorded in the map) make the\n"
+          "figures meaningless; score refuses such a list unless --allow-overlap is given.\n"
+          "\n"
+          "Example:\n"
+          "  isthmus score en.isv es.isv --map=shop.map --test=data-samples/demo-test.pairs \\\n"
+          "      --json-out=result.json\n",
+          out);
+}
+
+enum { OPT_MAP = 1, OPT_TEST, OPT_STAGE };
+
+static int
+write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath, const char *tpath, const ist_map *map,
+           const ist_pairs *test, const ist_pairs_coverage *cov, size_t shared,
+           const ist_result_run *runs, size_t nruns, const char *stage)
+{
+    ist_result_info info;
+    char opts[2048], extra[128], *mj = NULL;
+    ist_error err;
+    int rc;
+
+    memset(&info, 0, sizeof info);
+    snprintf(extra, sizeof extra, "\"stage\":\"%s\"", stage);
+    ac_options_json(c, extra, opts, sizeof opts);
+    if (ist_map_describe(map, &mj, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    info.command = CMD;
+    info.map_path = mpath;
+    info.source_path = argv[0];
+    info.target_path = argv[1];
+    info.test_path = tpath;
+    info.source_fingerprint = ist_map_source_fingerprint(map);
+    info.target_fingerprint = ist_map_target_fingerprint(map);
+    info.seeds_checksum = ist_map_seed_checksum(map);
+    if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
+        ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
+        ist_map_free_text(mj);
+        return cli_report(CMD, &err);
+    }
+    info.test_sources = cov->sources_kept;
+    info.test_coverage = *cov;
+    info.overlap = shared;
+    info.overlap_allowed = c->allow_overlap;
+    info.options_json = opts;
+    info.map_json = mj;
+    info.source = src;
+    rc = ist_result_write(c->json_out, &info, runs, nruns, &err) == IST_OK
+             ? 0
+             : cli_report(CMD, &err);
+    ist_map_free_text(mj);
+    return rc;
+}
+
+static int
+run(int argc, char **argv)
+{
+    static const struct option opts[] = {
+        {"map", required_argument, NULL, OPT_MAP},
+        {"test", required_argument, NULL, OPT_TEST},
+        {"stage", required_argument, NULL, OPT_STAGE},
+        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
+        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
+        {"memory", required_argument, NULL, AC_OPT_MEMORY},
+        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        {"bands", required_argument, NULL, AC_OPT_BANDS},
+        {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
+        {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    static const char *const stages[] = {"final", "seed", "both", NULL};
+    const char *mpath = NULL, *tpath = NULL;
+    ist_store *s = NULL, *t = NULL;
+    ist_map *map = NULL, *seed_only = NULL;
+    ist_pairs *test = NULL;
+    ist_pairs_coverage cov;
+    ist_result_run runs[4];
+    size_t nruns = 0, shared = 0;
+    ist_error err;
+    ac_common c;
+    int rc, stage = 0;
+
+    ac_common_init(&c, AC_BOTH);
+    while ((rc = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        switch (rc) {
+        case OPT_MAP: mpath = optarg; break;
+        case OPT_TEST: tpath = optarg; break;
+        case OPT_STAGE:
+            if (!cli_parse_choice(CMD, "--stage", optarg, stages, &stage))
+                return CLI_EXIT_USAGE;
+            break;
+        case 'h': help(stdout); return CLI_EXIT_OK;
+        default:
+            if (rc >= 1000) {
+                if (!ac_common_option(CMD, &c, rc, optarg))
+                    return CLI_EXIT_USAGE;
+                break;
+            }
+            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (argc - optind != 2)
+        return cli_usage_error(CMD, "expected SRC and TGT vector files, got %d argument%s",
+                               argc - optind, argc - optind == 1 ? "" : "s");
+    if (!mpath || !tpath)
+        return cli_usage_error(CMD, "expected --map=MAP and --test=FILE");
+    if (ist_map_load(mpath, &map, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    if ((rc = ac_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)
+        goto done;
+    if (ist_map_check(map, s, t, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    if ((rc = ac_read_pairs(CMD, "test", tpath, s, t, &test, &cov)) != 0)
+        goto done;
+    if ((rc = ac_check_overlap(CMD, ist_map_seeds(map), test, c.allow_overlap, &shared)) != 0)
+        goto done;
+    if (stage != 0) {
+        if (ist_map_seed_only(map, &seed_only, &err) != IST_OK) {
+            rc = cli_report(CMD, &err);
+            goto done;
+        }
+        if ((rc = ac_score(CMD, "procrustes", &c, seed_only, s, t, test, runs, &nruns)) != 0)
+            goto done;
+    }
+    if (stage != 1 &&
+        (rc = ac_score(CMD, ist_map_rounds(map) ? "refined" : "procrustes", &c, map, s, t, test,
+                       runs, &nruns)) != 0)
+        goto done;
+    ac_print_runs(runs, nruns);
+    if (c.json_out)
+        rc = write_json(&c, s, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns, stages[stage]);
+done:
+    for (size_t i = 0; i < nruns; i++)
+        ist_metrics_release(&runs[i].m);
+    ist_map_free(seed_only);
+    ist_map_free(map);
+    ist_pairs_free(test);
+    ist_store_free(s);
+    ist_store_free(t);
+    return rc;
+}
+
+const cli_command cmd_score = {"score", "measure precision@k of a map on a test word list", run,
+                               help};
