@@ -146,6 +146,11 @@ parse_line(ist_pairs *p, const char *path, char *line, size_t len, uint64_t line
     if (bad < len)
         return ist_error_at(err, IST_ERR_FORMAT, path, lineno,
                             "invalid UTF-8 at byte %zu of the line", bad + 1);
+    for (size_t k = 0; k < len; k++)   /* a NUL would cut a word short; none is a word */
+        if ((unsigned char)line[k] < 0x20 && line[k] != '\t')
+            return ist_error_at(err, IST_ERR_FORMAT, path, lineno,
+                                "control character 0x%02x at byte %zu of the line",
+                                (unsigned)(unsigned char)line[k], k + 1);
     while (i < len) {
         size_t st = i;
         while (i < len && line[i] != ' ' && line[i] != '\t')
