@@ -5,6 +5,8 @@
 #include <math.h>
 
 #include <isthmus/align.h>
+#include <isthmus/cancel.h>
+#include <isthmus/metrics.h>
 #include <isthmus/corpus.h>
 #include <isthmus/pairs.h>
 #include <isthmus/store.h>
@@ -226,6 +228,126 @@ pairs_control_characters(void **state)
     free(q);
 }
 
+/* ---- every writer: full disk, missing directory, stop request ------------------------ */
+
+typedef struct objects {
+    ist_store *store;
+    ist_corpus *corpus;
+    ist_pairs *pairs;
+    ist_map *map;
+} objects;
+
+enum { W_NATIVE, W_TEXT, W_GZIP, W_CORPUS, W_PAIRS, W_MAP, W_RESULT, W_COUNT };
+static const char *const kind_name[W_COUNT] = {
+    "vectors.isv", "vectors.txt", "vectors.txt.gz", "corpus.prep", "list.pairs", "m.map",
+    "result.json",
+};
+
+static ist_status
+write_kind(const objects *o, int kind, const char *path, ist_error *e)
+{
+    switch (kind) {
+    case W_NATIVE: case W_TEXT: case W_GZIP:
+        return ist_store_save(o->store, path, NULL, e);
+    case W_CORPUS:
+        return ist_corpus_save(o->corpus, path, e);
+    case W_PAIRS:
+        return ist_pairs_save(o->pairs, path, e);
+    case W_MAP:
+        return ist_map_save(o->map, path, e);
+    default: {
+        ist_result_info info;
+        memset(&info, 0, sizeof info);
+        info.command = "score";
+        return ist_result_write(path, &info, NULL, 0, e);
+    }
+    }
+}
+
+static void
+make_objects(objects *o)
+{
+    char *txt = harness_path(dir, "c.txt"), *mp = make_map();
+    const char *paths[1] = {txt};
+    static const char text[] = "the blue mug\nthe red mug\nthe blue lid\n";
+    ist_corpus_opts co;
+    uint64_t rs = 3;
+    ist_error e;
+
+    harness_write(txt, text, sizeof text - 1);
+    ist_corpus_opts_init(&co);
+    co.min_count = 1;
+    assert_int_equal(ist_corpus_build(paths, 1, &co, &o->corpus, &e), IST_OK);
+    assert_int_equal(ist_store_new(300, 8, &o->store, &e), IST_OK);
+    for (size_t i = 0; i < 300; i++) {
+        char w[16];
+        snprintf(w, sizeof w, "w%zu", i);
+        for (size_t j = 0; j < 8; j++)
+            ist_store_row_mut(o->store, i)[j] = harness_randf(&rs);
+        assert_int_equal(ist_store_set_word(o->store, i, w, 300 - i, &e), IST_OK);
+    }
+    assert_int_equal(ist_pairs_new(&o->pairs, &e), IST_OK);
+    assert_int_equal(ist_pairs_add(o->pairs, "cup", "taza", &e), IST_OK);
+    assert_int_equal(ist_map_load(mp, &o->map, &e), IST_OK);
+    unlink(txt);
+    unlink(mp);
+    free(txt);
+    free(mp);
+}
+
+static void
+free_objects(objects *o)
+{
+    ist_store_free(o->store);
+    ist_corpus_free(o->corpus);
+    ist_pairs_free(o->pairs);
+    ist_map_free(o->map);
+}
+
+/* Each file type: on /dev/full the write fails with "cannot write (No space left on
+ * device)" (IST_ERR_IO); into a missing directory it fails naming the path; with a stop
+ * requested (what SIGINT/SIGTERM do through the CLI's handler; the flag is checked before
+ * every buffer flush and before the final rename) it fails with IST_ERR_CANCELLED. In
+ * every case the directory holds no file afterwards, not even a temporary one. */
+static void
+writers_leave_nothing(void **state)
+{
+    objects o;
+    char buf[700];
+    ist_error e;
+
+    (void)state;
+    make_objects(&o);
+    assert_int_equal(harness_count_entries(dir), 0);
+    for (int k = 0; k < W_COUNT; k++) {
+        ist_status rc = write_kind(&o, k, "/dev/full", &e);
+        ist_error_format(&e, buf, sizeof buf);
+        if (rc != IST_ERR_IO || !strstr(buf, "/dev/full") || !strstr(buf, "No space left"))
+            fail_msg("%s on /dev/full: status %d, '%s'", kind_name[k], rc, buf);
+
+        char *sub = harness_path(dir, "missing"), *p = harness_path(sub, kind_name[k]);
+        rc = write_kind(&o, k, p, &e);
+        ist_error_format(&e, buf, sizeof buf);
+        if (rc != IST_ERR_IO || !strstr(buf, p) || !strstr(buf, "No such file or directory"))
+            fail_msg("%s in a missing directory: status %d, '%s'", kind_name[k], rc, buf);
+        free(p);
+        free(sub);
+
+        p = harness_path(dir, kind_name[k]);
+        ist_cancel_request();
+        rc = write_kind(&o, k, p, &e);
+        ist_cancel_reset();
+        if (rc != IST_ERR_CANCELLED || !strstr(e.msg, "stopped on request while writing"))
+            fail_msg("%s stopped: status %d, '%s'", kind_name[k], rc, e.msg);
+        assert_int_equal(harness_count_entries(dir), 0);
+        assert_int_equal(write_kind(&o, k, p, &e), IST_OK);   /* and without the stop: written */
+        assert_int_equal(harness_count_entries(dir), 1);
+        unlink(p);
+        free(p);
+    }
+    free_objects(&o);
+}
+
 /* ---- prepared corpus ------------------------------------------------------------- */
 
 static void
@@ -307,6 +429,7 @@ main(void)
         cmocka_unit_test_setup_teardown(map_bad_counts, setup, teardown),
         cmocka_unit_test_setup_teardown(pairs_control_characters, setup, teardown),
         cmocka_unit_test_setup_teardown(prep_lying_header, setup, teardown),
+        cmocka_unit_test_setup_teardown(writers_leave_nothing, setup, teardown),
     };
     HARNESS_RUN("reliab", tests);
 }
