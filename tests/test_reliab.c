@@ -228,6 +228,37 @@ pairs_control_characters(void **state)
     free(q);
 }
 
+/* Regression (found by fuzz_pairs, tests/fuzz/corpus/pairs/bom-on-line-2.pairs): a byte
+ * order mark at the start of a later line (two lists joined with cat) stayed part of the
+ * source word, which then read back differently once saved. */
+static void
+pairs_bom_on_later_lines(void **state)
+{
+    static const char text[] = "\xef\xbb\xbfcup\ttaza\n\xef\xbb\xbfmug\ttaza\n"
+                               "  \xef\xbb\xbf lid\ttapa\r\n";
+    char *p = harness_path(dir, "joined.pairs"), *q = harness_path(dir, "saved.pairs");
+    ist_pairs *l = NULL, *m = NULL;
+    ist_error e;
+
+    (void)state;
+    harness_write(p, text, sizeof text - 1);
+    assert_int_equal(ist_pairs_read(p, &l, &e), IST_OK);
+    assert_int_equal(ist_pairs_count(l), 3);
+    assert_string_equal(ist_pairs_source(l, 0), "cup");
+    assert_string_equal(ist_pairs_source(l, 1), "mug");
+    assert_string_equal(ist_pairs_source(l, 2), "lid");
+    assert_string_equal(ist_pairs_target(l, 2), "tapa");
+    assert_int_equal(ist_pairs_save(l, q, &e), IST_OK);
+    assert_int_equal(ist_pairs_read(q, &m, &e), IST_OK);
+    assert_int_equal(ist_pairs_count(m), 3);
+    for (size_t i = 0; i < 3; i++)
+        assert_string_equal(ist_pairs_source(m, i), ist_pairs_source(l, i));
+    ist_pairs_free(l);
+    ist_pairs_free(m);
+    free(p);
+    free(q);
+}
+
 /* ---- every writer: full disk, missing directory, stop request ------------------------ */
 
 typedef struct objects {
@@ -428,6 +459,7 @@ main(void)
         cmocka_unit_test_setup_teardown(map_lying_header, setup, teardown),
         cmocka_unit_test_setup_teardown(map_bad_counts, setup, teardown),
         cmocka_unit_test_setup_teardown(pairs_control_characters, setup, teardown),
+        cmocka_unit_test_setup_teardown(pairs_bom_on_later_lines, setup, teardown),
         cmocka_unit_test_setup_teardown(prep_lying_header, setup, teardown),
         cmocka_unit_test_setup_teardown(writers_leave_nothing, setup, teardown),
     };
