@@ -234,7 +234,7 @@ pairs_control_characters(void **state)
 static void
 pairs_bom_on_later_lines(void **state)
 {
-    static const char text[] = "\xef\xbb\xbfcup\ttaza\n\xef\xbb\xbfmug\ttaza\n"
+    static const char text[] = "\xef\xbb\xbf" "cup\ttaza\n\xef\xbb\xbfmug\ttaza\n"
                                "  \xef\xbb\xbf lid\ttapa\r\n";
     char *p = harness_path(dir, "joined.pairs"), *q = harness_path(dir, "saved.pairs");
     ist_pairs *l = NULL, *m = NULL;
