@@ -108,6 +108,8 @@ tally(ist_metrics *m, const gold *g, size_t ng, const uint32_t *top, size_t k)
                 pos = a;
                 break;
             }
+    if (pos == k)
+        pos = ks[IST_METRICS_NK - 1];   /* a miss, also when fewer than 10 were ranked */
     ist_band *band = &m->band[m->nbands - 1];
     for (size_t i = 0; i < m->nbands; i++)
         if (rank >= m->band[i].lo && (m->band[i].hi == 0 || rank <= m->band[i].hi)) {

@@ -9,6 +9,7 @@
 #include "error_int.h"
 #include "json_int.h"
 #include "ofile_int.h"
+#include "result_ci_int.h"
 
 #define RESULT_FORMAT_VERSION 1
 
@@ -40,27 +41,7 @@ write_precision(ist_jw *w, const size_t *hits, const double *p)
 }
 
 static void
-write_queries(ist_jw *w, const ist_metrics *m, const ist_store *src)
-{
-    if (!m->query_row)
-        return;
-    ist_jw_arr_begin(w, "per_query");
-    for (size_t i = 0; i < m->queries; i++) {
-        ist_jw_obj_begin(w, NULL);
-        if (src && m->query_row[i] < ist_store_rows(src))
-            ist_jw_str(w, "source", ist_store_word(src, m->query_row[i]));
-        ist_jw_uint(w, "rank", m->query_row[i] + 1);
-        if (m->query_place[i] < ist_metrics_k(IST_METRICS_NK - 1))
-            ist_jw_uint(w, "first_gold", (uint64_t)m->query_place[i] + 1);
-        else
-            ist_jw_null(w, "first_gold");
-        ist_jw_obj_end(w);
-    }
-    ist_jw_arr_end(w);
-}
-
-static void
-write_run(ist_jw *w, const ist_result_run *r, const ist_store *src)
+write_run(ist_jw *w, const ist_result_run *r, const ist_store *src, const ist_ci_opts *ci)
 {
     const ist_metrics *m = &r->m;
     ist_jw_obj_begin(w, NULL);
@@ -81,10 +62,11 @@ write_run(ist_jw *w, const ist_result_run *r, const ist_store *src)
             ist_jw_null(w, "rank_to");
         ist_jw_uint(w, "queries", m->band[b].queries);
         write_precision(w, m->band[b].hits, m->band[b].p);
+        ist_result_ci_band(w, m, b, ci);
         ist_jw_obj_end(w);
     }
     ist_jw_arr_end(w);
-    write_queries(w, m, src);
+    ist_result_ci_run(w, m, src, ci);
     ist_jw_obj_end(w);
 }
 
@@ -106,12 +88,10 @@ write_coverage(ist_jw *w, const ist_pairs_coverage *c)
 }
 
 ist_status
-ist_result_write(const char *path, const ist_result_info *in, const ist_result_run *runs,
-                 size_t nruns, ist_error *err)
+ist_result_render(const ist_result_info *in, const ist_result_run *runs, size_t nruns,
+                  const ist_ci_opts *ci, char **text, ist_error *err)
 {
     ist_jw w;
-    char *text = NULL;
-    ist_status rc;
 
     ist_jw_init(&w, true);
     ist_jw_obj_begin(&w, NULL);
@@ -138,6 +118,7 @@ ist_result_write(const char *path, const ist_result_info *in, const ist_result_r
     hex(&w, "checksum", in->test_checksum);
     hex(&w, "source_words_hash", in->test_sources_hash);
     ist_jw_uint(&w, "source_words", in->test_sources);
+    ist_result_ci_test(&w, in);
     write_coverage(&w, &in->test_coverage);
     ist_jw_uint(&w, "overlap_with_seeds", in->overlap);
     ist_jw_bool(&w, "overlap_allowed", in->overlap_allowed);
@@ -148,10 +129,24 @@ ist_result_write(const char *path, const ist_result_info *in, const ist_result_r
         ist_jw_raw(&w, "map", in->map_json);
     ist_jw_arr_begin(&w, "runs");
     for (size_t i = 0; i < nruns; i++)
-        write_run(&w, &runs[i], in->source);
+        write_run(&w, &runs[i], in->source, ci);
     ist_jw_arr_end(&w);
     ist_jw_obj_end(&w);
-    rc = ist_jw_finish(&w, &text, err);
+    return ist_jw_finish(&w, text, err);
+}
+
+void
+ist_result_free_text(char *text)
+{
+    ist_free(text);
+}
+
+ist_status
+ist_result_write(const char *path, const ist_result_info *in, const ist_result_run *runs,
+                 size_t nruns, ist_error *err)
+{
+    char *text = NULL;
+    ist_status rc = ist_result_render(in, runs, nruns, NULL, &text, err);
     if (rc != IST_OK)
         return rc;
     ist_ofile *f;

@@ -547,7 +547,11 @@ test_result_json(void **state)
                         "csls");
     const ist_jv *pq = ist_jv_get(run, "per_query");
     assert_int_equal(ist_jv_len(pq), 100);
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "rank"), 0), 601);
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "frequency_rank"), 0), 601);
+    /* rank: place of the first gold target in the top 10 (0: none), as in the run */
+    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "rank"), -1),
+                     runs[0].m.query_place[0] < 10 ? runs[0].m.query_place[0] + 1 : 0);
+    assert_int_equal(ist_jv_len(ist_jv_get(ist_jv_get(run, "ci"), "p@1")), 2);
     ist_jv_free(root);
     ist_metrics_release(&runs[0].m);
     ist_matrix_free(xs);

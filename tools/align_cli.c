@@ -217,6 +217,47 @@ band_name(const ist_band *b, char *buf, size_t cap)
         snprintf(buf, cap, "%zu+", b->lo);
 }
 
+static void
+print_interval_row(const char *label, const ist_metrics *m, const char *band, const double *p,
+                   const double *lo, const double *hi)
+{
+    printf("%-12s %-9s %-14s", label, ist_retrieval_name(m->method), band);
+    for (size_t j = 0; j < IST_METRICS_NK; j++) {
+        char cell[64];
+        snprintf(cell, sizeof cell, "%5.1f [%.1f, %.1f]", 100 * p[j], 100 * lo[j], 100 * hi[j]);
+        printf(j + 1 < IST_METRICS_NK ? " %-20s" : " %s", cell);
+    }
+    printf("\n");
+}
+
+/* The 95% bootstrap intervals of every figure (the same ones the result JSON holds). */
+static void
+print_intervals(const ist_result_run *runs, size_t n)
+{
+    ist_ci_opts o;
+    ist_error err;
+
+    ist_ci_opts_init(&o);
+    printf("\n95%% intervals (percentile bootstrap, %zu resamples of the queries, seed %llu)\n",
+           o.resamples, (unsigned long long)o.seed);
+    printf("%-12s %-9s %-14s %-20s %-20s %s\n", "map", "retrieval", "frequency rank", "  P@1",
+           "  P@5", "  P@10");
+    for (size_t i = 0; i < n; i++) {
+        const ist_metrics *m = &runs[i].m;
+        ist_metrics_ci ci;
+        if (ist_metrics_ci_compute(m, &o, &ci, &err) != IST_OK)
+            continue;   /* no per-query outcomes kept */
+        print_interval_row(runs[i].label, m, "all", m->p, ci.lo, ci.hi);
+        for (size_t b = 0; b < m->nbands; b++) {
+            char name[48];
+            if (m->band[b].queries == 0)
+                continue;
+            band_name(&m->band[b], name, sizeof name);
+            print_interval_row(runs[i].label, m, name, m->band[b].p, ci.band_lo[b], ci.band_hi[b]);
+        }
+    }
+}
+
 void
 ac_print_runs(const ist_result_run *runs, size_t n)
 {
@@ -242,6 +283,7 @@ ac_print_runs(const ist_result_run *runs, size_t n)
                    100 * m->band[b].p[1], 100 * m->band[b].p[2]);
         }
     }
+    print_intervals(runs, n);
     printf("(precision in percent over covered queries; a query is right at k when any of\n"
            " its gold targets is among its k best targets)\n");
 }

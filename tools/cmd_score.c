@@ -38,7 +38,8 @@ help(FILE *out)
 enum { OPT_MAP = 1, OPT_TEST, OPT_STAGE };
 
 static int
-write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath, const char *tpath, const ist_map *map,
+write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath,
+           const char *tpath, const ist_map *map,
            const ist_pairs *test, const ist_pairs_coverage *cov, size_t shared,
            const ist_result_run *runs, size_t nruns, const char *stage)
 {
@@ -158,7 +159,8 @@ run(int argc, char **argv)
         goto done;
     ac_print_runs(runs, nruns);
     if (c.json_out)
-        rc = write_json(&c, s, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns, stages[stage]);
+        rc = write_json(&c, s, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns,
+                        stages[stage]);
 done:
     for (size_t i = 0; i < nruns; i++)
         ist_metrics_release(&runs[i].m);

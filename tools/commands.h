@@ -11,5 +11,6 @@ extern const cli_command cmd_score;
 extern const cli_command cmd_lookup;
 extern const cli_command cmd_prepare;
 extern const cli_command cmd_train;
+extern const cli_command cmd_gate;
 
 #endif

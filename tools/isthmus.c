@@ -8,13 +8,15 @@
 #include "commands.h"
 
 static const cli_command *const commands[] = {
-    &cmd_inspect,
-    &cmd_convert,
+    /* in the order of the job: text -> vectors -> map -> figures; then file tools */
+    &cmd_prepare,
+    &cmd_train,
     &cmd_align,
     &cmd_score,
     &cmd_lookup,
-    &cmd_prepare,
-    &cmd_train,
+    &cmd_gate,
+    &cmd_inspect,
+    &cmd_convert,
     NULL,
 };
 

@@ -1292,7 +1292,9 @@ def word_lists(L, en_counts, es_counts, rng, min_count):
                 if not targets:
                     continue
                 lst = merged.setdefault(en, [])
-                lst += [t for t in targets if t not in lst]
+                for t in targets:       # 'fácil' is both the masculine and feminine form
+                    if t not in lst:
+                        lst.append(t)
         if merged:
             order.append(merged)
     seed, test = [], []

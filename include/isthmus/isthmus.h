@@ -12,6 +12,7 @@
 #include <isthmus/pairs.h>
 #include <isthmus/align.h>
 #include <isthmus/metrics.h>
+#include <isthmus/gate.h>
 #include <isthmus/text.h>
 #include <isthmus/corpus.h>
 #include <isthmus/sgns.h>

@@ -1,0 +1,122 @@
+/* isthmus/gate.h - release gate: a thresholds file of rules, checked against a result
+ * (and optionally a baseline result) to give a verdict per rule and overall.
+ *
+ * Owns the parsed rules (ist_thresholds), a loaded result (ist_gate_result) and the
+ * verdict (ist_verdict). The thresholds file format is in docs/formats.md, section
+ * "Thresholds file"; the verdict JSON in section "Verdict JSON". A drop rule compares
+ * precision@k of the new result with a baseline scored on the same test list by a paired
+ * bootstrap over the test words (Koehn 2004, "Statistical significance tests for machine
+ * translation evaluation"): the rule fails only when the whole 95% interval of the change
+ * lies below -max_drop. Intervals of single figures are percentile bootstrap intervals
+ * (Efron & Tibshirani 1993), see metrics.h. */
+#ifndef ISTHMUS_GATE_H
+#define ISTHMUS_GATE_H
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <isthmus/error.h>
+#include <isthmus/metrics.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef enum ist_gate_bound { IST_GATE_MIN, IST_GATE_MAX } ist_gate_bound;
+
+typedef enum ist_gate_figure {
+    IST_GATE_PRECISION,          /* precision@k of one run, overall or in one band */
+    IST_GATE_COVERAGE,           /* covered / distinct test source words */
+    IST_GATE_DROP                /* change of precision@k (new - baseline), paired bootstrap */
+} ist_gate_figure;
+
+typedef enum ist_gate_outcome { IST_GATE_PASS, IST_GATE_FAIL, IST_GATE_SKIP } ist_gate_outcome;
+
+/* One rule as read from the file. */
+typedef struct ist_gate_rule {
+    size_t line;                 /* 1-based line in the thresholds file */
+    const char *text;            /* the rule's words, single-spaced */
+    ist_gate_bound bound_kind;
+    ist_gate_figure figure;
+    size_t k;                    /* precision@k: 1, 5 or 10 (0 for coverage) */
+    int retrieval;               /* -1: any, else an ist_retrieval */
+    const char *label;           /* "procrustes", "refined", or NULL: the last such run */
+    bool has_band;
+    size_t band_from, band_to;   /* frequency ranks; band_to 0: no upper end */
+    double bound;                /* a fraction in [0, 1] */
+} ist_gate_rule;
+
+typedef struct ist_thresholds ist_thresholds;
+
+/** Read a thresholds file (plain or gzip). Errors name the file and line and what was
+ *  expected (IST_ERR_FORMAT); a file without rules is an error too.
+ *  Success: *out owns the rules; release with ist_thresholds_free(). */
+IST_API ist_status ist_thresholds_read(const char *path, ist_thresholds **out, ist_error *err);
+
+/** The same from text of len bytes; name is used in messages. */
+IST_API ist_status ist_thresholds_parse(const char *text, size_t len, const char *name,
+                                        ist_thresholds **out, ist_error *err);
+
+IST_API void ist_thresholds_free(ist_thresholds *t);                 /* NULL: no-op */
+IST_API size_t ist_thresholds_count(const ist_thresholds *t);
+/** Rule i; borrowed until ist_thresholds_free(). */
+IST_API const ist_gate_rule *ist_thresholds_rule(const ist_thresholds *t, size_t i);
+
+typedef struct ist_gate_result ist_gate_result;
+
+/** Load a result JSON (docs/formats.md "Result JSON"). IST_ERR_FORMAT when it is not
+ *  one. Release with ist_gate_result_free(). */
+IST_API ist_status ist_gate_result_load(const char *path, ist_gate_result **out,
+                                        ist_error *err);
+/** The same from text (as written by ist_result_render()); name is used in messages. */
+IST_API ist_status ist_gate_result_parse(const char *text, size_t len, const char *name,
+                                         ist_gate_result **out, ist_error *err);
+IST_API void ist_gate_result_free(ist_gate_result *r);               /* NULL: no-op */
+
+typedef struct ist_gate_opts {
+    ist_ci_opts ci;              /* paired bootstrap, and intervals a result lacks */
+} ist_gate_opts;
+
+IST_API void ist_gate_opts_init(ist_gate_opts *opts);
+
+/* The verdict on one rule. */
+typedef struct ist_gate_check {
+    const ist_gate_rule *rule;   /* a copy owned by the verdict */
+    ist_gate_outcome outcome;
+    double figure;               /* the measured value; for drop, new minus baseline */
+    bool has_interval;
+    double lo, hi;               /* its 95% interval (drop: of the change) */
+    double new_value, baseline_value;    /* drop: the two precisions */
+    char run[48];                /* "refined csls": the run the figure came from */
+    char note[128];              /* why a rule was skipped, or "" */
+} ist_gate_check;
+
+typedef struct ist_verdict ist_verdict;
+
+/** Check every rule against result (and baseline, may be NULL: drop rules are then
+ *  skipped). IST_ERR_INVALID when a rule names a run or band the result does not hold,
+ *  when the baseline was scored on a different test list (test.checksum or
+ *  test.source_words_hash differ or are missing), or when a drop rule meets a run
+ *  without per_query outcomes. Release *out with ist_verdict_free(). */
+IST_API ist_status ist_gate_evaluate(const ist_thresholds *rules, const ist_gate_result *result,
+                                     const ist_gate_result *baseline, const ist_gate_opts *opts,
+                                     ist_verdict **out, ist_error *err);
+IST_API void ist_verdict_free(ist_verdict *v);                       /* NULL: no-op */
+
+IST_API size_t ist_verdict_count(const ist_verdict *v);
+/** Check i; borrowed until ist_verdict_free(). */
+IST_API const ist_gate_check *ist_verdict_check(const ist_verdict *v, size_t i);
+/** True when no rule failed (skipped rules do not fail). */
+IST_API bool ist_verdict_passed(const ist_verdict *v);
+IST_API size_t ist_verdict_tally(const ist_verdict *v, ist_gate_outcome outcome);
+
+/** One line of text for check i (no newline): outcome, file:line, rule, figure with
+ *  its interval, and the bound. Truncated to cap bytes. */
+IST_API void ist_verdict_line(const ist_verdict *v, size_t i, char *buf, size_t cap);
+
+/** Write the verdict JSON atomically ("-": standard output). */
+IST_API ist_status ist_verdict_write(const ist_verdict *v, const char *path, ist_error *err);
+
+#ifdef __cplusplus
+}
+#endif
+#endif

@@ -1,0 +1,30 @@
+/* gate_int.h - the structs behind the gate's handles, shared by gate.c (thresholds),
+ * gate_eval.c (results, verdict) and gate_verdict.c (verdict text and JSON). */
+#ifndef ISTHMUS_GATE_INT_H
+#define ISTHMUS_GATE_INT_H
+
+#include <isthmus/gate.h>
+
+#include "json_int.h"
+
+struct ist_thresholds {
+    char *name;                  /* file name for messages */
+    ist_gate_rule *rules;
+    size_t n, cap;
+};
+
+struct ist_gate_result {
+    char *name;
+    ist_jv *root;
+};
+
+struct ist_verdict {
+    char *rules_name, *result_name, *baseline_name;
+    char *test_checksum, *test_hash;     /* of the result, or NULL */
+    ist_ci_opts ci;
+    ist_gate_check *checks;
+    ist_gate_rule *rules;        /* copies (texts owned), so the verdict outlives the rules */
+    size_t n;
+};
+
+#endif

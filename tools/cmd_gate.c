@@ -1,0 +1,259 @@
+/* cmd_gate.c - isthmus gate: check a result against a thresholds file (and a baseline). */
+#include <getopt.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "align_cli.h"
+
+#define CMD "gate"
+
+static void
+help(FILE *out)
+{
+    fputs("Usage: isthmus gate [OPTIONS] --thresholds=FILE RESULT.json\n"
+          "       isthmus gate [OPTIONS] --thresholds=FILE --map=MAP --test=FILE SRC TGT\n"
+          "Check the figures of a result against the rules of a thresholds file, and against a\n"
+          "baseline result; print a verdict per rule and overall. Exit 0 when every rule\n"
+          "passes, 3 when one fails.\n"
+          "\n"
+          "Arguments:\n"
+          "  RESULT.json             a result written by 'isthmus score' or 'isthmus align'\n"
+          "  SRC, TGT                with --map and --test: score these vector files first,\n"
+          "                          as 'isthmus score' does, and check that result\n"
+          "\n"
+          "Options:\n"
+          "      --thresholds=FILE   the rules, one a line (docs/formats.md) (required)\n"
+          "      --baseline=FILE     an earlier result on the same test list, for the\n"
+          "                          'max drop' rules (skipped without one)\n"
+          "      --verdict-out=FILE  write the verdict as JSON ('-': standard output)\n"
+          "      --resamples=N       bootstrap resamples for intervals [default: 1000]\n"
+          "      --seed=N            bootstrap random seed [default: 20261201]\n"
+          "      --map=MAP           map file, to score SRC and TGT\n"
+          "      --test=FILE         test pairs, to score SRC and TGT\n",
+          out);
+    ac_common_help(out, true);
+    fputs("  -h, --help              show this help and exit\n"
+          "\n"
+          "A 'max drop' rule fails only when the whole 95% interval of the change in\n"
+          "precision (paired bootstrap over the test words) lies below minus the bound.\n"
+          "A baseline scored on another test list is refused (exit 1).\n"
+          "\n"
+          "Example:\n"
+          "  isthmus score en.isv es.isv --map=shop.map --test=data-samples/demo-test.pairs \\\n"
+          "      --json-out=new.json\n"
+          "  isthmus gate --thresholds=data-samples/demo-gate.thresholds --baseline=old.json \\\n"
+          "      --verdict-out=verdict.json new.json\n",
+          out);
+}
+
+enum { OPT_THRESHOLDS = 1, OPT_BASELINE, OPT_VERDICT, OPT_RESAMPLES, OPT_SEED, OPT_MAP, OPT_TEST };
+
+typedef struct args {
+    const char *thresholds, *baseline, *verdict, *map, *test;
+    ist_gate_opts gate;
+    ac_common c;
+} args;
+
+static int
+fill_info(const args *a, char **argv, const ist_map *map, const ist_pairs *test,
+          const ist_pairs_coverage *cov, size_t shared, const ist_store *src,
+          ist_result_info *info, char *opts, size_t cap, char **mj)
+{
+    ist_error err;
+
+    memset(info, 0, sizeof *info);
+    ac_options_json(&a->c, "\"stage\":\"final\"", opts, cap);
+    if (ist_map_describe(map, mj, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    info->command = "score";
+    info->map_path = a->map;
+    info->source_path = argv[0];
+    info->target_path = argv[1];
+    info->test_path = a->test;
+    info->source_fingerprint = ist_map_source_fingerprint(map);
+    info->target_fingerprint = ist_map_target_fingerprint(map);
+    info->seeds_checksum = ist_map_seed_checksum(map);
+    if (ist_pairs_checksum(test, &info->test_checksum, &err) != IST_OK ||
+        ist_pairs_sources_hash(test, &info->test_sources_hash, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    info->test_sources = cov->sources_kept;
+    info->test_coverage = *cov;
+    info->overlap = shared;
+    info->overlap_allowed = a->c.allow_overlap;
+    info->options_json = opts;
+    info->map_json = *mj;
+    info->source = src;
+    return 0;
+}
+
+/* Score SRC and TGT with the map on the test list, as 'score' does, into *out. */
+static int
+compute(const args *a, char **argv, ist_gate_result **out)
+{
+    ist_store *s = NULL, *t = NULL;
+    ist_map *map = NULL;
+    ist_pairs *test = NULL;
+    ist_pairs_coverage cov;
+    ist_result_run runs[2];
+    ist_result_info info;
+    size_t nruns = 0, shared = 0;
+    char opts[2048], *mj = NULL, *text = NULL;
+    ist_error err;
+    int rc;
+
+    if (ist_map_load(a->map, &map, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    if ((rc = ac_open_stores(CMD, argv[0], argv[1], &s, &t)) != 0)
+        goto done;
+    if (ist_map_check(map, s, t, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    if ((rc = ac_read_pairs(CMD, "test", a->test, s, t, &test, &cov)) != 0 ||
+        (rc = ac_check_overlap(CMD, ist_map_seeds(map), test, a->c.allow_overlap, &shared)) != 0 ||
+        (rc = ac_score(CMD, ist_map_rounds(map) ? "refined" : "procrustes", &a->c, map, s, t,
+                       test, runs, &nruns)) != 0)
+        goto done;
+    ac_print_runs(runs, nruns);
+    if ((rc = fill_info(a, argv, map, test, &cov, shared, s, &info, opts, sizeof opts, &mj)) != 0)
+        goto done;
+    if (a->c.json_out && ist_result_write(a->c.json_out, &info, runs, nruns, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    if (ist_result_render(&info, runs, nruns, &a->gate.ci, &text, &err) != IST_OK ||
+        ist_gate_result_parse(text, strlen(text), "(scored now)", out, &err) != IST_OK)
+        rc = cli_report(CMD, &err);
+done:
+    for (size_t i = 0; i < nruns; i++)
+        ist_metrics_release(&runs[i].m);
+    ist_result_free_text(text);
+    ist_map_free_text(mj);
+    ist_map_free(map);
+    ist_pairs_free(test);
+    ist_store_free(s);
+    ist_store_free(t);
+    return rc;
+}
+
+static int
+parse_args(int argc, char **argv, args *a)
+{
+    static const struct option opts[] = {
+        {"thresholds", required_argument, NULL, OPT_THRESHOLDS},
+        {"baseline", required_argument, NULL, OPT_BASELINE},
+        {"verdict-out", required_argument, NULL, OPT_VERDICT},
+        {"resamples", required_argument, NULL, OPT_RESAMPLES},
+        {"seed", required_argument, NULL, OPT_SEED},
+        {"map", required_argument, NULL, OPT_MAP},
+        {"test", required_argument, NULL, OPT_TEST},
+        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
+        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
+        {"memory", required_argument, NULL, AC_OPT_MEMORY},
+        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        {"bands", required_argument, NULL, AC_OPT_BANDS},
+        {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
+        {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
+        {"help", no_argument, NULL, 'h'},
+        {NULL, 0, NULL, 0},
+    };
+    int o;
+
+    while ((o = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+        switch (o) {
+        case OPT_THRESHOLDS: a->thresholds = optarg; break;
+        case OPT_BASELINE: a->baseline = optarg; break;
+        case OPT_VERDICT: a->verdict = optarg; break;
+        case OPT_MAP: a->map = optarg; break;
+        case OPT_TEST: a->test = optarg; break;
+        case OPT_RESAMPLES:
+            if (!cli_parse_size(CMD, "--resamples", optarg, 1, 1000000, &a->gate.ci.resamples))
+                return CLI_EXIT_USAGE;
+            break;
+        case OPT_SEED:
+            if (!cli_parse_u64(CMD, "--seed", optarg, 0, UINT64_MAX, &a->gate.ci.seed))
+                return CLI_EXIT_USAGE;
+            break;
+        case 'h': help(stdout); return -1;
+        default:
+            if (o >= 1000 && ac_common_option(CMD, &a->c, o, optarg))
+                break;
+            if (o >= 1000)
+                return CLI_EXIT_USAGE;
+            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        }
+    }
+    if (!a->thresholds)
+        return cli_usage_error(CMD, "expected --thresholds=FILE");
+    if (!a->map != !a->test)
+        return cli_usage_error(CMD, "expected both --map and --test to score vectors, or neither");
+    int want = a->map ? 2 : 1;
+    if (argc - optind != want)
+        return cli_usage_error(CMD, "expected %s, got %d argument%s",
+                               a->map ? "SRC and TGT vector files" : "one RESULT.json",
+                               argc - optind, argc - optind == 1 ? "" : "s");
+    return 0;
+}
+
+static int
+report(const args *a, const ist_verdict *v)
+{
+    char line[1024];
+    ist_error err;
+
+    for (size_t i = 0; i < ist_verdict_count(v); i++) {
+        ist_verdict_line(v, i, line, sizeof line);
+        printf("%s\n", line);
+    }
+    bool ok = ist_verdict_passed(v);
+    printf("gate: %s (%zu rules: %zu passed, %zu failed, %zu not checked)\n",
+           ok ? "PASS" : "FAIL", ist_verdict_count(v), ist_verdict_tally(v, IST_GATE_PASS),
+           ist_verdict_tally(v, IST_GATE_FAIL), ist_verdict_tally(v, IST_GATE_SKIP));
+    fflush(stdout);
+    if (a->verdict && ist_verdict_write(v, a->verdict, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    return ok ? CLI_EXIT_OK : CLI_EXIT_GATE;
+}
+
+static int
+run(int argc, char **argv)
+{
+    ist_thresholds *rules = NULL;
+    ist_gate_result *res = NULL, *base = NULL;
+    ist_verdict *v = NULL;
+    ist_error err;
+    args a;
+    int rc;
+
+    memset(&a, 0, sizeof a);
+    ist_gate_opts_init(&a.gate);
+    ac_common_init(&a.c, AC_BOTH);
+    if ((rc = parse_args(argc, argv, &a)) != 0)
+        return rc < 0 ? CLI_EXIT_OK : rc;
+    if (ist_thresholds_read(a.thresholds, &rules, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    if (a.baseline && ist_gate_result_load(a.baseline, &base, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    if (a.map)
+        rc = compute(&a, argv + optind, &res);
+    else if (ist_gate_result_load(argv[optind], &res, &err) != IST_OK)
+        rc = cli_report(CMD, &err);
+    if (rc != 0)
+        goto done;
+    if (ist_gate_evaluate(rules, res, base, &a.gate, &v, &err) != IST_OK) {
+        rc = cli_report(CMD, &err);
+        goto done;
+    }
+    rc = report(&a, v);
+done:
+    ist_verdict_free(v);
+    ist_gate_result_free(res);
+    ist_gate_result_free(base);
+    ist_thresholds_free(rules);
+    return rc;
+}
+
+const cli_command cmd_gate = {"gate", "check a result against thresholds and a baseline", run,
+                              help};
