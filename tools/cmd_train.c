@@ -262,6 +262,11 @@ run(int argc, char **argv)
         return st;
     if ((st = check_inputs(argc - optind, argv + optind, &a)) >= 0)
         return st;
+    /* refuse an output that cannot be written before spending the training time */
+    if (!cli_output_dir_ok("train", a.out) ||
+        (a.ctx_out && !cli_output_dir_ok("train", a.ctx_out)) ||
+        (a.text_out && !cli_output_dir_ok("train", a.text_out)))
+        return CLI_EXIT_ERROR;
 
     ist_corpus *corpus = NULL;
     ist_matrix *in = NULL, *ctx = NULL;
