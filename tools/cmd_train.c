@@ -282,6 +282,13 @@ run(int argc, char **argv)
     const ist_vocab *v = ist_corpus_vocab(corpus);
     size_t types = ist_vocab_size(v);
     uint64_t tokens = ist_vocab_total(v);
+    if (types == 0) {
+        fprintf(stderr, "isthmus train: %s%s: no word to train on (a raw-text input keeps words "
+                "seen at least %llu times, --min-freq)\n", argv[optind],
+                argc - optind > 1 ? " ..." : "", (unsigned long long)a.co.min_count);
+        ist_corpus_free(corpus);
+        return CLI_EXIT_ERROR;
+    }
     uint64_t *counts = calloc(types ? types : 1, sizeof *counts);
     if (!counts) {
         ist_corpus_free(corpus);
