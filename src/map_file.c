@@ -330,20 +330,32 @@ read_side(const ist_jv *side, const char *path, const char *name, size_t dim,
     mv = ist_malloc((nc * dim + 1) * sizeof *mv);
     if (!mv)
         return ist_error_nomem(err);
-    for (size_t i = 0; i < nc * dim; i++)
+    for (size_t i = 0; i < nc * dim; i++) {
         mv[i] = get_f64(*means + 8 * i);
+        if (!isfinite(mv[i])) {
+            ist_free(mv);
+            return ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                                "map %s mean holds a number that is not finite", name);
+        }
+    }
     *means += nc * dim * 8;
     rc = ist_norm_from_steps(dim, kinds, n, mv, plan, err);
     ist_free(mv);
     return rc;
 }
 
-static void
+/* False when an entry is not a finite float32 (NaN, infinite, or beyond float range). */
+static bool
 read_matrix(ist_matrix *w, const unsigned char *p)
 {
     for (size_t i = 0; i < w->rows; i++)
-        for (size_t j = 0; j < w->cols; j++)
-            w->data[i * w->stride + j] = (float)get_f64(p + 8 * (i * w->cols + j));
+        for (size_t j = 0; j < w->cols; j++) {
+            double d = get_f64(p + 8 * (i * w->cols + j));
+            if (!isfinite(d) || fabs(d) > 3.4e38)
+                return false;
+            w->data[i * w->stride + j] = (float)d;
+        }
+    return true;
 }
 
 static ist_status
@@ -428,8 +440,11 @@ parse_map(const unsigned char *p, size_t len, const char *path, ist_map *m, ist_
     if ((rc = ist_matrix_new(dim, dim, &m->w, err)) != IST_OK ||
         (rc = ist_matrix_new(dim, dim, &m->w0, err)) != IST_OK)
         goto done;
-    read_matrix(m->w, mat);
-    read_matrix(m->w0, mat + (size_t)dim * dim * 8);
+    if (!read_matrix(m->w, mat) || !read_matrix(m->w0, mat + (size_t)dim * dim * 8)) {
+        rc = ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                          "map matrix holds a number that is not finite");
+        goto done;
+    }
     rc = read_side(ist_jv_get(meta, "source"), path, "source", dim, &means, end, &m->fp_s,
                    &m->rows_s, &m->ns, err);
     if (rc == IST_OK)

@@ -172,6 +172,37 @@ map_lying_header(void **state)
     free(good);
 }
 
+/* A NaN or an infinity in the matrix or in a mean (checksum recomputed) is refused; a number
+ * beyond double range in the metadata is refused by the JSON reader. */
+static void
+map_non_finite(void **state)
+{
+    char *good = make_map();
+    size_t n;
+    unsigned char *b = read_file(good, &n), *c = malloc(n);
+    uint64_t ml;
+    double nan_ = NAN, inf_ = INFINITY;
+
+    (void)state;
+    memcpy(&ml, b + 16, 8);
+    size_t mat = 24 + (size_t)ml + (8 - (24 + (size_t)ml) % 8) % 8;
+    memcpy(c, b, n);
+    memcpy(c + mat + 8 * 5, &nan_, 8);                     /* W[1][1] */
+    expect_bad_map("nan.map", c, n, "map matrix holds a number that is not finite");
+    memcpy(c, b, n);
+    memcpy(c + mat + 16 * 8 + 8 * 3, &inf_, 8);            /* the seed-only matrix */
+    expect_bad_map("inf.map", c, n, "map matrix holds a number that is not finite");
+    memcpy(c, b, n);
+    memcpy(c + mat + 32 * 8, &nan_, 8);                    /* first source mean */
+    expect_bad_map("mean.map", c, n, "map source mean holds a number that is not finite");
+    memcpy(c, b, n);
+    patch(c, n, "\"rows\": 6,\n    ", "\"rows\":1e999,\n ");
+    expect_bad_map("big.map", c, n, "big.map:7: number out of range: 1e999");
+    free(c);
+    free(b);
+    free(good);
+}
+
 /* Regression: a negative or huge count in the metadata was cast from double to size_t
  * (undefined behaviour); now it is refused. */
 static void
@@ -458,6 +489,7 @@ main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test_setup_teardown(map_lying_header, setup, teardown),
         cmocka_unit_test_setup_teardown(map_bad_counts, setup, teardown),
+        cmocka_unit_test_setup_teardown(map_non_finite, setup, teardown),
         cmocka_unit_test_setup_teardown(pairs_control_characters, setup, teardown),
         cmocka_unit_test_setup_teardown(pairs_bom_on_later_lines, setup, teardown),
         cmocka_unit_test_setup_teardown(prep_lying_header, setup, teardown),
