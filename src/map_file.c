@@ -277,6 +277,25 @@ read_whole(const char *path, unsigned char **out, size_t *len, ist_error *err)
     return IST_OK;
 }
 
+/* A count in the metadata: absent is 0; otherwise a whole number from 0 to 2^53 (a plain
+ * cast of a negative or huge double to size_t is undefined behaviour). */
+static ist_status
+get_count(const ist_jv *v, const char *path, const char *what, size_t *out, ist_error *err)
+{
+    double d = ist_jv_num(v, 0);
+
+    *out = 0;
+    if (v && ist_jv_type(v) != IST_JNUM)
+        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(v),
+                            "map metadata: %s: expected a number", what);
+    if (!(d >= 0 && d <= 9007199254740992.0) || d != floor(d))
+        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(v),
+                            "map metadata: %s: expected a whole number from 0 to 2^53, found %g",
+                            what, d);
+    *out = (size_t)d;
+    return IST_OK;
+}
+
 static ist_status
 read_side(const ist_jv *side, const char *path, const char *name, size_t dim,
           const unsigned char **means, const unsigned char *end, uint64_t *fp, size_t *rows,
@@ -293,7 +312,8 @@ read_side(const ist_jv *side, const char *path, const char *name, size_t dim,
         return ist_error_at(err, IST_ERR_FORMAT, path, 0,
                             "map metadata: expected '%s' with a fingerprint and steps", name);
     *fp = strtoull(fps, NULL, 16);
-    *rows = (size_t)ist_jv_num(ist_jv_get(side, "rows"), 0);
+    if ((rc = get_count(ist_jv_get(side, "rows"), path, "rows", rows, err)) != IST_OK)
+        return rc;
     for (size_t i = 0; i < n; i++) {
         const char *k = ist_jv_str(ist_jv_at(steps, i), "");
         if (strcmp(k, "unit") == 0)
@@ -310,20 +330,32 @@ read_side(const ist_jv *side, const char *path, const char *name, size_t dim,
     mv = ist_malloc((nc * dim + 1) * sizeof *mv);
     if (!mv)
         return ist_error_nomem(err);
-    for (size_t i = 0; i < nc * dim; i++)
+    for (size_t i = 0; i < nc * dim; i++) {
         mv[i] = get_f64(*means + 8 * i);
+        if (!isfinite(mv[i])) {
+            ist_free(mv);
+            return ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                                "map %s mean holds a number that is not finite", name);
+        }
+    }
     *means += nc * dim * 8;
     rc = ist_norm_from_steps(dim, kinds, n, mv, plan, err);
     ist_free(mv);
     return rc;
 }
 
-static void
+/* False when an entry is not a finite float32 (NaN, infinite, or beyond float range). */
+static bool
 read_matrix(ist_matrix *w, const unsigned char *p)
 {
     for (size_t i = 0; i < w->rows; i++)
-        for (size_t j = 0; j < w->cols; j++)
-            w->data[i * w->stride + j] = (float)get_f64(p + 8 * (i * w->cols + j));
+        for (size_t j = 0; j < w->cols; j++) {
+            double d = get_f64(p + 8 * (i * w->cols + j));
+            if (!isfinite(d) || fabs(d) > 3.4e38)
+                return false;
+            w->data[i * w->stride + j] = (float)d;
+        }
+    return true;
 }
 
 static ist_status
@@ -331,14 +363,19 @@ read_rounds(ist_map *m, const ist_jv *meta, const char *path, ist_error *err)
 {
     const ist_jv *ref = ist_jv_get(meta, "refinement"), *rounds = ist_jv_get(ref, "rounds");
     const ist_jv *fit = ist_jv_get(meta, "seed_fit");
+    ist_status rc;
 
-    m->refine_vocab = (size_t)ist_jv_num(ist_jv_get(ref, "vocabulary"), 0);
-    m->neighbourhood = (size_t)ist_jv_num(ist_jv_get(ref, "neighbourhood"), 0);
+    if ((rc = get_count(ist_jv_get(ref, "vocabulary"), path, "vocabulary", &m->refine_vocab,
+                        err)) != IST_OK ||
+        (rc = get_count(ist_jv_get(ref, "neighbourhood"), path, "neighbourhood",
+                        &m->neighbourhood, err)) != IST_OK)
+        return rc;
     for (size_t i = 0; i < ist_jv_len(rounds) && i < IST_MAP_MAX_ROUNDS; i++) {
         const ist_jv *r = ist_jv_at(rounds, i);
         ist_align_round *d = &m->rounds[m->nrounds++];
-        d->round = (size_t)ist_jv_num(ist_jv_get(r, "round"), 0);
-        d->pairs = (size_t)ist_jv_num(ist_jv_get(r, "pairs"), 0);
+        if ((rc = get_count(ist_jv_get(r, "round"), path, "round", &d->round, err)) != IST_OK ||
+            (rc = get_count(ist_jv_get(r, "pairs"), path, "pairs", &d->pairs, err)) != IST_OK)
+            return rc;
         d->mean_csls = ist_jv_num(ist_jv_get(r, "mean_csls"), NAN);
         d->seed_cos = ist_jv_num(ist_jv_get(r, "mean_cosine"), NAN);
         d->orth_error = ist_jv_num(ist_jv_get(r, "orthogonality_error"), NAN);
@@ -361,7 +398,9 @@ read_rounds(ist_map *m, const ist_jv *meta, const char *path, ist_error *err)
         if (ist_pairs_add(m->seeds, a, b, err) != IST_OK)
             return IST_ERR_NOMEM;
     }
-    m->seed_n = (size_t)ist_jv_num(ist_jv_get(ist_jv_get(meta, "seeds"), "pairs"), 0);
+    if ((rc = get_count(ist_jv_get(ist_jv_get(meta, "seeds"), "pairs"), path, "seed pairs",
+                        &m->seed_n, err)) != IST_OK)
+        return rc;
     m->seed_ck = strtoull(ist_jv_str(ist_jv_get(ist_jv_get(meta, "seeds"), "checksum"), "0"),
                           NULL, 16);
     return IST_OK;
@@ -401,8 +440,11 @@ parse_map(const unsigned char *p, size_t len, const char *path, ist_map *m, ist_
     if ((rc = ist_matrix_new(dim, dim, &m->w, err)) != IST_OK ||
         (rc = ist_matrix_new(dim, dim, &m->w0, err)) != IST_OK)
         goto done;
-    read_matrix(m->w, mat);
-    read_matrix(m->w0, mat + (size_t)dim * dim * 8);
+    if (!read_matrix(m->w, mat) || !read_matrix(m->w0, mat + (size_t)dim * dim * 8)) {
+        rc = ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                          "map matrix holds a number that is not finite");
+        goto done;
+    }
     rc = read_side(ist_jv_get(meta, "source"), path, "source", dim, &means, end, &m->fp_s,
                    &m->rows_s, &m->ns, err);
     if (rc == IST_OK)

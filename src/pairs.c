@@ -134,18 +134,28 @@ parse_line(ist_pairs *p, const char *path, char *line, size_t len, uint64_t line
     const char *f[3];
     size_t fl[3], nf = 0, i = 0, bad;
 
-    if (lineno == 1 && len >= 3 && memcmp(line, "\xef\xbb\xbf", 3) == 0) {
-        line += 3;
-        len -= 3;
+    /* a byte order mark is skipped at the start of any line, not only the first: lists
+     * joined with cat(1) carry one per part, and a source word never starts with one
+     * (so a saved list reads back the same) */
+    for (;;) {
+        if (i < len && (line[i] == ' ' || line[i] == '\t'))
+            i++;
+        else if (len - i >= 3 && memcmp(line + i, "\xef\xbb\xbf", 3) == 0)
+            i += 3;
+        else
+            break;
     }
-    while (i < len && (line[i] == ' ' || line[i] == '\t'))
-        i++;
     if (i == len || line[i] == '#')
         return IST_OK;
     bad = utf8_bad_at((const unsigned char *)line, len);
     if (bad < len)
         return ist_error_at(err, IST_ERR_FORMAT, path, lineno,
                             "invalid UTF-8 at byte %zu of the line", bad + 1);
+    for (size_t k = 0; k < len; k++)   /* a NUL would cut a word short; none is a word */
+        if ((unsigned char)line[k] < 0x20 && line[k] != '\t')
+            return ist_error_at(err, IST_ERR_FORMAT, path, lineno,
+                                "control character 0x%02x at byte %zu of the line",
+                                (unsigned)(unsigned char)line[k], k + 1);
     while (i < len) {
         size_t st = i;
         while (i < len && line[i] != ' ' && line[i] != '\t')

@@ -274,8 +274,10 @@ static ist_status
 run_workers(worker *ws, unsigned nw, ist_error *err)
 {
     unsigned started = 0;
-    if (nw > 1)
-        openblas_set_num_threads(1);
+    /* our threads are the parallelism, also when there is one: a tile multiplied by a
+     * threaded BLAS is split differently and its scores differ in the last bits, so
+     * --threads=1 and --threads=2 would not give the same result file */
+    openblas_set_num_threads(1);
     for (unsigned w = 1; w < nw; w++) {
         if (pthread_create(&ws[w].tid, NULL, work, &ws[w]) != 0)
             break;   /* fewer helpers; the others take their tiles */

@@ -52,7 +52,6 @@ ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
         ist_jw_uint(&w, "words_seen", res->words_seen);
         ist_jw_uint(&w, "words_trained", res->words_trained);
         ist_jw_uint(&w, "pairs", res->pairs);
-        ist_jw_num(&w, "seconds", res->seconds);
         ist_jw_num(&w, "final_loss", res->final_loss);
         ist_jw_obj_end(&w);
     }

@@ -7,6 +7,7 @@
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <time.h>
 #include <unistd.h>
 
@@ -146,6 +147,28 @@ cli_install_signals(void)
     sigemptyset(&sa.sa_mask);
     sigaction(SIGINT, &sa, NULL);
     sigaction(SIGTERM, &sa, NULL);
+}
+
+bool
+cli_output_dir_ok(const char *cmd, const char *path)
+{
+    char dir[4096];
+    const char *slash = strrchr(path, '/');
+    struct stat st;
+
+    if (stat(path, &st) == 0 && !S_ISREG(st.st_mode) && !S_ISDIR(st.st_mode))
+        return true;   /* a device or a pipe: written in place */
+    if (slash && (size_t)(slash - path) >= sizeof dir)
+        return true;   /* let the writer report it */
+    if (slash) {
+        memcpy(dir, path, (size_t)(slash - path));
+        dir[slash - path] = '\0';
+    }
+    if (access(!slash ? "." : slash == path ? "/" : dir, W_OK) == 0)
+        return true;
+    fprintf(stderr, "isthmus %s: %s: cannot write in its directory (%s)\n", cmd, path,
+            strerror(errno));
+    return false;
 }
 
 double

@@ -58,6 +58,11 @@ bool cli_parse_choice(const char *cmd, const char *opt, const char *s,
  * Ctrl-C exits at once. */
 void cli_install_signals(void);
 
+/* Before long work: can a file be created next to path (in its directory)? If not, print
+ * "isthmus CMD: PATH: cannot write in its directory (REASON)" and return false. Devices
+ * such as /dev/full are written in place and pass. */
+bool cli_output_dir_ok(const char *cmd, const char *path);
+
 /* Progress on stderr: one "\r" line, at most 4 updates a second, cleared by
  * cli_progress_done(). Shown only when stderr is a terminal (or
  * --progress=always) and not -q. */

@@ -195,6 +195,13 @@ run(int argc, char **argv)
     if (rc != IST_OK)
         return cli_report("prepare", &err);
     double secs = cli_now() - t0;
+    if (ist_vocab_size(ist_corpus_vocab(corpus)) == 0) {
+        fprintf(stderr, "isthmus prepare: %s%s: no word seen at least %llu times (--min-freq); "
+                "nothing written\n", argv[optind], argc - optind > 1 ? " ..." : "",
+                (unsigned long long)o.min_count);
+        ist_corpus_free(corpus);
+        return CLI_EXIT_ERROR;
+    }
     if (ist_corpus_save(corpus, out, &err) != IST_OK) {
         ist_corpus_free(corpus);
         return cli_report("prepare", &err);

@@ -262,6 +262,11 @@ run(int argc, char **argv)
         return st;
     if ((st = check_inputs(argc - optind, argv + optind, &a)) >= 0)
         return st;
+    /* refuse an output that cannot be written before spending the training time */
+    if (!cli_output_dir_ok("train", a.out) ||
+        (a.ctx_out && !cli_output_dir_ok("train", a.ctx_out)) ||
+        (a.text_out && !cli_output_dir_ok("train", a.text_out)))
+        return CLI_EXIT_ERROR;
 
     ist_corpus *corpus = NULL;
     ist_matrix *in = NULL, *ctx = NULL;
@@ -277,6 +282,13 @@ run(int argc, char **argv)
     const ist_vocab *v = ist_corpus_vocab(corpus);
     size_t types = ist_vocab_size(v);
     uint64_t tokens = ist_vocab_total(v);
+    if (types == 0) {
+        fprintf(stderr, "isthmus train: %s%s: no word to train on (a raw-text input keeps words "
+                "seen at least %llu times, --min-freq)\n", argv[optind],
+                argc - optind > 1 ? " ..." : "", (unsigned long long)a.co.min_count);
+        ist_corpus_free(corpus);
+        return CLI_EXIT_ERROR;
+    }
     uint64_t *counts = calloc(types ? types : 1, sizeof *counts);
     if (!counts) {
         ist_corpus_free(corpus);

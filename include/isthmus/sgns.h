@@ -114,7 +114,7 @@ IST_API ist_status ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint6
  *   "training":{"method":"skip-gram negative sampling","dimension":..,"context":..,
  *   "noise_samples":..,"noise_power":0.75,"passes":..,"rate":..,"subsample":..,"threads":..,
  *   "seed":..,"kernel":"fast"|"reference","simd":..,"keep_context":..},
- *  "result":{"words_seen":..,"words_trained":..,"pairs":..,"seconds":..,"final_loss":..}}.
+ *  "result":{"words_seen":..,"words_trained":..,"pairs":..,"final_loss":..}}.
  *  text_json and sources_json are inserted as they are (valid JSON, or NULL for null);
  *  res may be NULL. *json is owned by the caller: release with ist_sgns_free(). */
 IST_API ist_status ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
