@@ -23,7 +23,7 @@ check() {   # description, command...
     if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
         echo "not ok $n - $desc"; failed=$((failed + 1)); fi
 }
-echo "1..7"
+echo "1..10"
 # 300 KB of each demo corpus: a few thousand words, trained in well under a second
 gzip -dc "$data/tillwick-en.txt.gz" | head -c 300000 > en.txt
 gzip -dc "$data/tillwick-es.txt.gz" | head -c 300000 > es.txt
@@ -56,5 +56,17 @@ test -s r2.json && sed 's/"threads":[0-9]*,//' r2.json > r2.masked
 check "score: result JSON identical with 1 and 2 threads (but the recorded thread count)" \
     same r1.masked r2.masked
 check "score: the printed table identical with 1 and 2 threads" same s1.out s2.out
+"$isthmus" -q gate --thresholds="$data/demo-gate.thresholds" --verdict-out=v1.json r1.json \
+    >/dev/null 2>&1
+"$isthmus" -q gate --thresholds="$data/demo-gate.thresholds" --verdict-out=v1b.json r1.json \
+    >/dev/null 2>&1
+check "gate: verdict JSON byte-identical on a rerun" same v1.json v1b.json
+"$isthmus" -q report r1.json --verdict=v1.json -o p1.html >/dev/null 2>&1
+"$isthmus" -q report r1.json --verdict=v1.json -o p1b.html >/dev/null 2>&1
+check "report: HTML byte-identical on a rerun (no timestamp in the page)" same p1.html p1b.html
+for t in 1 2; do
+    "$isthmus" -q propose en1.isv es1.isv --map=m1.map --threads=$t -o c$t.tsv >/dev/null 2>&1
+done
+check "propose: candidate list identical with 1 and 2 threads" same c1.tsv c2.tsv
 echo "# determinism: $((n - failed)) passed, $failed failed"
 [ $failed -eq 0 ]
