@@ -24,8 +24,8 @@
  *   (Levy & Goldberg 2014, "Neural Word Embedding as Implicit Matrix Factorization").
  * - Threads update the shared matrices without locks ("Hogwild", Recht et al. 2011).
  * - The FAST kernel shares one set of k noise words across all contexts of a window, so that a
- *   window's updates become small dense matrix products (Ji et al. 2016, "Parallelizing
- *   Word2Vec in Shared and Distributed Memory", arXiv 1604.04661): with X the rows of the
+ *   window's updates become small dense matrix products (Ji et al. 2016, shared- and
+ *   distributed-memory parallel SGNS, arXiv 1604.04661): with X the rows of the
  *   window's context words and Y the rows of [centre word; noise words],
  *   S = X Y^T, G = lr (L - s(S)) (L = 1 in the first column, 0 elsewhere),
  *   dX = G Y, dY = G^T X. The REFERENCE kernel is the plain per-pair loop with fresh noise
