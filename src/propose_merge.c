@@ -251,6 +251,24 @@ word_ok(const char *w)
     return *w && !strpbrk(w, " \t\r");
 }
 
+/* Offset of a U+FEFF inside the line (after any leading one was skipped), or SIZE_MAX. */
+static size_t
+bom_at(const char *line)
+{
+    const char *p = strstr(line, "\xef\xbb\xbf");
+    return p ? (size_t)(p - line) : SIZE_MAX;
+}
+
+/* Offset of the first control character other than a tab, or SIZE_MAX. */
+static size_t
+control_at(const char *line)
+{
+    for (size_t k = 0; line[k]; k++)
+        if ((unsigned char)line[k] < 0x20 && line[k] != '\t')
+            return k;
+    return SIZE_MAX;
+}
+
 /* Offset of the first byte that is not well-formed UTF-8, or len. */
 static size_t
 utf8_bad_at(const char *s, size_t len)
@@ -390,6 +408,15 @@ read_reviewed(merger *m, size_t file, ist_error *err)
         else if ((bad = utf8_bad_at(line, strlen(line))) < strlen(line))
             rc = ist_error_at(err, IST_ERR_FORMAT, path, no,
                               "invalid UTF-8 at byte %zu of the line", bad + 1);
+        else if ((bad = bom_at(line)) != SIZE_MAX)
+            /* pair lists skip a mark at the start of any line: a word cannot begin with one */
+            rc = ist_error_at(err, IST_ERR_FORMAT, path, no,
+                              "byte order mark (U+FEFF) at byte %zu of the line", bad + 1);
+        else if ((bad = control_at(line)) != SIZE_MAX)
+            /* the pair-list reader refuses these too: a merged file must read back */
+            rc = ist_error_at(err, IST_ERR_FORMAT, path, no,
+                              "control character 0x%02x at byte %zu of the line",
+                              (unsigned)(unsigned char)line[bad], bad + 1);
         if (rc != IST_OK || line[0] == '#' || line[strspn(line, " \t")] == '\0')
             continue;
         size_t nf = split_tabs(line, f, MAX_FIELDS);
