@@ -2,6 +2,7 @@
  * hub, skewness, isometry of rotated and of unrelated spaces, worst misses,
  * similarity histograms, and their place in the result JSON. */
 #include "harness.h"
+#include "synth.h"
 
 #include <math.h>
 #include <string.h>
@@ -10,14 +11,6 @@
 #include <isthmus/testing.h>
 
 #include "json_int.h"
-
-static double
-gauss(uint64_t *s)
-{
-    double u = (harness_rand(s) >> 11) * (1.0 / 9007199254740992.0) + 1e-300;
-    double v = (harness_rand(s) >> 11) * (1.0 / 9007199254740992.0);
-    return sqrt(-2.0 * log(u)) * cos(6.283185307179586 * v);
-}
 
 static void
 unit_row(float *r, size_t d)
