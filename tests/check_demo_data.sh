@@ -7,7 +7,7 @@ set -u
 src=$1
 work=$2
 full=${3:-}
-gen="$src/tools/make-demo.py"
+gen="$src/tools/dev/make-demo.py"
 data="$src/data-samples"
 rm -rf "$work/a" "$work/b" "$work/full"
 mkdir -p "$work"

@@ -17,7 +17,7 @@ root = sys.argv[1]
 
 def load(name):
     spec = importlib.util.spec_from_file_location(name.replace("-", "_"),
-                                                  os.path.join(root, "tools", name + ".py"))
+                                                  os.path.join(root, "tools", "dev", name + ".py"))
     mod = importlib.util.module_from_spec(spec)
     spec.loader.exec_module(mod)
     return mod
@@ -99,7 +99,7 @@ with tempfile.TemporaryDirectory() as d:
         "ok" if ok else "not ok", n, sorted(bad)))
     out = os.path.join(d, "out.pairs")
     import subprocess
-    subprocess.run([sys.executable, os.path.join(root, "tools", "extract-freedict.py"),
+    subprocess.run([sys.executable, os.path.join(root, "tools", "dev", "extract-freedict.py"),
                     "xx-yy", out, "--dir", d], check=False)
     pairs = open(out, encoding="utf-8").read().splitlines() if os.path.exists(out) else []
     want = ["a\tun", "a\tuna", "a\ten", "able\tcapaz", "able\thábil", "brazil\tbrasil"]

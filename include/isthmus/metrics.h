@@ -108,7 +108,7 @@ typedef struct ist_result_info {
 IST_API ist_status ist_result_write(const char *path, const ist_result_info *info,
                                     const ist_result_run *runs, size_t nruns, ist_error *err);
 
-/* ---- confidence intervals and per-query outcomes (src/result_ci.c) ------------------
+/* ---- confidence intervals and per-query outcomes (src/measure/result_ci.c) ------------------
  *
  * Percentile bootstrap intervals (Efron & Tibshirani 1993, "An Introduction to the
  * Bootstrap", ch. 13): the test queries are resampled with replacement B times, the

@@ -1,4 +1,4 @@
-/* diag_test.c - the diagnostics that need a test list: the worst misses under
+/* diag_gold.c - the diagnostics that need a test list: the worst misses under
  * CSLS and the cosine histograms of gold pairs vs random pairs. */
 #include <isthmus/diag.h>
 

@@ -17,7 +17,7 @@ def build(binary):
     cmds = [l.split()[0] for l in block.splitlines() if l.strip() and l.split()[0] != "help"]
     out = ["# Command reference", "",
            "Generated from `isthmus --help` and `isthmus help COMMAND` by",
-           "`tools/gen-reference.py`; the test suite checks that it matches the program.", "",
+           "`tools/dev/gen-reference.py`; the test suite checks that it matches the program.", "",
            "## isthmus", "", "```", top.rstrip(), "```", ""]
     for c in cmds:
         out += [f"## isthmus {c}", "", "```", helptext(binary, "help", c).rstrip(), "```", ""]
@@ -35,7 +35,7 @@ def main():
         ok = old == text
         print("1..1")
         print(("ok" if ok else "not ok") + " 1 - docs/reference.md matches the help texts"
-              + ("" if ok else " (run tools/gen-reference.py build/tools/isthmus docs/reference.md)"))
+              + ("" if ok else " (run tools/dev/gen-reference.py build/tools/isthmus docs/reference.md)"))
         print(f"# reference: {int(ok)} passed, {int(not ok)} failed")
         return 0 if ok else 1
     with open(path + ".tmp", "w", encoding="utf-8") as f:

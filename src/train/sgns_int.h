@@ -74,7 +74,7 @@ ist_sgns_noise_draw(const ist_sgns_noise *z, uint64_t *rng)
     return (i & own) | (c.alias & ~own);                              /* without a branch */
 }
 
-/* ---- vector kernels (src/sgns_kern.c); row lengths are multiples of 16 floats ------------- */
+/* ---- vector kernels (src/train/sgns_kern.c); row lengths are multiples of 16 floats ------------- */
 
 typedef struct ist_sgns_simd {
     const char *name;

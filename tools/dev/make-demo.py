@@ -1410,11 +1410,11 @@ def main():
     seed, test = word_lists(L, en_counts, es_counts, random.Random("%d-split" % args.seed), 5)
     n_seed = write_pairs(os.path.join(args.out, "demo-seed.pairs"), seed, [
         "Tillwick Goods demo (invented): English -> Spanish seed pairs for fitting the map.",
-        "Made by tools/make-demo.py --seed %d; no source word here is in demo-test.pairs."
+        "Made by tools/dev/make-demo.py --seed %d; no source word here is in demo-test.pairs."
         % args.seed])
     n_test = write_pairs(os.path.join(args.out, "demo-test.pairs"), test, [
         "Tillwick Goods demo (invented): English -> Spanish test pairs; a source word may",
-        "have several gold targets (agreement forms, synonyms). Made by tools/make-demo.py "
+        "have several gold targets (agreement forms, synonyms). Made by tools/dev/make-demo.py "
         "--seed %d." % args.seed])
     write_text(os.path.join(args.out, "tiny-en.txt"),
                tiny_table(L, random.Random("%d-tiny" % args.seed)))

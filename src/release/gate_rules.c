@@ -1,4 +1,4 @@
-/* gate.c - the thresholds file: one rule a line (docs/formats.md "Thresholds file"). */
+/* gate_rules.c - the thresholds file: one rule a line (docs/formats.md "Thresholds file"). */
 #include <isthmus/gate.h>
 
 #include <errno.h>

@@ -6,7 +6,7 @@
  * skipped (WB4's "X (Extend | Format | ZWJ)* -> X"), the length of the run of
  * Regional_Indicator before the position (WB15/16), and a look-ahead past the
  * next character for WB6, WB7b and WB12. Properties come from the table that
- * tools/gen-wordbreak.py generates at build time. */
+ * tools/dev/gen-wordbreak.py generates at build time. */
 #include <isthmus/text.h>
 
 #include <utf8proc.h>

@@ -4,7 +4,7 @@
  * Usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] [--repeat R]
  *                   [--only fast|reference DIM THREADS]
  *   --corpus F    a prepared corpus (isthmus prepare; $ISTHMUS_BENCH_CORPUS), e.g. the English
- *                 Bible from tools/extract-bible.py; its stream is repeated to N tokens
+ *                 Bible from tools/dev/extract-bible.py; its stream is repeated to N tokens
  *   --text FILE   words separated by spaces, one line per sentence, vocabulary pruned at
  *                 count 5 ($ISTHMUS_BENCH_TEXT). Without either, a synthetic Zipfian stream.
  *   --tokens N    stream length [default 10000000]
