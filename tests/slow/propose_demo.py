@@ -20,6 +20,8 @@ import os
 import subprocess
 import sys
 
+import trained
+
 # Floors, measured 2026-12-01 on a 2-core machine (d100, defaults otherwise, 1 training thread):
 # first candidate gold for 360 of 441 test words (81.6%, equal to score's CSLS P@1), a gold
 # target among the first 3 for 90.0%; right first candidates: 93.4% of the 350 mutual ones,
@@ -60,13 +62,13 @@ def main():
     isthmus, src, work = sys.argv[1:4]
     if subprocess.run([isthmus, "help", "train"], capture_output=True).returncode != 0:
         skip("this isthmus has no train command")
-    os.makedirs(work, exist_ok=True)
+    work = trained.workdir(work)
     data = os.path.join(src, "data-samples")
     vec = {}
     for lang in ("en", "es"):
         vec[lang] = os.path.join(work, lang + ".isv")
         if not os.path.exists(vec[lang]):
-            run([isthmus, "-q", "train", "--dimension", "100", "--threads", "1", "-o", vec[lang],
+            run([isthmus, "-q", "train", "--dimension", "100", *trained.train_flags(), "-o", vec[lang],
                  os.path.join(data, "tillwick-%s.txt.gz" % lang)])
     seeds, test = os.path.join(data, "demo-seed.pairs"), os.path.join(data, "demo-test.pairs")
     mp, res = os.path.join(work, "shop.map"), os.path.join(work, "score.json")
@@ -87,6 +89,8 @@ def main():
         any3 = {r["source"] for r in rows if r["source"] in gold and r["candidate"] in gold[r["source"]]}
         n = len(firsts)
         top1, top3 = 100.0 * sum(right) / n, 100.0 * len(any3) / n
+        trained.figure("%s:top1" % order, top1)
+        trained.figure("%s:top3" % order, top3)
         print("# %s: %d test words proposed; first candidate gold %d (%.1f%%), a gold target "
               "among the candidates %.1f%%" % (order, n, sum(right), top1, top3))
         if order == "informative":
@@ -99,6 +103,8 @@ def main():
             mut = [ok for r, ok in zip(firsts, right) if r["mutual"] == "yes"]
             non = [ok for r, ok in zip(firsts, right) if r["mutual"] != "yes"]
             pm, pn = 100.0 * sum(mut) / len(mut), 100.0 * sum(non) / max(1, len(non))
+            trained.figure("mutual-right", pm)
+            trained.figure("other-right", pn)
             print("# mutual first candidates: %d, %.1f%% right; others %d, %.1f%% right"
                   % (len(mut), pm, len(non), pn))
             checks.append(("mutual candidates more often right: %.1f%% > %.1f%%" % (pm, pn),
@@ -106,6 +112,8 @@ def main():
         else:
             half = n // 2
             a, b = 100.0 * sum(right[:half]) / half, 100.0 * sum(right[half:]) / (n - half)
+            trained.figure("certain:first-half", a)
+            trained.figure("certain:second-half", b)
             print("# certain order: first half %.1f%% right, second half %.1f%%" % (a, b))
             checks.append(("certain order puts right candidates first: %.1f%% > %.1f%%" % (a, b),
                            a > b))

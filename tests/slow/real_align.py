@@ -14,6 +14,8 @@ import os
 import subprocess
 import sys
 
+import trained
+
 # Floors, measured 2026-12-01 on a 2-core machine (d300, context 10, 20 passes, 2 training
 # threads, so training is not bit-reproducible). Three runs, CSLS P@1:
 #   en->es  Procrustes 33.4 / 32.6 / 32.3, refined 38.9 / 36.0 / 37.8  (cosine Procrustes 26.8-28.0)
@@ -47,18 +49,19 @@ def main():
     r = subprocess.run(["sh", fetch, data], capture_output=True, text=True)
     if r.returncode != 0:
         skip("real data not available: " + r.stderr.strip().replace("\n", " "))
+    tw = trained.workdir(work)
     for lang in ("en", "es"):
-        vec = os.path.join(work, lang + "-d300.isv")
+        vec = os.path.join(tw, lang + "-d300.isv")
         if not os.path.exists(vec):
-            run([isthmus, "-q", "train", "--dimension", "300", "--context", "10",
-                 "--passes", "20", "-o", vec, os.path.join(data, lang + ".txt")])
+            run([isthmus, "-q", "train", *trained.train_flags(), "--dimension", "300",
+                 "--context", "10", "--passes", "20", "-o", vec, os.path.join(data, lang + ".txt")])
     checks = []
     for s, t in (("en", "es"), ("es", "en")):
         name = s + "-" + t
-        out = os.path.join(work, name + ".json")
-        run([isthmus, "-q", "align", os.path.join(work, s + "-d300.isv"),
-             os.path.join(work, t + "-d300.isv"), "--seeds=" + os.path.join(data, name + ".pairs"),
-             "--hold-out=0.3333", "--split-seed=1", "-o", os.path.join(work, name + ".map"),
+        out = os.path.join(tw, name + ".json")
+        run([isthmus, "-q", "align", os.path.join(tw, s + "-d300.isv"),
+             os.path.join(tw, t + "-d300.isv"), "--seeds=" + os.path.join(data, name + ".pairs"),
+             "--hold-out=0.3333", "--split-seed=1", "-o", os.path.join(tw, name + ".map"),
              "--json-out=" + out], stdout=subprocess.DEVNULL)
         res = json.load(open(out))
         runs = {(x["label"], x["retrieval"]): x for x in res["runs"]}
@@ -67,6 +70,8 @@ def main():
                 name, label, method, x["queries"], 100 * x["precision"]["p@1"],
                 100 * x["precision"]["p@5"], 100 * x["precision"]["p@10"]))
         p1 = {k: 100 * v["precision"]["p@1"] for k, v in runs.items()}
+        for (label, method), v in sorted(p1.items()):
+            trained.figure("%s:%s:%s" % (name, label, method), v)
         for label, floor in FLOORS[name].items():
             checks.append(("%s CSLS P@1 %s %.1f >= %.1f" % (name, label, p1[(label, "csls")],
                                                            floor), p1[(label, "csls")] >= floor))

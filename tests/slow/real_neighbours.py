@@ -6,8 +6,8 @@ cosine, in both directions.
 
 The pairs were chosen as obvious for these texts (compass points, times of day, numbers, herd
 animals, metals, the animals and vehicles of the narratives) and checked on 2026-12-01 with
-the defaults (dimension 100, context 10, 20 passes) and with dimension 300: every pair below
-ranked the other at place 8 or better in both runs. Family words were tried and are NOT here:
+the defaults (dimension 100, context 10, 20 passes) and with dimension 300. Training uses one
+thread and a fixed seed (tests/slow/trained.py); the figures are judged against floors. Family words were tried and are NOT here:
 'son'/'daughter' ranked 366 and 194 (the genealogies put 'son' among names), 'father'/'mother'
 2 and 20 at dimension 300.
 
@@ -18,6 +18,8 @@ import os
 import subprocess
 import sys
 
+import trained
+
 PAIRS = {
     "en": [("north", "south"), ("east", "west"), ("morning", "evening"), ("hundred", "thousand"),
            ("two", "three"), ("sheep", "oxen"), ("bullocks", "rams"), ("lambs", "goats"),
@@ -26,6 +28,16 @@ PAIRS = {
            ("ovejas", "vacas"), ("becerros", "carneros"), ("corderos", "machos"),
            ("oro", "plata"), ("caballos", "carros"), ("camellos", "asnos")],
 }
+
+# Judged over all pairs, not pair by pair: a hard top-10 cut on each of 21 pairs failed on one
+# machine for a borderline pair. Measured 2026-12-02 with tools/dev/slow-spread.py over seeds
+# 1-5 x {native (avx2), portable} kernels, 1 training thread (docs/defaults.md, "Spread of the
+# slow checks"): pairs within the top 10 both ways 19-20 of 21 (mean 19.8); mean reciprocal
+# rank of the worse side 0.55-0.64; the worst single rank 28 (oro/plata, seed 5), then 16
+# (silver/gold) and 15 (dos/tres). The two kernel families gave the same ranks for every seed.
+FLOOR_TOP10 = 18     # pairs whose worse rank is 10 or better: one pair below the lowest run
+FLOOR_MRR = 0.45     # mean over pairs of 1 / worse rank: 0.10 below the lowest run
+LOOSE = 100          # every single pair: worse rank at most this (3.5x the worst seen)
 
 
 def skip(why):
@@ -59,12 +71,14 @@ def main():
     if r.returncode != 0:
         skip("real data not available: " + r.stderr.strip().replace("\n", " "))
     checks = []
+    tw = trained.workdir(work)
+    close, total, rr = 0, 0, 0.0
     for lang, pairs in PAIRS.items():
-        vec = os.path.join(work, lang + "-default.isv")
-        txt = os.path.join(work, lang + "-default.txt")
+        vec = os.path.join(tw, lang + "-default.isv")
+        txt = os.path.join(tw, lang + "-default.txt")
         if not os.path.exists(txt):
-            subprocess.run([isthmus, "-q", "train", "-o", vec, "--text-copy", txt,
-                            os.path.join(data, lang + ".txt")], check=True)
+            subprocess.run([isthmus, "-q", "train", *trained.train_flags(), "-o", vec,
+                            "--text-copy", txt, os.path.join(data, lang + ".txt")], check=True)
         ix, m = load(txt, np)
 
         def rank(a, b):
@@ -77,8 +91,19 @@ def main():
                 checks.append((f"{lang}: '{a}' and '{b}' are in the vocabulary", False))
                 continue
             ra, rb = rank(a, b), rank(b, a)
+            worst = max(ra, rb)
+            trained.figure(f"{lang}:{a}/{b}", worst)
+            total += 1
+            close += worst <= 10
+            rr += 1.0 / worst
             checks.append((f"{lang}: {b} is #{ra} of {a}'s neighbours, {a} #{rb} of {b}'s "
-                           "(top 10 both ways)", ra <= 10 and rb <= 10))
+                           f"(within the first {LOOSE} both ways)", worst <= LOOSE))
+    trained.figure("pairs-top10", close)
+    trained.figure("mean-reciprocal-rank", rr / max(1, total))
+    checks.append((f"{close} of {total} pairs within the top 10 both ways (at least {FLOOR_TOP10})",
+                   close >= FLOOR_TOP10))
+    checks.append((f"mean reciprocal rank of the worse side {rr / max(1, total):.3f} "
+                   f"(at least {FLOOR_MRR})", rr / max(1, total) >= FLOOR_MRR))
     print(f"1..{len(checks)}")
     failed = 0
     for i, (name, ok) in enumerate(checks, 1):
