@@ -19,7 +19,8 @@ except ImportError:
     print("1..0 # SKIP numpy is missing (Debian package python3-numpy)")
     sys.exit(77)
 
-isthmus_exe, dump_exe, root, work = sys.argv[1:5]
+isthmus_exe, dump_exe, root, work = [os.path.abspath(a) for a in sys.argv[1:5]]
+sys.dont_write_bytecode = True          # leave no __pycache__ in the source tree
 sys.path.insert(0, os.path.join(root, "tools", "python"))
 import isthmus  # noqa: E402
 
