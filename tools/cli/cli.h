@@ -63,6 +63,20 @@ void cli_install_signals(void);
  * such as /dev/full are written in place and pass. */
 bool cli_output_dir_ok(const char *cmd, const char *path);
 
+/* Before any work, with every file the command reads and writes (NULL entries and "-"
+ * skipped): refuse an output that is one of the inputs, compared by device and inode
+ * however the paths are spelt ("isthmus CMD: output 'A' is the input 'B' ..."), and two
+ * outputs naming one file (exit 2); refuse an output whose directory cannot be written
+ * (cli_output_dir_ok, exit 1). Devices such as /dev/null pass. Returns 0 to go on. */
+int cli_check_files(const char *cmd, const char *const *inputs, size_t nin,
+                    const char *const *outputs, size_t nout);
+
+/* After the command returned rc (main calls it once): check that standard output took
+ * every byte, then move the command's finished output files into place as one group
+ * (exit 0 or 3) or remove them (any other status), saying exactly what was written
+ * when that is not all or nothing. Returns the final exit status. */
+int cli_finish(const char *cmd, int rc);
+
 /* Progress on stderr: one "\r" line, at most 4 updates a second, cleared by
  * cli_progress_done(). Shown only when stderr is a terminal (or
  * --progress=always) and not -q. */

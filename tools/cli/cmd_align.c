@@ -353,6 +353,10 @@ run(int argc, char **argv)
         return rc < 0 ? CLI_EXIT_OK : rc;
     a.src = argv[optind];
     a.tgt = argv[optind + 1];
+    const char *ins[] = {a.src, a.tgt, a.seeds, a.test};
+    const char *outs[] = {a.out, a.mapped, a.write_test, a.c.json_out};
+    if ((rc = cli_check_files(CMD, ins, 4, outs, 4)) != 0)
+        return rc;
     if ((rc = ac_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
         return rc;
     if ((rc = build_seeds(&a, s, t, &seeds, &test, &tcov)) != 0)

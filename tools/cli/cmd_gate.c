@@ -237,6 +237,11 @@ run(int argc, char **argv)
     ac_common_init(&a.c, AC_BOTH);
     if ((rc = parse_args(argc, argv, &a)) != 0)
         return rc < 0 ? CLI_EXIT_OK : rc;
+    const char *ins[] = {a.thresholds, a.baseline, a.map, a.test, argv[optind],
+                         a.map ? argv[optind + 1] : NULL};
+    const char *outs[] = {a.verdict, a.c.json_out};
+    if ((rc = cli_check_files(CMD, ins, 6, outs, 2)) != 0)
+        return rc;
     if (ist_thresholds_read(a.thresholds, &rules, &err) != IST_OK)
         return cli_report(CMD, &err);
     if (a.baseline && ist_gate_result_load(a.baseline, &base, &err) != IST_OK) {

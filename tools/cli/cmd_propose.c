@@ -170,6 +170,11 @@ run(int argc, char **argv)
     memset(&a, 0, sizeof a);
     if ((rc = parse(argc, argv, &a)) != 0)
         return rc < 0 ? CLI_EXIT_OK : rc;
+    const char *ins[MAX_LISTS + 3] = {a.src, a.tgt, a.map};
+    for (size_t i = 0; i < a.nlists; i++)
+        ins[3 + i] = a.lists[i];
+    if ((rc = cli_check_files(CMD, ins, 3 + a.nlists, &a.out, 1)) != 0)
+        return rc;
     for (size_t i = 0; i < a.nlists; i++)
         if (ist_pairs_read(a.lists[i], &lists[i], &err) != IST_OK) {
             rc = cli_report(CMD, &err);

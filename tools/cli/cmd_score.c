@@ -138,6 +138,9 @@ run(int argc, char **argv)
                                argc - optind, argc - optind == 1 ? "" : "s");
     if (!mpath || !tpath)
         return cli_usage_error(CMD, "expected --map=MAP and --test=FILE");
+    const char *ins[] = {argv[optind], argv[optind + 1], mpath, tpath};
+    if ((rc = cli_check_files(CMD, ins, 4, &c.json_out, 1)) != 0)
+        return rc;
     if (ist_map_load(mpath, &map, &err) != IST_OK)
         return cli_report(CMD, &err);
     if ((rc = ac_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)

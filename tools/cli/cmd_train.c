@@ -263,10 +263,10 @@ run(int argc, char **argv)
     if ((st = check_inputs(argc - optind, argv + optind, &a)) >= 0)
         return st;
     /* refuse an output that cannot be written before spending the training time */
-    if (!cli_output_dir_ok("train", a.out) ||
-        (a.ctx_out && !cli_output_dir_ok("train", a.ctx_out)) ||
-        (a.text_out && !cli_output_dir_ok("train", a.text_out)))
-        return CLI_EXIT_ERROR;
+    const char *outs[] = {a.out, a.ctx_out, a.text_out};
+    if ((st = cli_check_files("train", (const char *const *)argv + optind,
+                              (size_t)(argc - optind), outs, 3)) != 0)
+        return st;
 
     ist_corpus *corpus = NULL;
     ist_matrix *in = NULL, *ctx = NULL;
