@@ -239,8 +239,8 @@ run(int argc, char **argv)
         return rc < 0 ? CLI_EXIT_OK : rc;
     const char *ins[] = {a.thresholds, a.baseline, a.map, a.test, argv[optind],
                          a.map ? argv[optind + 1] : NULL};
-    const char *outs[] = {a.verdict, a.c.json_out};
-    if ((rc = cli_check_files(CMD, ins, 6, outs, 2)) != 0)
+    const char *outs[] = {a.verdict, a.c.json_out, a.junit};
+    if ((rc = cli_check_files(CMD, ins, 6, outs, 3)) != 0)
         return rc;
     if (ist_thresholds_read(a.thresholds, &rules, &err) != IST_OK)
         return cli_report(CMD, &err);
