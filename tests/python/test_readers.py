@@ -149,9 +149,9 @@ ours = m.apply(v)
 diff = float(np.abs(ours - mapped.matrix).max())
 check(diff <= 1e-6, "the map applied in Python equals 'align --mapped-out' to 1e-6 "
       "(largest difference %.2g)" % diff)
-check(m.source.spec == "unit,centre,unit" and len(m.source.steps) == 3 and
+check(m.source.spec == "length,mean,length" and len(m.source.steps) == 3 and
       m.source.steps[1][1].shape == (dim,),
-      "the map's recorded normalisation steps and the centring mean are read")
+      "the map's recorded standardisation steps and the centring mean are read")
 check(m.source.fingerprint == v.fingerprint and m.target.fingerprint ==
       isthmus.open_vectors(os.path.join(work, "tgt.isv")).fingerprint and
       mapped.provenance.get("source_fingerprint") == "%016x" % v.fingerprint,

@@ -3,7 +3,7 @@
     import isthmus
     en = isthmus.open_vectors("en.isv")          # memory-mapped, header checksum checked
     m = isthmus.read_map("shop.map")
-    mapped = m.apply(en)                          # normalisation steps, then x W
+    mapped = m.apply(en)                          # standardisation steps, then x W
     result = isthmus.read_result("result.json")
     result.run("csls").precision[1]
 

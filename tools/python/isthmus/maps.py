@@ -1,7 +1,7 @@
 """Map files (docs/formats.md, "Map file"): read one, and apply it to vectors.
 
-A source row x, after the source normalisation steps, maps to x W; target rows get the
-target normalisation steps only. apply() replays the recorded steps in float32 as the C
+A source row x, after the source standardisation steps, maps to x W; target rows get the
+target steps only. apply() replays the recorded steps in float32 as the C
 library does, then multiplies by W (float32), so its rows equal the rows that
 'isthmus align --mapped-out' writes up to the order of the float32 sums.
 """
@@ -36,8 +36,8 @@ def hash_bytes(data):
 
 class Side:
     """One side of a map: the fingerprint and rows of the vector file it was fitted on and
-    its normalisation steps, a list of ("unit", None) and ("centre", mean) with the mean a
-    float64 array."""
+    its standardisation steps, a list of ("length", None) (scale each row to unit length)
+    and ("mean", mean) (subtract the recorded column mean, a float64 array)."""
 
     def __init__(self, fingerprint, rows, steps):
         self.fingerprint = fingerprint
@@ -48,13 +48,13 @@ class Side:
     def spec(self):
         return ",".join(k for k, _ in self.steps) or "none"
 
-    def normalise(self, matrix):
+    def standardise(self, matrix):
         """A float32 copy of matrix with the steps replayed, as src/align/norm.c does: unit
         length with the norm summed in float64 and the float32 scale applied, the mean
         subtracted in float64 and rounded back to float32."""
         x = np.array(matrix, dtype=np.float32, copy=True)
         for kind, mean in self.steps:
-            if kind == "unit":
+            if kind == "length":
                 q = np.einsum("ij,ij->i", x.astype(np.float64), x.astype(np.float64))
                 scale = np.ones_like(q)
                 pos = q > 0
@@ -106,19 +106,19 @@ class Map:
                                     % (name, side.fingerprint, v.fingerprint))
 
     def apply(self, src, stage="final", check=True):
-        """The source vectors (Vectors or an array) normalised and mapped: float32, rows x dim.
+        """The source vectors (Vectors or an array) standardised and mapped: float32, rows x dim.
         stage "final" uses W, "seed" W0 (Procrustes on the seeds before refinement)."""
         if check and hasattr(src, "fingerprint"):
             self.check(src=src)
         m = src.matrix if hasattr(src, "matrix") else np.asarray(src)
         w = {"final": self.W, "seed": self.W0}[stage].astype(np.float32)
-        return self.source.normalise(m) @ w
+        return self.source.standardise(m) @ w
 
-    def normalise_target(self, tgt, check=True):
+    def standardise_target(self, tgt, check=True):
         """The target vectors with the target steps replayed (no map)."""
         if check and hasattr(tgt, "fingerprint"):
             self.check(tgt=tgt)
-        return self.target.normalise(tgt.matrix if hasattr(tgt, "matrix") else tgt)
+        return self.target.standardise(tgt.matrix if hasattr(tgt, "matrix") else tgt)
 
     def __repr__(self):
         return "<isthmus.Map %s: dim %d, %s -> %s>" % (self.path, self.dim, self.source.spec,
@@ -168,11 +168,14 @@ def read_map(path):
                       % rows)
         parsed = []
         for i, k in enumerate(steps):
-            if k not in ("unit", "centre"):
-                raise bad("map metadata: %s step %d: expected unit or centre, found '%s'"
+            # maps written before the steps were renamed say "unit" and "centre"
+            kind = {"length": "length", "unit": "length", "mean": "mean", "centre": "mean"}.get(
+                k if isinstance(k, str) else "")
+            if kind is None:
+                raise bad("map metadata: %s step %d: expected length or mean, found '%s'"
                           % (name, i + 1, k if isinstance(k, str) else ""))
-            parsed.append([k, None])
-        nc = sum(1 for k, _ in parsed if k == "centre")
+            parsed.append([kind, None])
+        nc = sum(1 for k, _ in parsed if k == "mean")
         if end - at < nc * dim * 8:
             raise bad("map file is truncated")
         means = np.frombuffer(p, dtype="<f8", count=nc * dim, offset=at).reshape(nc, dim)
@@ -181,7 +184,7 @@ def read_map(path):
         at += nc * dim * 8
         j = 0
         for s in parsed:
-            if s[0] == "centre":
+            if s[0] == "mean":
                 s[1] = means[j].copy()
                 j += 1
         sides.append(Side(int(fps, 16), int(rows), [tuple(s) for s in parsed]))
