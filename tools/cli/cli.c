@@ -107,6 +107,24 @@ bad:
 }
 
 bool
+cli_parse_threads(const char *cmd, const char *s, unsigned *out)
+{
+    size_t v;
+
+    if (!cli_parse_size(cmd, "--threads", s, 0, IST_THREADS_MAX, &v))
+        return false;
+    *out = (unsigned)v;
+    return true;
+}
+
+unsigned
+cli_processors(void)
+{
+    long n = sysconf(_SC_NPROCESSORS_ONLN);
+    return n < 1 ? 1u : n > (long)IST_THREADS_MAX ? IST_THREADS_MAX : (unsigned)n;
+}
+
+bool
 cli_parse_choice(const char *cmd, const char *opt, const char *s, const char *const *choices,
                  int *out)
 {

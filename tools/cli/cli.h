@@ -18,6 +18,11 @@ enum {
     CLI_EXIT_GATE = 3      /* a check or gate rule failed */
 };
 
+/* Every command's parse() returns CLI_GO_ON when the command should run, or the exit
+ * status to return at once (CLI_EXIT_OK after --help, CLI_EXIT_USAGE after a usage
+ * error). */
+#define CLI_GO_ON (-1)
+
 typedef enum cli_progress_mode { CLI_PROGRESS_AUTO, CLI_PROGRESS_ALWAYS, CLI_PROGRESS_NEVER } cli_progress_mode;
 
 /* Global settings, parsed before the subcommand name. */
@@ -50,6 +55,13 @@ bool cli_parse_u64(const char *cmd, const char *opt, const char *s, uint64_t lo,
                    uint64_t *out);
 bool cli_parse_double(const char *cmd, const char *opt, const char *s, double lo, double hi,
                       double *out);
+/* --threads=N, one meaning in every command: 0..IST_THREADS_MAX, 0 = one per
+ * processor. CLI_HELP_THREADS is its help line. */
+bool cli_parse_threads(const char *cmd, const char *s, unsigned *out);
+#define CLI_HELP_THREADS "      --threads=N         worker threads, 0 = one per processor [default: 0]\n"
+/* The thread count that 0 stands for: the online processors, within 1..IST_THREADS_MAX. */
+unsigned cli_processors(void);
+
 /* One of a fixed set of words; *out gets its index. */
 bool cli_parse_choice(const char *cmd, const char *opt, const char *s,
                       const char *const *choices, int *out);
