@@ -11,7 +11,8 @@ rendered in batches, one groff run per batch: `groff -k -man -Tutf8 -rLL=4000n -
 paragraph on one output line; -P-cbou: plain characters, no overstriking). The running
 header and footer lines of each page are dropped.
 
-Usage: extract-manpages.py OUT_DIR [--man /usr/share/man] [--stats]
+Usage: extract-manpages.py OUT_DIR [--man /usr/share/man] [--sections 1,5,7,8] [--stats]
+(--sections keeps only those sections; all by default)
 Writes OUT_DIR/en.txt and OUT_DIR/de.txt.
 """
 import argparse
@@ -63,12 +64,15 @@ def main():
     ap = argparse.ArgumentParser()
     ap.add_argument("out")
     ap.add_argument("--man", default="/usr/share/man")
+    ap.add_argument("--sections", default="")
     ap.add_argument("--stats", action="store_true")
     a = ap.parse_args()
     de_root = os.path.join(a.man, "de")
     pairs = []
     for sec in sorted(os.listdir(de_root)):
         if not sec.startswith("man"):
+            continue
+        if a.sections and sec[3:] not in a.sections.split(","):
             continue
         for name in sorted(os.listdir(os.path.join(de_root, sec))):
             en = os.path.join(a.man, sec, name)
