@@ -7,7 +7,9 @@
 #include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
 #include <time.h>
+#include <unistd.h>
 
 #include <isthmus/cancel.h>
 
@@ -29,6 +31,7 @@
 #define HOT_ROWS 0             /* words whose rows each thread keeps a private copy of: none by
                                 * default, measured slower here (docs/performance.md) */
 #define MAX_HOT_ROWS 65536
+#define AHEAD_IDS ((size_t)1 << 22) /* ids (16 MiB) a thread asks the kernel to read ahead */
 #define MERGE_EVERY 1          /* publications between merges of the private rows */
 
 void
@@ -171,6 +174,7 @@ typedef struct shared {
      * merged into the shared matrices every merge_every x PUBLISH_EVERY stream words
      * (docs/performance.md, "Threads"). */
     size_t n_hot, merge_every;
+    size_t page;                     /* bytes of a memory page, for read-ahead advice */
     uint32_t *hot_ids;               /* n_hot ids, most frequent first */
     int32_t *hot_slot;               /* vocab entries: slot of the word, or -1 */
     pthread_mutex_t merge_lock;
@@ -493,6 +497,18 @@ publish(worker *w, bool last_epoch)
     return (float)lr;
 }
 
+/* Ask for the next AHEAD_IDS ids of this thread's part to be read in (the stream may be a
+ * memory-mapped file larger than memory, on a slow disk): advice only, results unchanged. */
+static void
+read_ahead(const worker *w, size_t pos)
+{
+    size_t page = w->sh->page, end = pos + AHEAD_IDS < w->end ? pos + AHEAD_IDS : w->end;
+    uintptr_t a = (uintptr_t)(w->sh->ids + pos) & ~(uintptr_t)(page - 1);
+    uintptr_t b = (uintptr_t)(w->sh->ids + end);
+    if (b > a)
+        posix_madvise((void *)a, (size_t)(b - a), POSIX_MADV_WILLNEED);
+}
+
 static void *
 worker_main(void *arg)
 {
@@ -505,9 +521,13 @@ worker_main(void *arg)
     for (size_t e = 0; e < sh->epochs && !atomic_load_explicit(&sh->stop, memory_order_relaxed);
          e++) {
         bool last = e + 1 == sh->epochs;
-        size_t pos = w->begin;
+        size_t pos = w->begin, ahead = pos;
         while (pos < w->end) {
             size_t n = 0;
+            if (pos >= ahead) {
+                read_ahead(w, pos);
+                ahead = pos + AHEAD_IDS / 2;
+            }
             while (pos < w->end) {
                 uint32_t id = sh->ids[pos++];
                 if (id == IST_CORPUS_EOL)
@@ -883,6 +903,8 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->words_per_epoch = words;
     sh->words_total = words * o->epochs;
     sig_tables(sh);
+    long page = sysconf(_SC_PAGESIZE);
+    sh->page = page > 0 ? (size_t)page : 4096;
     atomic_init(&sh->stop, 0);
     pthread_mutex_init(&sh->lock, NULL);
     pthread_mutex_init(&sh->merge_lock, NULL);
