@@ -5,6 +5,8 @@
 #include <math.h>
 
 #include <isthmus/align.h>
+#include <isthmus/linalg.h>
+#include <isthmus/matrix.h>
 #include <isthmus/cancel.h>
 #include <isthmus/metrics.h>
 #include <isthmus/corpus.h>
@@ -87,7 +89,7 @@ make_map(void)
     assert_int_equal(ist_pairs_resolve(seeds, src, tgt, NULL, &err), IST_OK);
     ist_align_opts_init(&ao);
     ao.refine_rounds = 1;
-    ao.retrieve.threads = 1;
+    ao.search.retrieve.threads = 1;
     assert_int_equal(ist_align_fit(src, tgt, seeds, &ao, &map, &err), IST_OK);
     char *p = harness_path(dir, "good.map");
     assert_int_equal(ist_map_save(map, p, &err), IST_OK);
@@ -483,6 +485,156 @@ prep_lying_header(void **state)
     free(prep);
 }
 
+/* ---- numbers reaching the maths ------------------------------------------------ */
+
+/* A legal row of tiny numbers gets unit length (the scale factor 1e40 is out of float
+ * range, so it is applied in double); a zero row stays zero; a NaN or an infinity is
+ * refused naming its row. */
+static void
+norm_tiny_zero_and_non_finite_rows(void **state)
+{
+    (void)state;
+    ist_matrix *m;
+    ist_norm *p = NULL;
+    ist_error err;
+
+    assert_int_equal(ist_matrix_new(3, 4, &m, &err), IST_OK);
+    ist_matview v = ist_matrix_view(m);
+    memset(v.data, 0, v.rows * v.stride * sizeof(float));
+    v.data[0] = 1e-40f;                              /* a float subnormal */
+    v.data[v.stride + 1] = 3.0f, v.data[v.stride + 2] = 4.0f;
+    assert_int_equal(ist_norm_fit("length", v, &p, &err), IST_OK);
+    assert_true(v.data[0] == 1.0f);
+    for (size_t j = 1; j < 4; j++)
+        assert_true(v.data[j] == 0.0f);
+    assert_true(fabsf(v.data[v.stride + 1] - 0.6f) < 1e-7f);
+    for (size_t j = 0; j < 4; j++)
+        assert_true(v.data[2 * v.stride + j] == 0.0f); /* the zero row is left as it is */
+    ist_norm_free(p);
+    v.data[2 * v.stride + 3] = NAN;
+    assert_int_equal(ist_norm_fit("length,mean", v, &p, &err), IST_ERR_NUMERIC);
+    assert_null(p);
+    assert_non_null(strstr(err.msg, "row 2 holds a number that is not finite"));
+    v.data[2 * v.stride + 3] = INFINITY;
+    assert_int_equal(ist_norm_fit("length", v, &p, &err), IST_ERR_NUMERIC);
+    ist_matrix_free(m);
+}
+
+/* Procrustes on a seed matrix holding NaN says so in the tool's words instead of passing
+ * LAPACK's "argument 5 is invalid" on. */
+static void
+procrustes_non_finite_seeds(void **state)
+{
+    (void)state;
+    ist_matrix *x, *w;
+    ist_error err;
+
+    assert_int_equal(ist_matrix_new(4, 2, &x, &err), IST_OK);
+    assert_int_equal(ist_matrix_new(2, 2, &w, &err), IST_OK);
+    ist_matview v = ist_matrix_view(x);
+    for (size_t i = 0; i < 4; i++)
+        v.data[i * v.stride] = 1.0f, v.data[i * v.stride + 1] = (float)i;
+    v.data[v.stride] = NAN;
+    assert_int_equal(ist_linalg_procrustes(ist_matrix_cview(x), ist_matrix_cview(x),
+                                           ist_matrix_view(w), NULL, &err), IST_ERR_NUMERIC);
+    assert_non_null(strstr(err.msg, "not finite"));
+    assert_non_null(strstr(err.msg, "isthmus inspect"));
+    assert_null(strstr(err.msg, "argument"));
+    ist_matrix_free(x);
+    ist_matrix_free(w);
+}
+
+/* ---- every byte of a native file flipped -------------------------------------- */
+
+/* What a reader hands back, for comparing two opens. */
+static bool
+same_store(const ist_store *a, const ist_store *b, size_t *changed_numbers)
+{
+    if (ist_store_rows(a) != ist_store_rows(b) || ist_store_dim(a) != ist_store_dim(b) ||
+        strcmp(ist_store_provenance(a), ist_store_provenance(b)) != 0)
+        return false;
+    *changed_numbers = 0;
+    for (size_t i = 0; i < ist_store_rows(a); i++) {
+        if (strcmp(ist_store_word(a, i), ist_store_word(b, i)) != 0 ||
+            ist_store_count(a, i) != ist_store_count(b, i))
+            return false;
+        *changed_numbers += memcmp(ist_store_row(a, i), ist_store_row(b, i),
+                                   ist_store_dim(a) * sizeof(float)) != 0;
+    }
+    return true;
+}
+
+/* The promise of docs/formats.md, tested: every byte of a small native file is flipped
+ * (XOR 0xff) in turn. The verified open (what inspect, convert, align, score, lookup,
+ * propose and gate use) refuses every one. The default open refuses every flip outside
+ * the matrix; a flip inside it is the one documented unchecked case: the words,
+ * counts and provenance are the same, and either nothing visible changed (the padding
+ * of a row) or exactly one row's numbers did. */
+static void
+native_byte_flips(void **state)
+{
+    (void)state;
+    static const char *const words[] = {"cup", "mug", "kettle"};
+    ist_store *s, *ref, *got;
+    ist_store_opts vo;
+    ist_error err;
+    size_t n;
+
+    assert_int_equal(ist_store_new(3, 5, &s, &err), IST_OK);
+    for (size_t i = 0; i < 3; i++) {
+        for (size_t j = 0; j < 5; j++)
+            ist_store_row_mut(s, i)[j] = (float)(i * 5 + j) - 6.5f;
+        assert_int_equal(ist_store_set_word(s, i, words[i], 10 + i, &err), IST_OK);
+    }
+    assert_int_equal(ist_store_set_provenance(s, "{\"demo\":true}", &err), IST_OK);
+    char *good = harness_path(dir, "good.isv"), *bad = harness_path(dir, "flip.isv");
+    assert_int_equal(ist_store_save(s, good, NULL, &err), IST_OK);
+    ist_store_free(s);
+    unsigned char *b = read_file(good, &n);
+    assert_int_equal(ist_store_open(good, NULL, &ref, &err), IST_OK);
+    size_t stride = (size_t)b[32] | (size_t)b[33] << 8;      /* header field, docs/formats.md */
+    size_t mbeg = 128, mend = 128 + 3 * stride * 4;
+    ist_store_opts_init(&vo);
+    vo.verify = true;
+    size_t v_refused = 0, d_refused = 0, d_same = 0, d_one_row = 0;
+    for (size_t at = 0; at < n; at++) {
+        size_t changed;
+        b[at] ^= 0xff;
+        harness_write(bad, b, n);
+        b[at] ^= 0xff;
+        if (ist_store_open(bad, &vo, &got, &err) == IST_OK) {
+            ist_store_free(got);
+            fail_msg("byte %zu flipped: the verified open accepted it", at);
+        }
+        assert_true(err.msg[0] != '\0');
+        v_refused++;
+        if (ist_store_open(bad, NULL, &got, &err) != IST_OK) {
+            if (at >= mbeg && at < mend)
+                fail_msg("byte %zu (matrix) flipped: the default open refused it", at);
+            d_refused++;
+            continue;
+        }
+        if (at < mbeg || at >= mend)
+            fail_msg("byte %zu (outside the matrix) flipped: the default open accepted it", at);
+        if (!same_store(ref, got, &changed))
+            fail_msg("byte %zu flipped: words, counts or provenance changed", at);
+        bool padding = (at - mbeg) % (stride * 4) >= 5 * 4;
+        assert_int_equal(changed, padding ? 0 : 1);
+        padding ? d_same++ : d_one_row++;
+        ist_store_free(got);
+    }
+    assert_int_equal(v_refused, n);
+    assert_int_equal(d_refused + d_same + d_one_row, n);
+    print_message("# byte flips of a %zu-byte native file: verified open refused %zu; default "
+                  "open refused %zu, gave the same result for %zu (row padding) and changed "
+                  "one row's numbers for %zu (matrix, unchecked without verify)\n", n, v_refused,
+                  d_refused, d_same, d_one_row);
+    ist_store_free(ref);
+    free(b);
+    free(good);
+    free(bad);
+}
+
 int
 main(void)
 {
@@ -494,6 +646,9 @@ main(void)
         cmocka_unit_test_setup_teardown(pairs_bom_on_later_lines, setup, teardown),
         cmocka_unit_test_setup_teardown(prep_lying_header, setup, teardown),
         cmocka_unit_test_setup_teardown(writers_leave_nothing, setup, teardown),
+        cmocka_unit_test(norm_tiny_zero_and_non_finite_rows),
+        cmocka_unit_test(procrustes_non_finite_seeds),
+        cmocka_unit_test_setup_teardown(native_byte_flips, setup, teardown),
     };
     HARNESS_RUN("reliab", tests);
 }

@@ -17,8 +17,8 @@
  * - Dynamic window (Mikolov et al. 2013; analysed by Levy, Goldberg & Dagan 2015): for each
  *   position the window radius is drawn uniformly from 1..window. Windows never cross a line
  *   end (IST_CORPUS_EOL).
- * - Learning rate decays linearly from lr0 to lr0 * 1e-4 over all epochs:
- *   lr = lr0 * max(1e-4, 1 - words_done / (epochs * words_per_epoch)).
+ * - Learning rate decays linearly from lr0 to lr0 * lr_floor over all epochs:
+ *   lr = lr0 * max(lr_floor, 1 - words_done / (epochs * words_per_epoch)).
  * - Initialisation: input vectors uniform in [-0.5/dim, 0.5/dim], output vectors zero.
  * - SGNS factorises the shifted PMI matrix: at the optimum w . c = PMI(w, c) - log k
  *   (Levy & Goldberg 2014, "Neural Word Embedding as Implicit Matrix Factorization").
@@ -70,6 +70,7 @@ typedef struct ist_sgns_opts {
     size_t negatives;        /* noise words k per positive pair [default 5] */
     size_t epochs;           /* passes over the stream [default 5] */
     double lr0;              /* start learning rate [default 0.025] */
+    double lr_floor;         /* the rate never falls below lr0 * lr_floor [default 1e-4] */
     double subsample;        /* t in the discard formula; 0 = off [default 1e-4] */
     size_t threads;          /* worker threads [default 1] */
     uint64_t seed;           /* random seed [default 1] */
@@ -124,6 +125,12 @@ IST_API ist_status ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sg
 
 /** Release memory returned by this module. NULL: no-op. */
 IST_API void ist_sgns_free(void *p);
+
+/** Passes for a corpus of this many tokens when the user gives none: 16 M / tokens, kept
+ *  within a floor and 20. The floor is 20 below 4 M tokens (on the 0.8 M-token real-data
+ *  check 10 passes lost ~10 points of precision@1 and 5 passes were unusable:
+ *  docs/defaults.md), then falls as 80 M / tokens, never below 5. */
+IST_API size_t ist_sgns_auto_passes(uint64_t tokens);
 
 /** Name of the vector instruction set the FAST kernel uses on this machine ("avx512",
  *  "avx2", "portable"). The environment variable ISTHMUS_SIMD=portable|avx2|avx512 forces

@@ -7,7 +7,9 @@
 #include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
 #include <time.h>
+#include <unistd.h>
 
 #include <isthmus/cancel.h>
 
@@ -20,12 +22,16 @@
 #define PUBLISH_EVERY 10000    /* stream words between updates of the shared counters */
 #define SIG_RANGE 8.0f         /* sigmoid table covers [-8, 8] */
 #define SIG_SIZE 2048
-#define LR_FLOOR 1e-4
 #define LOSS_EVERY_MASK 7      /* the loss (for progress only) is summed on every 8th window */
 #define MAX_THREADS 256
 #define MAX_DIM 10000
 #define MAX_WINDOW 1000
 #define MAX_NEGATIVES 1000
+#define HOT_ROWS 0             /* words whose rows each thread keeps a private copy of: none by
+                                * default, measured slower here (docs/performance.md) */
+#define MAX_HOT_ROWS 65536
+#define AHEAD_IDS ((size_t)1 << 22) /* ids (16 MiB) a thread asks the kernel to read ahead */
+#define MERGE_EVERY 1          /* publications between merges of the private rows */
 
 void
 ist_sgns_opts_init(ist_sgns_opts *o)
@@ -36,6 +42,7 @@ ist_sgns_opts_init(ist_sgns_opts *o)
     o->negatives = 5;
     o->epochs = 5;
     o->lr0 = 0.025;
+    o->lr_floor = 1e-4;
     o->subsample = 1e-4;
     o->threads = 1;
     o->seed = 1;
@@ -151,7 +158,7 @@ typedef struct shared {
     ist_sgns_noise noise;
     const ist_sgns_simd *simd;
     ist_sgns_kernel kernel;
-    double lr0;
+    double lr0, lr_floor;
     uint64_t words_per_epoch, words_total;
     float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
     atomic_int stop;
@@ -162,6 +169,15 @@ typedef struct shared {
     uint64_t loss_n, last_epoch_n;
     size_t finished;
     ist_status fail;
+    /* Optional, with two threads or more (ISTHMUS_SGNS_HOT): the hot words (the most frequent
+     * ones) are trained on private copies of their input and output rows in each thread,
+     * merged into the shared matrices every merge_every x PUBLISH_EVERY stream words
+     * (docs/performance.md, "Threads"). */
+    size_t n_hot, merge_every;
+    size_t page;                     /* bytes of a memory page, for read-ahead advice */
+    uint32_t *hot_ids;               /* n_hot ids, most frequent first */
+    int32_t *hot_slot;               /* vocab entries: slot of the word, or -1 */
+    pthread_mutex_t merge_lock;
 } shared;
 
 typedef struct worker {
@@ -179,6 +195,10 @@ typedef struct worker {
     float *s, *g, *gt, *dx;
     pthread_t thread;
     bool started;
+    /* hot rows: the private copies (n_hot x stride, inputs then outputs) and the shared rows
+     * as they were at the last merge */
+    float *rep_in, *rep_out, *base_in, *base_out;
+    size_t publications;
     /* since the last publication */
     uint64_t words, trained, pairs, loss_n, windows;
     double loss;
@@ -235,7 +255,58 @@ static double
 current_lr(const shared *sh, uint64_t done)
 {
     double f = 1.0 - (double)done / (double)(sh->words_total + 1);
-    return sh->lr0 * (f > LR_FLOOR ? f : LR_FLOOR);
+    return sh->lr0 * (f > sh->lr_floor ? f : sh->lr_floor);
+}
+
+/* ---- rows: shared, or this thread's copy for a hot word --------------------------------- */
+
+static inline float *
+in_row(const worker *w, uint32_t id)
+{
+    const shared *sh = w->sh;
+    if (sh->n_hot) {
+        int32_t s = sh->hot_slot[id];
+        if (s >= 0)
+            return w->rep_in + (size_t)s * sh->stride;
+    }
+    return sh->in + (size_t)id * sh->stride;
+}
+
+static inline float *
+out_row(const worker *w, uint32_t id)
+{
+    const shared *sh = w->sh;
+    if (sh->n_hot) {
+        int32_t s = sh->hot_slot[id];
+        if (s >= 0)
+            return w->rep_out + (size_t)s * sh->stride;
+    }
+    return sh->out + (size_t)id * sh->stride;
+}
+
+/* Fold this thread's changes to its hot rows into the shared rows, then start again from the
+ * shared rows (which hold the other threads' merged changes too):
+ *   shared += copy - base;  copy = base = shared. */
+static void
+merge_hot(worker *w)
+{
+    shared *sh = w->sh;
+    size_t len = sh->stride, dim = sh->dim;
+
+    pthread_mutex_lock(&sh->merge_lock);
+    for (size_t s = 0; s < sh->n_hot; s++) {
+        size_t off = (size_t)s * len, row = (size_t)sh->hot_ids[s] * len;
+        float *si = sh->in + row, *so = sh->out + row;
+        float *ci = w->rep_in + off, *co = w->rep_out + off;
+        float *bi = w->base_in + off, *bo = w->base_out + off;
+        for (size_t c = 0; c < dim; c++) {
+            si[c] += ci[c] - bi[c];
+            so[c] += co[c] - bo[c];
+            ci[c] = bi[c] = si[c];
+            co[c] = bo[c] = so[c];
+        }
+    }
+    pthread_mutex_unlock(&sh->merge_lock);
 }
 
 /* ---- the two kernels: one window centred on sent[i] ----------------------------------- */
@@ -258,13 +329,13 @@ window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
     for (size_t j = lo; j < hi; j++) {
         if (j == i)
             continue;
-        float *x = sh->in + (size_t)w->sent[j] * sh->stride;
+        float *x = in_row(w, w->sent[j]);
         memset(grad, 0, dim * sizeof *grad);
         for (size_t d = 0; d <= sh->negatives; d++) {
             uint32_t o = d == 0 ? centre : ist_sgns_noise_draw(&sh->noise, &w->rng);
             if (d > 0 && o == centre)
                 continue;
-            float *y = sh->out + (size_t)o * sh->stride, dot = 0.0f;
+            float *y = out_row(w, o), dot = 0.0f;
 #pragma omp simd reduction(+ : dot)
             for (size_t c = 0; c < dim; c++)
                 dot += x[c] * y[c];
@@ -325,11 +396,11 @@ window_outputs(worker *w, uint32_t centre, size_t *drawn)
     }
     for (size_t d = 0; d < kn; d++) {
         w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
-        prefetch_row(sh->out + (size_t)w->pre[d] * len, len);
+        prefetch_row(out_row(w, w->pre[d]), len);
     }
     w->have_pre = true;
     for (size_t k = 0; k < no; k++) {
-        float *y = sh->out + (size_t)w->outs[k] * len;
+        float *y = out_row(w, w->outs[k]);
         w->yr[k] = y;
         w->yw[k] = y;
     }
@@ -374,13 +445,13 @@ window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
 
     size_t no = window_outputs(w, w->sent[i], &drawn);
     if (i + 1 < n)
-        prefetch_row(sh->out + (size_t)w->sent[i + 1] * len, len);
+        prefetch_row(out_row(w, w->sent[i + 1]), len);
     if (i + sh->window + 1 < n)
-        prefetch_row(sh->in + (size_t)w->sent[i + sh->window + 1] * len, len);
+        prefetch_row(in_row(w, w->sent[i + sh->window + 1]), len);
     for (size_t j = lo; j < hi; j++) {
         if (j == i)
             continue;
-        float *x = sh->in + (size_t)w->sent[j] * len;
+        float *x = in_row(w, w->sent[j]);
         w->xr[m] = x;
         w->xw[m] = x;
         m++;
@@ -421,7 +492,21 @@ publish(worker *w, bool last_epoch)
     pthread_mutex_unlock(&sh->lock);
     w->words = w->trained = w->pairs = w->loss_n = 0;
     w->loss = 0.0;
+    if (sh->n_hot && ++w->publications % sh->merge_every == 0)
+        merge_hot(w);
     return (float)lr;
+}
+
+/* Ask for the next AHEAD_IDS ids of this thread's part to be read in (the stream may be a
+ * memory-mapped file larger than memory, on a slow disk): advice only, results unchanged. */
+static void
+read_ahead(const worker *w, size_t pos)
+{
+    size_t page = w->sh->page, end = pos + AHEAD_IDS < w->end ? pos + AHEAD_IDS : w->end;
+    uintptr_t a = (uintptr_t)(w->sh->ids + pos) & ~(uintptr_t)(page - 1);
+    uintptr_t b = (uintptr_t)(w->sh->ids + end);
+    if (b > a)
+        posix_madvise((void *)a, (size_t)(b - a), POSIX_MADV_WILLNEED);
 }
 
 static void *
@@ -436,9 +521,13 @@ worker_main(void *arg)
     for (size_t e = 0; e < sh->epochs && !atomic_load_explicit(&sh->stop, memory_order_relaxed);
          e++) {
         bool last = e + 1 == sh->epochs;
-        size_t pos = w->begin;
+        size_t pos = w->begin, ahead = pos;
         while (pos < w->end) {
             size_t n = 0;
+            if (pos >= ahead) {
+                read_ahead(w, pos);
+                ahead = pos + AHEAD_IDS / 2;
+            }
             while (pos < w->end) {
                 uint32_t id = sh->ids[pos++];
                 if (id == IST_CORPUS_EOL)
@@ -468,6 +557,8 @@ worker_main(void *arg)
         }
         lr = publish(w, last);
     }
+    if (sh->n_hot)
+        merge_hot(w);                /* whatever the last publication left */
     pthread_mutex_lock(&sh->lock);
     sh->finished++;
     pthread_cond_signal(&sh->wake);
@@ -556,6 +647,10 @@ check_opts(const ist_sgns_opts *o, size_t n_ids, size_t vocab_size, ist_error *e
     if (o->threads == 0 || o->threads > MAX_THREADS)
         return ist_error_set(err, IST_ERR_INVALID, "threads: expected 1 to %d, found %zu",
                              MAX_THREADS, o->threads);
+    if (!(o->lr_floor > 0.0 && o->lr_floor <= 1.0))
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "learning-rate floor: expected a fraction in (0, 1], found %g",
+                             o->lr_floor);
     if (!(o->lr0 > 0.0 && o->lr0 <= 10.0))
         return ist_error_set(err, IST_ERR_INVALID,
                              "learning rate: expected a number in (0, 10], found %g", o->lr0);
@@ -593,9 +688,109 @@ scan_stream(const uint32_t *ids, size_t n, size_t vocab_size, uint64_t *words, i
     return IST_OK;
 }
 
+typedef struct ranked {
+    uint64_t count;
+    uint32_t id;
+} ranked;
+
+static int
+by_count_desc(const void *a, const void *b)
+{
+    const ranked *x = a, *y = b;
+    if (x->count != y->count)
+        return x->count < y->count ? 1 : -1;
+    return (x->id > y->id) - (x->id < y->id);
+}
+
+/* A count from the environment (for measurements), or def when unset or not a number. */
+static size_t
+env_count(const char *name, size_t def, size_t max)
+{
+    const char *e = getenv(name);
+    if (e && *e) {
+        char *end;
+        unsigned long long v = strtoull(e, &end, 10);
+        if (*end == '\0')
+            return v > max ? max : (size_t)v;
+    }
+    return def;
+}
+
+/* How many hot words get private rows: none on one thread (so that a one-thread run is the
+ * plain algorithm, bit for bit), else HOT_ROWS or what ISTHMUS_SGNS_HOT asks for (0: plain
+ * lock-free updates of the shared rows). */
+static size_t
+hot_rows_wanted(size_t threads, size_t vocab)
+{
+    size_t n = env_count("ISTHMUS_SGNS_HOT", HOT_ROWS, MAX_HOT_ROWS);
+    if (threads < 2)
+        return 0;
+    return n < vocab ? n : vocab;
+}
+
+/* The n_hot most frequent words (ties: lower id first) and their slots. */
+static ist_status
+hot_setup(shared *sh, const uint64_t *counts, size_t vocab, size_t n_hot, ist_error *err)
+{
+    ranked *r;
+
+    sh->n_hot = 0;
+    if (n_hot == 0)
+        return IST_OK;
+    r = ist_malloc(vocab * sizeof *r);
+    sh->hot_ids = ist_malloc(n_hot * sizeof *sh->hot_ids);
+    sh->hot_slot = ist_malloc(vocab * sizeof *sh->hot_slot);
+    if (!r || !sh->hot_ids || !sh->hot_slot) {
+        ist_free(r);
+        return ist_error_nomem(err);
+    }
+    for (size_t i = 0; i < vocab; i++) {
+        r[i].count = counts[i];
+        r[i].id = (uint32_t)i;
+        sh->hot_slot[i] = -1;
+    }
+    qsort(r, vocab, sizeof *r, by_count_desc);
+    for (size_t s = 0; s < n_hot; s++) {
+        sh->hot_ids[s] = r[s].id;
+        sh->hot_slot[r[s].id] = (int32_t)s;
+    }
+    ist_free(r);
+    sh->n_hot = n_hot;
+    sh->merge_every = env_count("ISTHMUS_SGNS_MERGE", MERGE_EVERY, 1000);
+    if (sh->merge_every == 0)
+        sh->merge_every = 1;
+    return IST_OK;
+}
+
+/* This thread's copies of the hot rows, taken from the shared rows. */
+static ist_status
+hot_copies(worker *w, const shared *sh, ist_error *err)
+{
+    size_t bytes = sh->n_hot * sh->stride * sizeof(float);
+
+    if (sh->n_hot == 0)
+        return IST_OK;
+    w->rep_in = ist_aligned_alloc(bytes);
+    w->rep_out = ist_aligned_alloc(bytes);
+    w->base_in = ist_aligned_alloc(bytes);
+    w->base_out = ist_aligned_alloc(bytes);
+    if (!w->rep_in || !w->rep_out || !w->base_in || !w->base_out)
+        return ist_error_nomem(err);
+    for (size_t s = 0; s < sh->n_hot; s++) {
+        size_t off = s * sh->stride, row = (size_t)sh->hot_ids[s] * sh->stride;
+        memcpy(w->rep_in + off, sh->in + row, sh->stride * sizeof(float));
+        memcpy(w->rep_out + off, sh->out + row, sh->stride * sizeof(float));
+    }
+    memcpy(w->base_in, w->rep_in, bytes);
+    memcpy(w->base_out, w->rep_out, bytes);
+    return IST_OK;
+}
+
 static void
 worker_free(worker *w)
 {
+    ist_aligned_free(w->rep_in), ist_aligned_free(w->rep_out);
+    ist_aligned_free(w->base_in), ist_aligned_free(w->base_out);
     ist_free(w->xr), ist_free(w->yr), ist_free(w->xw), ist_free(w->yw), ist_free(w->dxr);
     ist_free(w->outs), ist_free(w->mult), ist_free(w->pre);
     ist_free(w->s), ist_free(w->g), ist_free(w->gt);
@@ -709,11 +904,15 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
     sh->kernel = o->kernel;
     sh->lr0 = o->lr0;
+    sh->lr_floor = o->lr_floor;
     sh->words_per_epoch = words;
     sh->words_total = words * o->epochs;
     sig_tables(sh);
+    long page = sysconf(_SC_PAGESIZE);
+    sh->page = page > 0 ? (size_t)page : 4096;
     atomic_init(&sh->stop, 0);
     pthread_mutex_init(&sh->lock, NULL);
+    pthread_mutex_init(&sh->merge_lock, NULL);
     pthread_cond_init(&sh->wake, NULL);
 }
 
@@ -752,10 +951,14 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         goto fail;
     shared_setup(sh, ids, o, in, out, keep, words);
     init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
+    if ((rc = hot_setup(sh, counts, vocab_size, hot_rows_wanted(o->threads, vocab_size), err))
+        != IST_OK)
+        goto fail_sync;
     for (size_t t = 0; t < o->threads; t++) {
         ws[t].sh = sh;
         ws[t].rng = o->seed * 0x9e3779b97f4a7c15u + (uint64_t)t * 0xd1b54a32d192ed03u + 1;
-        if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK)
+        if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK ||
+            (rc = hot_copies(&ws[t], sh, err)) != IST_OK)
             goto fail_sync;
     }
     if ((rc = run_threads(sh, ws, o, n_ids, err)) != IST_OK)
@@ -781,14 +984,18 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
     in = out = NULL;
 fail_sync:
     pthread_mutex_destroy(&sh->lock);
+    pthread_mutex_destroy(&sh->merge_lock);
     pthread_cond_destroy(&sh->wake);
 fail:
     if (ws)
         for (size_t t = 0; t < o->threads; t++)
             worker_free(&ws[t]);
     ist_free(ws);
-    if (sh)
+    if (sh) {
         ist_sgns_noise_free(&sh->noise);
+        ist_free(sh->hot_ids);
+        ist_free(sh->hot_slot);
+    }
     ist_free(sh);
     ist_free(keep);
     ist_matrix_free(in);

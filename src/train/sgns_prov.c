@@ -40,6 +40,7 @@ ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
     ist_jw_num(&w, "noise_power", 0.75);
     ist_jw_uint(&w, "passes", o->epochs);
     ist_jw_num(&w, "rate", o->lr0);
+    ist_jw_num(&w, "rate_floor", o->lr_floor);
     ist_jw_num(&w, "subsample", o->subsample);
     ist_jw_uint(&w, "threads", o->threads);
     ist_jw_uint(&w, "seed", o->seed);
@@ -63,4 +64,21 @@ void
 ist_sgns_free(void *p)
 {
     ist_free(p);
+}
+
+size_t
+ist_sgns_auto_passes(uint64_t tokens)
+{
+    if (tokens == 0)
+        return 20;
+    double p = 16e6 / (double)tokens, floor = 80e6 / (double)tokens;
+    if (floor > 20)
+        floor = 20;
+    if (floor < 5)
+        floor = 5;
+    if (p < floor)
+        p = floor;
+    if (p > 20)
+        p = 20;
+    return (size_t)(p + 0.5);
 }

@@ -11,6 +11,7 @@ static const cli_command *const commands[] = {
     /* in the order of the job: text -> vectors -> map -> figures; then file tools */
     &cmd_prepare,
     &cmd_train,
+    &cmd_stack,
     &cmd_align,
     &cmd_score,
     &cmd_lookup,
@@ -109,9 +110,10 @@ main(int argc, char **argv)
     if (!cmd)
         return cli_usage_error(NULL, "no command named '%s'", argv[optind]);
     cli_install_signals();
+    ist_output_hold();   /* every output of the command is committed as one group */
     argv += optind;
     argc -= optind;
     optind = 0;   /* reset getopt for the subcommand (GNU: 0 re-initialises) */
     opterr = 0;
-    return cmd->run(argc, argv);
+    return cli_finish(cmd->name, cmd->run(argc, argv));
 }
