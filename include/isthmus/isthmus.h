@@ -19,6 +19,7 @@
 #include <isthmus/diag.h>
 #include <isthmus/report.h>
 #include <isthmus/sgns.h>
+#include <isthmus/cluster.h>
 
 #ifdef __cplusplus
 extern "C" {

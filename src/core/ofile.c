@@ -15,6 +15,7 @@
 #include <isthmus/cancel.h>
 
 #include "alloc_int.h"
+#include "cluster_int.h"
 #include "error_int.h"
 
 #define OFILE_BUF (1u << 18)
@@ -67,6 +68,8 @@ ist_ofile_open(const char *path, bool gz, ist_ofile **out, ist_error *err)
     struct stat st;
 
     *out = NULL;
+    if (!ist_cluster_writes_files())
+        path = "/dev/null";   /* several ranks, one writer: rank 0 */
     f = ist_calloc(1, sizeof *f);
     if (!f)
         return ist_error_nomem(err);
