@@ -152,22 +152,6 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
     return -1;
 }
 
-/* Fail before hours of reading when the output directory is not writable. */
-static bool
-output_dir_writable(const char *out)
-{
-    char dir[4096];
-    const char *slash = strrchr(out, '/');
-
-    if (!slash)
-        return access(".", W_OK) == 0;
-    if ((size_t)(slash - out) >= sizeof dir)
-        return true;   /* let the library report it */
-    memcpy(dir, out, (size_t)(slash - out));
-    dir[slash - out] = '\0';
-    return access(slash == out ? "/" : dir, W_OK) == 0;
-}
-
 static int
 run(int argc, char **argv)
 {
@@ -181,11 +165,10 @@ run(int argc, char **argv)
     status = parse_args(argc, argv, &o, &out);
     if (status >= 0)
         return status;
-    if (!output_dir_writable(out)) {
-        fprintf(stderr, "isthmus prepare: %s: cannot write in its directory (%s)\n", out,
-                strerror(errno));
-        return CLI_EXIT_ERROR;
-    }
+    status = cli_check_files("prepare", (const char *const *)argv + optind,
+                             (size_t)(argc - optind), &out, 1);
+    if (status != 0)
+        return status;
     double t0 = cli_now();
     o.progress = on_progress;
     o.progress_ctx = &t0;
