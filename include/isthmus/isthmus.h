@@ -20,6 +20,8 @@
 #include <isthmus/diag.h>
 #include <isthmus/report.h>
 #include <isthmus/sgns.h>
+#include <isthmus/ppmi.h>
+#include <isthmus/combine.h>
 #include <isthmus/cluster.h>
 
 #ifdef __cplusplus
