@@ -21,7 +21,7 @@ if [ "${6:-no}" != yes ] || [ -z "$mpirun" ]; then
 fi
 export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
 export OMPI_MCA_btl=self,vader OMPI_MCA_oob_tcp_if_include=lo OMPI_MCA_btl_tcp_if_include=lo
-export OMPI_MCA_btl_vader_single_copy_mechanism=none
+export OMPI_MCA_btl_vader_single_copy_mechanism=none OMPI_MCA_mpi_yield_when_idle=1
 # no binding to cores: OpenBLAS then sees the same processors in every rank as in one process
 export OMPI_MCA_hwloc_base_binding_policy=none OMPI_MCA_rmaps_base_oversubscribe=1
 rm -rf "$work"

@@ -41,6 +41,9 @@ ist_status ist_cluster_average(float *x, size_t n, ist_error *err);
 /* Collective. v[i] becomes the sum over ranks of v[i]. */
 ist_status ist_cluster_sum_u64(uint64_t *v, size_t n, ist_error *err);
 
+/* Collective. v[i] becomes the sum over ranks of v[i], the same bits on every rank. */
+ist_status ist_cluster_sum_f64(double *v, size_t n, ist_error *err);
+
 /* Bytes this rank has sent and received in exchanges since the start. */
 uint64_t ist_cluster_traffic(void);
 

@@ -300,6 +300,25 @@ ist_cluster_sum_u64(uint64_t *v, size_t n, ist_error *err)
     return IST_OK;
 }
 
+ist_status
+ist_cluster_sum_f64(double *v, size_t n, ist_error *err)
+{
+    int mr;
+    if (g.size <= 1 || n == 0)
+        return IST_OK;
+    /* on rank 0, then broadcast: an all-reduce may round differently on different ranks */
+    if (g.rank == 0)
+        mr = MPI_Reduce(MPI_IN_PLACE, v, (int)n, MPI_DOUBLE, MPI_SUM, 0, MPI_COMM_WORLD);
+    else
+        mr = MPI_Reduce(v, NULL, (int)n, MPI_DOUBLE, MPI_SUM, 0, MPI_COMM_WORLD);
+    if (mr == MPI_SUCCESS)
+        mr = MPI_Bcast(v, (int)n, MPI_DOUBLE, 0, MPI_COMM_WORLD);
+    if (mr != MPI_SUCCESS)
+        return mpi_failed(err, mr, "adding figures");
+    g.traffic += 2 * (uint64_t)n * sizeof *v;
+    return IST_OK;
+}
+
 uint64_t
 ist_cluster_traffic(void)
 {

@@ -115,6 +115,15 @@ ist_cluster_sum_u64(uint64_t *v, size_t n, ist_error *err)
     return IST_OK;
 }
 
+ist_status
+ist_cluster_sum_f64(double *v, size_t n, ist_error *err)
+{
+    (void)v;
+    (void)n;
+    (void)err;
+    return IST_OK;
+}
+
 uint64_t
 ist_cluster_traffic(void)
 {
