@@ -36,8 +36,8 @@ check "2 ranks: training succeeds and writes the vectors" test -s two.isv
 check "... the summary names 2 ranks and 15 exchanges (3 passes x 5)" \
     grep -q '2 ranks, 15 exchanges' train.err
 "$isthmus" inspect two.isv >inspect.out 2>&1
-check "... the provenance records the ranks and the exchanges per pass" \
-    grep -q '"ranks":2,"exchanges_per_pass":5' inspect.out
+check "... the provenance records the ranks, the exchanges per pass and the merge" \
+    grep -q '"ranks":2,"exchanges_per_pass":5,"merge":"changes"' inspect.out
 check "... a whole file: its checksums hold" grep -q 'checksums: *intact' inspect.out
 check "... only rank 0 spoke: one summary line" \
     sh -c 'test "$(grep -c "words seen" train.err)" -eq 1'

@@ -59,6 +59,9 @@ typedef enum ist_sgns_kernel {
     IST_SGNS_REFERENCE       /* plain per-pair update loop */
 } ist_sgns_kernel;
 
+#define IST_SGNS_MERGE_CHANGES 0
+#define IST_SGNS_MERGE_MEAN 1
+
 /** What the progress callback sees. */
 typedef struct ist_sgns_progress {
     double fraction;         /* of all epochs, 0..1 */
@@ -81,6 +84,11 @@ typedef struct ist_sgns_opts {
      * of the stream and the ranks average both parameter matrices this many times per
      * pass (model averaging; docs/cluster.md) [default 4]. Unused by one process. */
     size_t exchanges;
+    /* How an exchange combines the ranks: IST_SGNS_MERGE_CHANGES adds up every rank's
+     * changes since the last exchange (the average change times the rank count), so that
+     * a word met by one rank moves as far as in one process; IST_SGNS_MERGE_MEAN replaces
+     * the vectors by their mean (plain model averaging) [default CHANGES]. */
+    int merge;
     uint64_t seed;           /* random seed [default 1] */
     ist_sgns_kernel kernel;  /* [default IST_SGNS_FAST] */
     bool keep_context;       /* also return the output (context) vectors [default false] */

@@ -42,6 +42,7 @@ ist_sgns_opts_init(ist_sgns_opts *o)
     o->subsample = 1e-4;
     o->threads = 1;
     o->exchanges = 4;
+    o->merge = IST_SGNS_MERGE_CHANGES;
     o->seed = 1;
     o->kernel = IST_SGNS_FAST;
 }
@@ -887,6 +888,17 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     pthread_cond_init(&sh->wake, NULL);
 }
 
+/* x holds the mean over n ranks: base + n (mean - base) is base plus every rank's change;
+ * it becomes the new base. */
+static void
+add_changes(float *x, float *base, size_t cells, float n)
+{
+    for (size_t i = 0; i < cells; i++) {
+        x[i] = base[i] + n * (x[i] - base[i]);
+        base[i] = x[i];
+    }
+}
+
 /* After an exchange the threads' copies of the hot rows start again from the averages. */
 static void
 hot_refresh(worker *ws, const shared *sh)
@@ -913,8 +925,20 @@ train_ranks(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t
     size_t cells = rows * sh->stride, x = o->exchanges ? o->exchanges : 1;
     uint64_t count = 0, sums[2];
     double xsec = 0.0, wsec = 0.0, losses[2];
+    float *base = NULL;
     ist_status rc = IST_OK;
 
+    if (o->merge == IST_SGNS_MERGE_CHANGES) {
+        /* both matrices as they were after the last exchange */
+        base = ist_aligned_alloc(2 * cells * sizeof *base);
+        rc = ist_cluster_agree(base ? IST_OK : ist_error_nomem(err), err);
+        if (rc != IST_OK) {
+            ist_aligned_free(base);
+            return rc;
+        }
+        memcpy(base, sh->in, cells * sizeof *base);
+        memcpy(base + cells, sh->out, cells * sizeof *base);
+    }
     sh->ranks = n;
     sh->epochs = 1;
     for (size_t e = 0; e < epochs && rc == IST_OK; e++) {
@@ -937,12 +961,17 @@ train_ranks(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t
                 rc = ist_cluster_average(sh->in, cells, err);
             if (rc == IST_OK)
                 rc = ist_cluster_average(sh->out, cells, err);
+            if (rc == IST_OK && base) {
+                add_changes(sh->in, base, cells, (float)n);
+                add_changes(sh->out, base + cells, cells, (float)n);
+            }
             hot_refresh(ws, sh);
             xsec += now_sec() - t;
             count++;
         }
     }
     sh->epochs = epochs;
+    ist_aligned_free(base);
     sums[0] = sh->trained;
     sums[1] = sh->pairs;
     losses[0] = sh->last_epoch_loss;
