@@ -519,7 +519,8 @@ worker_main(void *arg)
 {
     worker *w = arg;
     shared *sh = w->sh;
-    float lr = (float)sh->lr0;
+    float lr = (float)current_lr(sh, sh->words_done);   /* lr0 at the start; a slice of
+                                                         * a rank's share goes on from there */
     uint64_t since = 0;
     uint32_t win = (uint32_t)sh->window;
 

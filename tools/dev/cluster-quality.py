@@ -59,6 +59,10 @@ def main():
             for lang in ("en", "es"):
                 vec[lang] = os.path.join(a.work, "%s-%s.isv" % (tag, lang))
                 t0 = time.time()
+                if not launch and os.path.exists(vec[lang]):
+                    print("%-5s %-9s %8s %8s | %s (kept from an earlier run: one thread is "
+                          "deterministic)" % (seed, label, "-", "-", lang), flush=True)
+                    continue
                 p = run(launch + [a.isthmus, "train", "--threads=1", "--seed=" + seed,
                                   *shlex.split(a.train), "-o", vec[lang],
                                   os.path.join(a.data, lang + ".txt")], env=env)
