@@ -58,8 +58,13 @@ run(int argc, char **argv)
         return cli_usage_error(CMD, "expected one RESULT.json, got %d arguments", argc - optind);
     if (!out)
         return cli_usage_error(CMD, "expected -o REPORT.html");
-    if (ist_report_write(argv[optind], verdict, out, &err) != IST_OK)
+    ist_result *res = NULL;
+    if (ist_result_load(argv[optind], &res, &err) != IST_OK ||
+        ist_report_write(res, verdict, out, &err) != IST_OK) {
+        ist_result_free(res);
         return cli_report(CMD, &err);
+    }
+    ist_result_free(res);
     if (strcmp(out, "-") != 0)
         cli_info("report written to %s\n", out);
     return CLI_EXIT_OK;
