@@ -88,7 +88,7 @@ make_map(void)
     assert_int_equal(ist_pairs_resolve(seeds, src, tgt, NULL, &err), IST_OK);
     ist_align_opts_init(&ao);
     ao.refine_rounds = 1;
-    ao.retrieve.threads = 1;
+    ao.search.retrieve.threads = 1;
     assert_int_equal(ist_align_fit(src, tgt, seeds, &ao, &map, &err), IST_OK);
     char *p = harness_path(dir, "good.map");
     assert_int_equal(ist_map_save(map, p, &err), IST_OK);

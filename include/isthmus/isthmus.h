@@ -4,6 +4,7 @@
 
 #include <isthmus/error.h>
 #include <isthmus/cancel.h>
+#include <isthmus/output.h>
 #include <isthmus/matrix.h>
 #include <isthmus/vocab.h>
 #include <isthmus/store.h>

@@ -44,10 +44,9 @@ typedef enum ist_propose_order {
 typedef struct ist_propose_opts {
     size_t top_sources;          /* look at the N most frequent source rows; 0 = all [5000] */
     size_t candidates;           /* target candidates per source word, 1..100 [3] */
-    size_t neighbourhood;        /* CSLS k [10] */
     ist_propose_order order;     /* [IST_PROPOSE_INFORMATIVE] */
     bool skip_gold_targets;      /* drop targets that are gold targets of a listed word [false] */
-    ist_retrieve_opts retrieve;  /* memory budget and threads */
+    ist_search_opts search;      /* CSLS k, tile memory and threads */
 } ist_propose_opts;
 
 IST_API void ist_propose_opts_init(ist_propose_opts *opts);

@@ -78,7 +78,7 @@ typedef struct ist_result_fit {
 typedef struct ist_result_options {
     bool present;
     unsigned methods;             /* IST_RESULT_COSINE | IST_RESULT_CSLS */
-    size_t neighbourhood;
+    size_t neighbourhood;         /* CSLS k */
     size_t memory_bytes;
     unsigned threads;
     bool allow_overlap;
@@ -124,7 +124,7 @@ IST_API void ist_result_free(ist_result *r);
 
 /** Options of ist_evaluate(). */
 typedef struct ist_evaluate_opts {
-    ist_eval_opts eval;           /* neighbourhood, bands, tile memory, threads (method unused) */
+    ist_eval_opts eval;           /* bands and the search group (method unused) */
     unsigned methods;             /* [IST_RESULT_COSINE | IST_RESULT_CSLS] */
     unsigned stages;              /* [IST_STAGE_FINAL]; FINAL of a map without refinement
                                      rounds is labelled "procrustes" */
@@ -132,7 +132,7 @@ typedef struct ist_evaluate_opts {
     bool allow_overlap;           /* score a test list sharing source words with the seeds
                                      [false: IST_ERR_INVALID] */
     bool diagnostics;             /* run ist_diag_run() on the final (or only) stage [true] */
-    ist_diag_opts diag;           /* its neighbourhood and retrieval come from eval */
+    ist_diag_opts diag;           /* its search group comes from eval */
     ist_ci_opts ci;               /* intervals of each run */
     const char *command;          /* recorded: "align" or "score" [score] */
     const char *name;             /* how messages name the result [NULL: the command] */

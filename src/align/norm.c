@@ -1,4 +1,4 @@
-/* norm.c - normalisation plans: unit length and mean centring, recorded and replayed. */
+/* norm.c - standardisation plans: unit length and mean centring, recorded and replayed. */
 #include <isthmus/linalg.h>
 
 #include <math.h>
@@ -78,37 +78,37 @@ parse_spec(const char *spec, ist_norm_kind *kinds, size_t *n, ist_error *err)
         size_t len = strcspn(p, ",");
         if (len == 0 || len >= sizeof word)
             return ist_error_set(err, IST_ERR_INVALID,
-                                 "normalisation: expected unit, centre, iterative[=N] or none, "
+                                 "standardisation: expected length, mean, alternate[=N] or none, "
                                  "found '%.*s'", (int)(len < 60 ? len : 60), p);
         memcpy(word, p, len);
         word[len] = '\0';
         size_t reps = 0, add = 0;
         ist_norm_kind seq[2];
-        if (strcmp(word, "unit") == 0) {
+        if (strcmp(word, "length") == 0) {
             seq[0] = IST_NORM_UNIT;
             add = 1, reps = 1;
-        } else if (strcmp(word, "centre") == 0 || strcmp(word, "center") == 0) {
+        } else if (strcmp(word, "mean") == 0) {
             seq[0] = IST_NORM_CENTRE;
             add = 1, reps = 1;
-        } else if (strncmp(word, "iterative", 9) == 0 && (word[9] == '\0' || word[9] == '=')) {
+        } else if (strncmp(word, "alternate", 9) == 0 && (word[9] == '\0' || word[9] == '=')) {
             char *end;
             long it = word[9] ? strtol(word + 10, &end, 10) : NORM_ITER_DEFAULT;
             if (word[9] && (end == word + 10 || *end || it < 1 || it > 50))
                 return ist_error_set(err, IST_ERR_INVALID,
-                                     "normalisation: iterative=N: expected N from 1 to 50, "
+                                     "standardisation: alternate=N: expected N from 1 to 50, "
                                      "found '%s'", word + 10);
             seq[0] = IST_NORM_UNIT;
             seq[1] = IST_NORM_CENTRE;
             add = 2, reps = (size_t)it;
         } else {
             return ist_error_set(err, IST_ERR_INVALID,
-                                 "normalisation: expected unit, centre, iterative[=N] or none, "
+                                 "standardisation: expected length, mean, alternate[=N] or none, "
                                  "found '%s'", word);
         }
         for (size_t r = 0; r < reps; r++)
             for (size_t k = 0; k < add; k++) {
                 if (*n + 2 > NORM_MAX_STEPS)
-                    return ist_error_set(err, IST_ERR_INVALID, "normalisation: too many steps");
+                    return ist_error_set(err, IST_ERR_INVALID, "standardisation: too many steps");
                 kinds[(*n)++] = seq[k];
             }
         if (add == 2)
@@ -168,7 +168,7 @@ ist_norm_apply(const ist_norm *p, ist_matview m, ist_error *err)
 {
     if (m.cols != p->dim)
         return ist_error_set(err, IST_ERR_INVALID,
-                             "normalisation: expected vectors of dimension %zu, found %zu",
+                             "standardisation: expected vectors of dimension %zu, found %zu",
                              p->dim, m.cols);
     for (size_t i = 0; i < p->nsteps; i++) {
         if (p->kinds[i] == IST_NORM_UNIT)
@@ -188,7 +188,7 @@ ist_norm_from_steps(size_t dim, const ist_norm_kind *kinds, size_t nsteps, const
 
     *out = NULL;
     if (nsteps > NORM_MAX_STEPS)
-        return ist_error_set(err, IST_ERR_INVALID, "normalisation: %zu steps, at most %d",
+        return ist_error_set(err, IST_ERR_INVALID, "standardisation: %zu steps, at most %d",
                              nsteps, NORM_MAX_STEPS);
     p = ist_calloc(1, sizeof *p);
     if (!p)
@@ -199,11 +199,11 @@ ist_norm_from_steps(size_t dim, const ist_norm_kind *kinds, size_t nsteps, const
         p->kinds[i] = kinds[i];
         if (kinds[i] != IST_NORM_UNIT && kinds[i] != IST_NORM_CENTRE) {
             ist_norm_free(p);
-            return ist_error_set(err, IST_ERR_INVALID, "normalisation: unknown step %d",
+            return ist_error_set(err, IST_ERR_INVALID, "standardisation: unknown step %d",
                                  (int)kinds[i]);
         }
         at += (size_t)snprintf(p->spec + at, at < sizeof p->spec ? sizeof p->spec - at : 0,
-                               "%s%s", i ? "," : "", kinds[i] == IST_NORM_UNIT ? "unit" : "centre");
+                               "%s%s", i ? "," : "", kinds[i] == IST_NORM_UNIT ? "length" : "mean");
         if (at >= sizeof p->spec)
             at = sizeof p->spec - 1;
         if (kinds[i] == IST_NORM_CENTRE) {

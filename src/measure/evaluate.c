@@ -63,9 +63,9 @@ record_options(ist_result *r, const ist_evaluate_opts *o, ist_error *err)
     ist_result_options *p = &r->options;
     p->present = true;
     p->methods = o->methods;
-    p->neighbourhood = o->eval.neighbourhood;
-    p->memory_bytes = o->eval.retrieve.budget;
-    p->threads = o->eval.retrieve.threads;
+    p->neighbourhood = o->eval.search.csls_k;
+    p->memory_bytes = o->eval.search.retrieve.budget;
+    p->threads = o->eval.search.retrieve.threads;
     p->allow_overlap = o->allow_overlap;
     p->nedges = o->eval.nedges;
     memcpy(p->band_edges, o->eval.band_edges, sizeof p->band_edges);
@@ -178,8 +178,7 @@ diagnose(ist_result *r, ist_cmatview xs, ist_cmatview zt, const ist_store *tgt,
          const ist_pairs *test, const ist_evaluate_opts *o, ist_error *err)
 {
     ist_diag_opts d = o->diag;
-    d.neighbourhood = o->eval.neighbourhood;
-    d.retrieve = o->eval.retrieve;
+    d.search = o->eval.search;
     return ist_diag_run(xs, zt, tgt, test, &d, &r->diagnostics, err);
 }
 

@@ -231,8 +231,8 @@ static void
 write_options(ist_jw *w, const ist_result_options *o)
 {
     ist_jw_obj_begin(w, RK_OPTIONS);
-    ist_jw_str(w, RK_RETRIEVAL, ist_result_methods_name(o->methods));
-    ist_jw_uint(w, RK_NEIGHBOURHOOD, o->neighbourhood);
+    ist_jw_str(w, RK_RANK_BY, ist_result_methods_name(o->methods));
+    ist_jw_uint(w, RK_CSLS_K, o->neighbourhood);
     ist_jw_uint(w, RK_MEMORY, o->memory_bytes);
     ist_jw_uint(w, RK_THREADS, o->threads);
     ist_jw_bool(w, RK_ALLOW_OVERLAP, o->allow_overlap);

@@ -269,12 +269,13 @@ read_options(ist_rd *r, const ist_jv *root, ist_result_options *opt)
     if (!o)
         return;
     opt->present = true;
-    const char *m = ist_jv_str(ist_rd_get(r, o, RK_RETRIEVAL, IST_JSTR, true, RK_OPTIONS), "");
+    const char *m = ist_jv_str(ist_rd_get(r, o, RK_RANK_BY, IST_JSTR, true, RK_OPTIONS), "");
     if (r->rc == IST_OK &&
         !pick(m, RK_BOTH, RK_CSLS, RK_COSINE, IST_RESULT_COSINE | IST_RESULT_CSLS,
               IST_RESULT_CSLS, IST_RESULT_COSINE, &opt->methods))
-        ist_rd_fail(r, o, "options.retrieval: expected cosine, csls or both, found '%s'", m);
-    ist_rd_size(r, o, RK_NEIGHBOURHOOD, true, RK_OPTIONS, &opt->neighbourhood);
+        ist_rd_fail(r, o, "%s.%s: expected cosine, csls or both, found '%s'", RK_OPTIONS,
+                    RK_RANK_BY, m);
+    ist_rd_size(r, o, RK_CSLS_K, true, RK_OPTIONS, &opt->neighbourhood);
     ist_rd_size(r, o, RK_MEMORY, true, RK_OPTIONS, &opt->memory_bytes);
     if (ist_rd_size(r, o, RK_THREADS, true, RK_OPTIONS, &v))
         opt->threads = (unsigned)v;

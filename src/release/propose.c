@@ -35,10 +35,9 @@ ist_propose_opts_init(ist_propose_opts *o)
     memset(o, 0, sizeof *o);
     o->top_sources = IST_PROPOSE_SOURCES_DEFAULT;
     o->candidates = IST_PROPOSE_CANDIDATES_DEFAULT;
-    o->neighbourhood = IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT;
     o->order = IST_PROPOSE_INFORMATIVE;
     o->skip_gold_targets = false;
-    ist_retrieve_opts_init(&o->retrieve);
+    ist_search_opts_init(&o->search);
 }
 
 void
@@ -278,9 +277,8 @@ check_args(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const ist_sto
         return ist_error_set(err, IST_ERR_INVALID,
                              "propose: expected 1 to %u candidates, found %zu",
                              IST_PROPOSE_MAX_CANDIDATES, o->candidates);
-    if (o->neighbourhood < 1)
-        return ist_error_set(err, IST_ERR_INVALID, "propose: expected a CSLS neighbourhood of "
-                             "at least 1");
+    if (ist_search_opts_check(&o->search, "propose", err) != IST_OK)
+        return err->code;
     if (zt.rows == 0 || zt.rows > UINT32_MAX)
         return ist_error_set(err, IST_ERR_INVALID, "propose: expected 1 to 2^32-1 target rows, "
                              "found %zu", zt.rows);
@@ -305,7 +303,7 @@ find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_st
         depth = zt.rows;
     if ((rc = gather(xs, qrow, nq, &q, err)) != IST_OK ||
         (rc = ist_retrieve_rank(ist_matrix_cview(q), xs, zt, IST_RETRIEVAL_CSLS, depth,
-                                o->neighbourhood, &o->retrieve, &tk, err)) != IST_OK)
+                                o->search.csls_k, &o->search.retrieve, &tk, err)) != IST_OK)
         goto done;
     if (ist_mul_size(nq, o->candidates, &cap) != 0 ||
         !(p->row = ist_malloc(cap * sizeof *p->row)) || !(g = ist_malloc(nq * sizeof *g))) {
@@ -315,7 +313,7 @@ find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_st
     p->n = collect(tk, qrow, nq, o->candidates, o->skip_gold_targets ? gold : NULL, src, tgt,
                    p->row, g, &ng, &p->stats.skipped_targets);
     p->stats.proposed = ng;
-    if ((rc = mark_mutual(xs, zt, o->neighbourhood, &o->retrieve, p->row, p->n, err)) == IST_OK)
+    if ((rc = mark_mutual(xs, zt, o->search.csls_k, &o->search.retrieve, p->row, p->n, err)) == IST_OK)
         rc = order_rows(p, g, ng, err);
 done:
     ist_free(g);
@@ -354,7 +352,7 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
     p->order = o.order;
     p->top_sources = top;
     p->candidates = o.candidates;
-    p->neighbourhood = o.neighbourhood;
+    p->neighbourhood = o.search.csls_k;
     p->skip_gold_targets = o.skip_gold_targets;
     size_t nlisted = 0;
     if ((rc = mark_list_words(src, lists, nlists, false, listed, &nlisted, err)) != IST_OK ||

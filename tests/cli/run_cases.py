@@ -71,7 +71,8 @@ RESULTS_LOADED = [0]
 
 def load_results(work, fixtures):
     """Every result file isthmus wrote in this case loads back (ISTHMUS_RESULT_LOADER);
-    the fixtures copied in are not counted."""
+    the fixtures copied in, and files a case damages on purpose (named bad-*), are not
+    counted."""
     loader = os.environ.get("ISTHMUS_RESULT_LOADER")
     if not loader:
         return []
@@ -83,6 +84,8 @@ def load_results(work, fixtures):
                 with open(path, "rb") as f:
                     head = f.read(64)
             except OSError:
+                continue
+            if n.startswith("bad-"):
                 continue
             fixture = os.path.join(fixtures, n)
             if root == work and os.path.isfile(fixture) and filecmp.cmp(path, fixture, False):

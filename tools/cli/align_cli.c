@@ -12,6 +12,7 @@ ac_common_init(ac_common *c, ac_methods dflt)
 {
     memset(c, 0, sizeof *c);
     c->methods = dflt;
+    ist_search_opts_init(&c->search);
     ist_eval_opts_init(&c->eval);
     c->diagnostics = true;
     ist_diag_opts_init(&c->diag);
@@ -48,25 +49,20 @@ ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
     int m;
 
     switch (opt) {
-    case AC_OPT_RETRIEVAL:
-        if (!cli_parse_choice(cmd, "--retrieval", arg, methods, &m))
+    case AC_OPT_RANK_BY:
+        if (!cli_parse_choice(cmd, "--rank-by", arg, methods, &m))
             return false;
         c->methods = (ac_methods)(m + 1);
         return true;
-    case AC_OPT_NEIGHBOURHOOD:
-        if (!cli_parse_size(cmd, "--neighbourhood", arg, 1, 1000, &c->eval.neighbourhood))
-            return false;
-        return true;
+    case AC_OPT_CSLS_K:
+        return cli_parse_size(cmd, "--csls-k", arg, 1, IST_CSLS_K_MAX, &c->search.csls_k);
     case AC_OPT_MEMORY:
         if (!cli_parse_size(cmd, "--memory", arg, 1, (size_t)1 << 20, &v))
             return false;
-        c->eval.retrieve.budget = v << 20;
+        c->search.retrieve.budget = v << 20;
         return true;
     case AC_OPT_THREADS:
-        if (!cli_parse_size(cmd, "--threads", arg, 0, 64, &v))
-            return false;
-        c->eval.retrieve.threads = (unsigned)v;
-        return true;
+        return cli_parse_threads(cmd, arg, &c->search.retrieve.threads);
     case AC_OPT_BANDS:
         return parse_bands(cmd, arg, &c->eval);
     case AC_OPT_ALLOW_OVERLAP:
@@ -89,26 +85,33 @@ ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
 }
 
 void
-ac_common_help(FILE *out, bool scoring)
+ac_common_help(FILE *out, unsigned groups, const char *rank_default)
 {
-    if (scoring)
-        fputs("      --retrieval=METHOD  cosine, csls or both [default: both]\n"
-              "      --bands=R1,R2,...   upper frequency ranks of the bands reported\n"
+    if (groups & AC_HELP_RANK)
+        fprintf(out, "      --rank-by=METHOD    rank target words by %s [default: %s]\n",
+                strcmp(rank_default, "both") == 0 ? "cosine, csls or both" : "cosine or csls",
+                rank_default);
+    if (groups & AC_HELP_SCORING)
+        fputs("      --bands=R1,R2,...   upper frequency ranks of the bands reported\n"
               "                          [default: 5000,20000]\n"
               "      --allow-overlap     score even when test source words are also seed\n"
               "                          source words (the result says so) [default: refuse]\n"
-              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n"
-              "      --no-diagnostics    leave the diagnostics (hubness, isometry, worst misses,\n"
+              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n",
+              out);
+    if (groups & AC_HELP_DIAG)
+        fputs("      --no-diagnostics    leave the diagnostics (hubness, isometry, worst misses,\n"
               "                          similarity histograms) out of the JSON result\n"
               "      --diagnostics-words=N  hubness queries: the N most frequent source words\n"
               "                          [default: 5000]\n"
               "      --isometry-words=N  isometry: the N most frequent words of each side,\n"
               "                          0 to skip, at most 4000 [default: 1000]\n",
               out);
-    fputs("      --neighbourhood=K   CSLS neighbourhood size [default: 10]\n"
-          "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
-          "      --threads=N         worker threads, 0 = one per processor [default: 0]\n",
-          out);
+    if (groups & AC_HELP_SEARCH)
+        fputs("      --csls-k=K          neighbours averaged in the CSLS hub penalty, 1..1000\n"
+              "                          [default: 10]\n"
+              "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
+              CLI_HELP_THREADS,
+              out);
 }
 
 int
@@ -286,6 +289,7 @@ ac_evaluate_opts(const ac_common *c, ist_evaluate_opts *o)
 {
     ist_evaluate_opts_init(o);
     o->eval = c->eval;
+    o->eval.search = c->search;
     o->methods = (c->methods & AC_COSINE ? IST_RESULT_COSINE : 0u) |
                  (c->methods & AC_CSLS ? IST_RESULT_CSLS : 0u);
     o->allow_overlap = c->allow_overlap;

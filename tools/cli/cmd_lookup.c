@@ -23,9 +23,9 @@ help(FILE *out)
           "      --map=MAP           map file written by 'isthmus align' (required)\n"
           "      --words=FILE        also look up the words of FILE, one per line\n"
           "      --top=N             translations shown per word [default: 10]\n"
-          "      --retrieval=METHOD  cosine or csls [default: csls]\n",
+          ,
           out);
-    ac_common_help(out, false);
+    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "The output is a statistical suggestion; have a speaker of the language review it\n"
@@ -128,7 +128,7 @@ lookup(const ac_common *c, size_t top, const ist_map *map, const ist_store *s,
                    xv.cols * sizeof(float));
     ist_retrieval m = c->methods == AC_COSINE ? IST_RETRIEVAL_COSINE : IST_RETRIEVAL_CSLS;
     if (ist_retrieve_rank(ist_matview_const(qv), xv, ist_matrix_cview(zt), m, top,
-                          c->eval.neighbourhood, &c->eval.retrieve, &tk, &err) != IST_OK) {
+                          c->search.csls_k, &c->search.retrieve, &tk, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }
@@ -159,10 +159,8 @@ run(int argc, char **argv)
         {"map", required_argument, NULL, OPT_MAP},
         {"words", required_argument, NULL, OPT_WORDS},
         {"top", required_argument, NULL, OPT_TOP},
-        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        AC_OPTS_SEARCH,
+        AC_OPTS_RANK,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -190,7 +188,7 @@ run(int argc, char **argv)
                 if (!ac_common_option(CMD, &c, rc, optarg))
                     return CLI_EXIT_USAGE;
                 if (c.methods == AC_BOTH)
-                    return cli_usage_error(CMD, "--retrieval: expected cosine or csls");
+                    return cli_usage_error(CMD, "--rank-by: expected cosine or csls");
                 break;
             }
             return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);

@@ -33,7 +33,7 @@ help(FILE *out)
           "      --skip-gold-targets leave out candidates that are already a gold target of a\n"
           "                          listed source word [default: keep them]\n",
           out);
-    ac_common_help(out, false);
+    ac_common_help(out, AC_HELP_SEARCH, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Write accept, reject or 'use WORD' in the decision column, then merge the file\n"
@@ -66,9 +66,7 @@ parse(int argc, char **argv, args *a)
         {"candidates", required_argument, NULL, OPT_CANDIDATES},
         {"order", required_argument, NULL, OPT_ORDER},
         {"skip-gold-targets", no_argument, NULL, OPT_SKIP_GOLD},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        AC_OPTS_SEARCH,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -103,7 +101,7 @@ parse(int argc, char **argv, args *a)
             a->po.order = ord == 1 ? IST_PROPOSE_CERTAIN : IST_PROPOSE_INFORMATIVE;
             break;
         case OPT_SKIP_GOLD: a->po.skip_gold_targets = true; break;
-        case 'h': help(stdout); return -1;
+        case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (o >= 1000) {
                 if (!ac_common_option(CMD, &c, o, optarg))
@@ -121,9 +119,8 @@ parse(int argc, char **argv, args *a)
         return cli_usage_error(CMD, "expected -o CANDIDATES, the candidate list to write");
     a->src = argv[optind];
     a->tgt = argv[optind + 1];
-    a->po.neighbourhood = c.eval.neighbourhood;
-    a->po.retrieve = c.eval.retrieve;
-    return 0;
+    a->po.search = c.search;
+    return CLI_GO_ON;
 }
 
 static int
@@ -168,8 +165,13 @@ run(int argc, char **argv)
     int rc;
 
     memset(&a, 0, sizeof a);
-    if ((rc = parse(argc, argv, &a)) != 0)
-        return rc < 0 ? CLI_EXIT_OK : rc;
+    if ((rc = parse(argc, argv, &a)) != CLI_GO_ON)
+        return rc;
+    const char *ins[MAX_LISTS + 3] = {a.src, a.tgt, a.map};
+    for (size_t i = 0; i < a.nlists; i++)
+        ins[3 + i] = a.lists[i];
+    if ((rc = cli_check_files(CMD, ins, 3 + a.nlists, &a.out, 1)) != 0)
+        return rc;
     for (size_t i = 0; i < a.nlists; i++)
         if (ist_pairs_read(a.lists[i], &lists[i], &err) != IST_OK) {
             rc = cli_report(CMD, &err);

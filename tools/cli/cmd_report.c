@@ -58,6 +58,9 @@ run(int argc, char **argv)
         return cli_usage_error(CMD, "expected one RESULT.json, got %d arguments", argc - optind);
     if (!out)
         return cli_usage_error(CMD, "expected -o REPORT.html");
+    const char *ins[] = {argv[optind], verdict};
+    if ((c = cli_check_files(CMD, ins, 2, &out, 1)) != 0)
+        return c;
     ist_result *res = NULL;
     if (ist_result_load(argv[optind], &res, &err) != IST_OK ||
         ist_report_write(res, verdict, out, &err) != IST_OK) {

@@ -30,8 +30,8 @@ help(FILE *out)
           "                          [default: 0.025]\n"
           "      --subsample=T       frequent-word threshold t: a word of frequency f is kept\n"
           "                          with probability min(1, sqrt(t/f)); 0 = off [default: 1e-4]\n"
-          "      --threads=N         training threads; only 1 gives bit-identical reruns\n"
-          "                          [default: the number of processors]\n"
+          CLI_HELP_THREADS
+          "                          (only 1 gives bit-identical reruns)\n"
           "      --seed=N            random seed [default: 1]\n"
           "      --kernel=K          fast (shared noise words per window, vector kernels) or\n"
           "                          reference (plain per-pair loop) [default: fast]\n"
@@ -83,7 +83,7 @@ on_build_progress(void *ctx, uint64_t done, uint64_t total)
                         total ? 100.0 * (double)done / (double)total : 100.0, total / 1e6);
 }
 
-/* Parse argv into a; returns -1 to go on, else the exit status. */
+/* Parse argv into a; CLI_GO_ON or the exit status. */
 static int
 parse(int argc, char **argv, train_args *a)
 {
@@ -115,11 +115,10 @@ parse(int argc, char **argv, train_args *a)
     static const char *const kernels[] = {"fast", "reference", NULL};
     const char *cmd = "train";
     int c, k;
-    long ncpu = sysconf(_SC_NPROCESSORS_ONLN);
+    unsigned threads = 0;
 
     ist_sgns_opts_init(&a->so);
     ist_corpus_opts_init(&a->co);
-    a->so.threads = ncpu > 0 ? (size_t)(ncpu < 64 ? ncpu : 64) : 1;
     a->passes_auto = true;
     while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
         bool ok = true;
@@ -137,7 +136,9 @@ parse(int argc, char **argv, train_args *a)
             break;
         case 'r': ok = cli_parse_double(cmd, "--rate", optarg, 1e-9, 10, &a->so.lr0); break;
         case 's': ok = cli_parse_double(cmd, "--subsample", optarg, 0, 1, &a->so.subsample); break;
-        case 't': ok = cli_parse_size(cmd, "--threads", optarg, 1, 256, &a->so.threads); break;
+        case 't':
+            ok = cli_parse_threads(cmd, optarg, &threads);
+            break;
         case 'S': ok = cli_parse_u64(cmd, "--seed", optarg, 0, UINT64_MAX, &a->so.seed); break;
         case 'k':
             ok = cli_parse_choice(cmd, "--kernel", optarg, kernels, &k);
@@ -170,6 +171,7 @@ parse(int argc, char **argv, train_args *a)
         if (!ok)
             return CLI_EXIT_USAGE;
     }
+    a->so.threads = threads ? threads : cli_processors();
     if (!a->out)
         return cli_usage_error(cmd, "expected --output OUT");
     if (strcmp(a->out, "-") == 0)
@@ -184,7 +186,7 @@ parse(int argc, char **argv, train_args *a)
     if ((a->ctx_out && strcmp(a->ctx_out, a->out) == 0) ||
         (a->text_out && strcmp(a->text_out, a->out) == 0))
         return cli_usage_error(cmd, "two outputs share the name '%s'", a->out);
-    return -1;
+    return CLI_GO_ON;
 }
 
 /* A prepared corpus starts with these bytes (written by ist_corpus_save). */
@@ -258,15 +260,15 @@ run(int argc, char **argv)
     train_args a;
     memset(&a, 0, sizeof a);
     int st = parse(argc, argv, &a);
-    if (st >= 0)
+    if (st != CLI_GO_ON)
         return st;
     if ((st = check_inputs(argc - optind, argv + optind, &a)) >= 0)
         return st;
     /* refuse an output that cannot be written before spending the training time */
-    if (!cli_output_dir_ok("train", a.out) ||
-        (a.ctx_out && !cli_output_dir_ok("train", a.ctx_out)) ||
-        (a.text_out && !cli_output_dir_ok("train", a.text_out)))
-        return CLI_EXIT_ERROR;
+    const char *outs[] = {a.out, a.ctx_out, a.text_out};
+    if ((st = cli_check_files("train", (const char *const *)argv + optind,
+                              (size_t)(argc - optind), outs, 3)) != 0)
+        return st;
 
     ist_corpus *corpus = NULL;
     ist_matrix *in = NULL, *ctx = NULL;
