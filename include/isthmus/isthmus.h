@@ -13,6 +13,8 @@
 #include <isthmus/pairs.h>
 #include <isthmus/align.h>
 #include <isthmus/metrics.h>
+#include <isthmus/bootstrap.h>
+#include <isthmus/result.h>
 #include <isthmus/gate.h>
 #include <isthmus/propose.h>
 #include <isthmus/text.h>
