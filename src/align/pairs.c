@@ -1,5 +1,6 @@
 /* pairs.c - bilingual word lists: parse, resolve against two stores, split, overlap. */
 #include <isthmus/pairs.h>
+#include <isthmus/filekind.h>
 
 #include <math.h>
 #include <stdlib.h>
@@ -184,6 +185,9 @@ ist_pairs_read(const char *path, ist_pairs **out, ist_error *err)
     bool eof = false;
 
     *out = NULL;
+    if ((rc = ist_file_expect(path, IST_FILE_ANY_TEXT, 1, "a pair list",
+                              err)) != IST_OK)
+        return rc;
     rc = ist_reader_open(path, PAIRS_MAX_LINE, &r, err);
     if (rc != IST_OK)
         return rc;

@@ -2,6 +2,7 @@
  * precision between two results is judged by a paired bootstrap over the test words
  * (Koehn 2004, "Statistical significance tests for machine translation evaluation"). */
 #include <isthmus/gate.h>
+#include <isthmus/filekind.h>
 
 #include <stdio.h>
 #include <stdlib.h>
@@ -59,7 +60,10 @@ ist_gate_result_load(const char *path, ist_gate_result **out, ist_error *err)
     ist_status rc;
 
     *out = NULL;
-    if ((rc = ist_json_parse_file(path, &root, err)) != IST_OK)
+    if ((rc = ist_file_expect(path, IST_FILE_BIT(IST_FILE_RESULT) | IST_FILE_BIT(IST_FILE_JSON) |
+                                        IST_FILE_ANY_TEXT,
+                              1, "a result file", err)) != IST_OK ||
+        (rc = ist_json_parse_file(path, &root, err)) != IST_OK)
         return rc;
     return adopt(root, path, out, err);
 }

@@ -1,5 +1,6 @@
 /* report.c - the self-contained HTML report of a result file (and a verdict). */
 #include <isthmus/report.h>
+#include <isthmus/filekind.h>
 
 #include <math.h>
 #include <stdio.h>
@@ -428,7 +429,16 @@ ist_report_write(const char *result_path, const char *verdict_path, const char *
     ist_status rc;
 
     memset(&r, 0, sizeof r);
-    if ((rc = ist_json_parse_file(result_path, &res, err)) != IST_OK ||
+    if ((rc = ist_file_expect(result_path,
+                              IST_FILE_BIT(IST_FILE_RESULT) | IST_FILE_BIT(IST_FILE_JSON) |
+                                  IST_FILE_ANY_TEXT,
+                              1, "a result file", err)) != IST_OK ||
+        (verdict_path &&
+         (rc = ist_file_expect(verdict_path,
+                               IST_FILE_BIT(IST_FILE_VERDICT) | IST_FILE_BIT(IST_FILE_JSON) |
+                                   IST_FILE_ANY_TEXT,
+                               1, "a verdict file", err)) != IST_OK) ||
+        (rc = ist_json_parse_file(result_path, &res, err)) != IST_OK ||
         (rc = check_kind(res, result_path, "isthmus result", err)) != IST_OK)
         goto done;
     if (verdict_path && ((rc = ist_json_parse_file(verdict_path, &ver, err)) != IST_OK ||

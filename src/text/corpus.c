@@ -3,6 +3,7 @@
  * then prune and renumber the stream in place. Memory holds the vocabulary,
  * the dedup hashes and the id stream, never the text. */
 #include <isthmus/corpus.h>
+#include <isthmus/filekind.h>
 
 #include <errno.h>
 #include <stdio.h>
@@ -257,6 +258,10 @@ read_file(build *b, const char *path, ist_error *err)
     char hex[9];
     ist_status rc;
 
+    rc = ist_file_expect(path, IST_FILE_ANY_TEXT | IST_FILE_BIT(IST_FILE_JSON), 1,
+                         "raw text", err);
+    if (rc != IST_OK)
+        return rc;
     rc = crc_open(&cf, path, err);
     if (rc != IST_OK)
         return rc;

@@ -189,17 +189,13 @@ parse(int argc, char **argv, train_args *a)
     return CLI_GO_ON;
 }
 
-/* A prepared corpus starts with these bytes (written by ist_corpus_save). */
+/* Is path a prepared corpus (told by its signature)? */
 static bool
 is_prepared(const char *path)
 {
-    static const char magic[8] = "ISTPREP\x1a";
-    char head[8];
-    FILE *f = fopen(path, "rb");
-    bool yes = f && fread(head, 1, 8, f) == 8 && memcmp(head, magic, 8) == 0;
-    if (f)
-        fclose(f);
-    return yes;
+    ist_file_kind k;
+    ist_error err;
+    return ist_file_sniff(path, &k, NULL, &err) == IST_OK && k == IST_FILE_PREPARED;
 }
 
 /* Copy the trained rows into a store named by the vocabulary and save it. */
