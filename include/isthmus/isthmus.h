@@ -21,6 +21,8 @@
 #include <isthmus/diag.h>
 #include <isthmus/report.h>
 #include <isthmus/sgns.h>
+#include <isthmus/ppmi.h>
+#include <isthmus/combine.h>
 
 #ifdef __cplusplus
 extern "C" {
