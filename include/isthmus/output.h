@@ -42,6 +42,11 @@ IST_API ist_status ist_output_release(size_t *done, ist_error *err);
 /** Remove every waiting temporary and stop holding. */
 IST_API void ist_output_discard(void);
 
+/** The descriptor an output named "-" is written to [default: 1, standard output]. A
+ *  program that moves its own messages off standard output while data goes there sets
+ *  the descriptor it kept for the data. */
+IST_API void ist_output_set_stdout(int fd);
+
 #ifdef __cplusplus
 }
 #endif

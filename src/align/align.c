@@ -284,9 +284,14 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     if ((rc = ist_align_copy_store(src, &xn, err)) != IST_OK ||
         (rc = ist_align_copy_store(tgt, &zn, err)) != IST_OK)
         goto fail;
-    if ((rc = ist_norm_fit(opts->source_norm, ist_matrix_view(xn), &m->ns, err)) != IST_OK ||
-        (rc = ist_norm_fit(opts->target_norm, ist_matrix_view(zn), &m->nt, err)) != IST_OK)
+    if ((rc = ist_norm_fit(opts->source_norm, ist_matrix_view(xn), &m->ns, err)) != IST_OK) {
+        ist_error_prefix(err, "source vectors");
         goto fail;
+    }
+    if ((rc = ist_norm_fit(opts->target_norm, ist_matrix_view(zn), &m->nt, err)) != IST_OK) {
+        ist_error_prefix(err, "target vectors");
+        goto fail;
+    }
     if ((rc = ist_matrix_new(m->dim, m->dim, &m->w, err)) != IST_OK ||
         (rc = ist_matrix_new(m->dim, m->dim, &m->w0, err)) != IST_OK)
         goto fail;

@@ -29,20 +29,36 @@ ist_norm_free(ist_norm *p)
     ist_free(p);
 }
 
+/* Unit length, scaled in double: for a tiny legal row such as (1e-40, 0, 0, 0) the
+ * factor 1/|x| is far beyond float range although every result is at most 1. A zero
+ * row stays zero (it is nobody's neighbour: every cosine with it is 0). The sum of
+ * squares is the pass that finds a non-finite number: *bad gets its row, else stays. */
 static void
-unit_rows(ist_matview m)
+unit_rows(ist_matview m, size_t *bad)
 {
     for (size_t r = 0; r < m.rows; r++) {
         float *row = m.data + r * m.stride;
         double q = 0;
         for (size_t j = 0; j < m.cols; j++)
             q += (double)row[j] * row[j];
+        if (!isfinite(q)) {
+            if (*bad == (size_t)-1)
+                *bad = r;
+            continue;
+        }
         if (q > 0) {
-            float s = (float)(1.0 / sqrt(q));
+            double s = 1.0 / sqrt(q);
             for (size_t j = 0; j < m.cols; j++)
-                row[j] *= s;
+                row[j] = (float)(row[j] * s);
         }
     }
+}
+
+static ist_status
+non_finite(size_t row, ist_error *err)
+{
+    return ist_error_set(err, IST_ERR_NUMERIC, "row %zu holds a number that is not finite (or "
+                         "so large that its square overflows)", row);
 }
 
 static void
@@ -145,7 +161,12 @@ ist_norm_fit(const char *spec, ist_matview m, ist_norm **out, ist_error *err)
         goto fail;
     for (size_t i = 0; i < p->nsteps; i++) {
         if (p->kinds[i] == IST_NORM_UNIT) {
-            unit_rows(m);
+            size_t bad = (size_t)-1;
+            unit_rows(m, &bad);
+            if (bad != (size_t)-1) {
+                rc = non_finite(bad, err);
+                goto fail;
+            }
             continue;
         }
         p->means[i] = ist_malloc(m.cols * sizeof(double) + 1);
@@ -171,10 +192,13 @@ ist_norm_apply(const ist_norm *p, ist_matview m, ist_error *err)
                              "standardisation: expected vectors of dimension %zu, found %zu",
                              p->dim, m.cols);
     for (size_t i = 0; i < p->nsteps; i++) {
+        size_t bad = (size_t)-1;
         if (p->kinds[i] == IST_NORM_UNIT)
-            unit_rows(m);
+            unit_rows(m, &bad);
         else
             subtract_mean(m, p->means[i]);
+        if (bad != (size_t)-1)
+            return non_finite(bad, err);
     }
     return IST_OK;
 }

@@ -22,6 +22,14 @@
 
 #define OFILE_BUF (1u << 18)
 
+static int stdout_fd = STDOUT_FILENO;   /* where "-" goes (output.h) */
+
+void
+ist_output_set_stdout(int fd)
+{
+    stdout_fd = fd;
+}
+
 struct ist_ofile {
     char *path;         /* final name; NULL for stdout */
     char *tmp;          /* temporary name */
@@ -81,7 +89,7 @@ ist_ofile_open(const char *path, bool gz, ist_ofile **out, ist_error *err)
     }
     bool exists = stat(path, &st) == 0;
     if (strcmp(path, "-") == 0) {
-        f->fd = STDOUT_FILENO;
+        f->fd = stdout_fd;
     } else if (exists && S_ISDIR(st.st_mode)) {
         rc = ist_error_at(err, IST_ERR_INVALID, path, 0, "output path is a directory");
         goto fail;

@@ -265,6 +265,8 @@ on_word(void *ctx, const char *word, size_t len)
     build *b = ctx;
     uint32_t id;
 
+    if (len > IST_WORD_MAX_BYTES)
+        return 0;   /* no vector file could hold it (vocab.h): not a word */
     b->cb_rc = ist_wordtab_add(&b->words, word, len, &id, b->err);
     if (b->cb_rc == IST_OK)
         b->cb_rc = push_id(b, id, b->err);

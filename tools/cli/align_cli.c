@@ -116,12 +116,17 @@ ac_common_help(FILE *out, unsigned groups, const char *rank_default)
 int
 ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s, ist_store **t)
 {
+    ist_store_opts so;
     ist_error err;
 
+    /* these commands read every row anyway: check the matrix checksum and that every
+     * number is finite before any of it reaches the maths (docs/formats.md) */
+    ist_store_opts_init(&so);
+    so.verify = true;
     *s = *t = NULL;
-    if (ist_store_open(src, NULL, s, &err) != IST_OK)
+    if (ist_store_open(src, &so, s, &err) != IST_OK)
         return cli_report(cmd, &err);
-    if (ist_store_open(tgt, NULL, t, &err) != IST_OK) {
+    if (ist_store_open(tgt, &so, t, &err) != IST_OK) {
         ist_store_free(*s);
         *s = NULL;
         return cli_report(cmd, &err);
@@ -167,6 +172,19 @@ ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
         return cli_report(cmd, &err);
     }
     ac_print_coverage(what, path, cov);
+    if (cov->kept == 0) {
+        cli_progress_done();
+        if (cov->read == 0)
+            fprintf(stderr, "isthmus %s: %s: the %s list holds no pair (only blank or comment "
+                    "lines)\n", cmd, path, what);
+        else
+            fprintf(stderr, "isthmus %s: %s: none of its %zu pairs has both words in the vectors "
+                    "(%zu source, %zu target and %zu both words missing)\n", cmd, path,
+                    cov->read, cov->missing_source, cov->missing_target, cov->missing_both);
+        ist_pairs_free(*out);
+        *out = NULL;
+        return CLI_EXIT_ERROR;
+    }
     return 0;
 }
 

@@ -2,6 +2,7 @@
 #include "cli.h"
 
 #include <errno.h>
+#include <fcntl.h>
 #include <math.h>
 #include <signal.h>
 #include <stdarg.h>
@@ -237,6 +238,28 @@ same_key(const file_key *a, const file_key *b)
            strcmp(a->base, b->base) == 0;
 }
 
+/* An output goes to standard output: keep the descriptor for that data alone and send
+ * what the command prints there (tables, summaries) to standard error, or nowhere
+ * with -q, so the data can be piped. */
+static void
+claim_stdout(void)
+{
+    int data, to;
+
+    fflush(stdout);
+    data = dup(STDOUT_FILENO);
+    to = cli_g.verbosity < 0 ? open("/dev/null", O_WRONLY | O_CLOEXEC) : dup(STDERR_FILENO);
+    if (data < 0 || to < 0 || dup2(to, STDOUT_FILENO) < 0) {
+        if (data >= 0)
+            close(data);
+        if (to >= 0)
+            close(to);
+        return;   /* no descriptor to spare: leave standard output as it is */
+    }
+    close(to);
+    ist_output_set_stdout(data);
+}
+
 static bool
 skipped(const char *p)
 {
@@ -273,6 +296,13 @@ cli_check_files(const char *cmd, const char *const *inputs, size_t nin,
     for (size_t i = 0; i < nout; i++)
         if (!skipped(outputs[i]) && !cli_output_dir_ok(cmd, outputs[i]))
             return CLI_EXIT_ERROR;
+    size_t to_stdout = 0;
+    for (size_t i = 0; i < nout; i++)
+        to_stdout += outputs[i] && strcmp(outputs[i], "-") == 0;
+    if (to_stdout > 1)
+        return cli_usage_error(cmd, "only one output may go to standard output ('-')");
+    if (to_stdout == 1)
+        claim_stdout();
     return 0;
 }
 
