@@ -416,8 +416,8 @@ parse_map(const unsigned char *p, size_t len, const char *path, ist_map *m, ist_
 
     if (len < MAP_HEADER + 8 || memcmp(p, MAP_MAGIC, 8) != 0) {
         ist_file_kind k = ist_file_classify(p, len < 8192 ? len : 8192);
-        if (k != IST_FILE_MAP && k != IST_FILE_UNKNOWN && k != IST_FILE_BINARY &&
-            k != IST_FILE_OWN_BINARY)
+        if (k == IST_FILE_VECTORS || k == IST_FILE_PREPARED || k == IST_FILE_RESULT ||
+            k == IST_FILE_VERDICT || k == IST_FILE_CANDIDATES)
             return ist_error_at(err, IST_ERR_FORMAT, path, 0, "this is %s (%s), not a map file",
                                 ist_file_kind_name(k), ist_file_kind_use(k));
         return ist_error_at(err, IST_ERR_FORMAT, path, 0,

@@ -61,7 +61,7 @@ ist_gate_result_load(const char *path, ist_gate_result **out, ist_error *err)
 
     *out = NULL;
     if ((rc = ist_file_expect(path, IST_FILE_BIT(IST_FILE_RESULT) | IST_FILE_BIT(IST_FILE_JSON) |
-                                        IST_FILE_ANY_TEXT,
+                                        IST_FILE_BIT(IST_FILE_VERDICT) | IST_FILE_ANY_TEXT,
                               1, "a result file", err)) != IST_OK ||
         (rc = ist_json_parse_file(path, &root, err)) != IST_OK)
         return rc;
