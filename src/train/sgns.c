@@ -22,7 +22,6 @@
 #define PUBLISH_EVERY 10000    /* stream words between updates of the shared counters */
 #define SIG_RANGE 8.0f         /* sigmoid table covers [-8, 8] */
 #define SIG_SIZE 2048
-#define LR_FLOOR 1e-4
 #define LOSS_EVERY_MASK 7      /* the loss (for progress only) is summed on every 8th window */
 #define MAX_THREADS 256
 #define MAX_DIM 10000
@@ -43,6 +42,7 @@ ist_sgns_opts_init(ist_sgns_opts *o)
     o->negatives = 5;
     o->epochs = 5;
     o->lr0 = 0.025;
+    o->lr_floor = 1e-4;
     o->subsample = 1e-4;
     o->threads = 1;
     o->seed = 1;
@@ -158,7 +158,7 @@ typedef struct shared {
     ist_sgns_noise noise;
     const ist_sgns_simd *simd;
     ist_sgns_kernel kernel;
-    double lr0;
+    double lr0, lr_floor;
     uint64_t words_per_epoch, words_total;
     float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
     atomic_int stop;
@@ -255,7 +255,7 @@ static double
 current_lr(const shared *sh, uint64_t done)
 {
     double f = 1.0 - (double)done / (double)(sh->words_total + 1);
-    return sh->lr0 * (f > LR_FLOOR ? f : LR_FLOOR);
+    return sh->lr0 * (f > sh->lr_floor ? f : sh->lr_floor);
 }
 
 /* ---- rows: shared, or this thread's copy for a hot word --------------------------------- */
@@ -647,6 +647,10 @@ check_opts(const ist_sgns_opts *o, size_t n_ids, size_t vocab_size, ist_error *e
     if (o->threads == 0 || o->threads > MAX_THREADS)
         return ist_error_set(err, IST_ERR_INVALID, "threads: expected 1 to %d, found %zu",
                              MAX_THREADS, o->threads);
+    if (!(o->lr_floor > 0.0 && o->lr_floor <= 1.0))
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "learning-rate floor: expected a fraction in (0, 1], found %g",
+                             o->lr_floor);
     if (!(o->lr0 > 0.0 && o->lr0 <= 10.0))
         return ist_error_set(err, IST_ERR_INVALID,
                              "learning rate: expected a number in (0, 10], found %g", o->lr0);
@@ -900,6 +904,7 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
     sh->kernel = o->kernel;
     sh->lr0 = o->lr0;
+    sh->lr_floor = o->lr_floor;
     sh->words_per_epoch = words;
     sh->words_total = words * o->epochs;
     sig_tables(sh);
