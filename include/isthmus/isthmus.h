@@ -24,6 +24,7 @@
 #include <isthmus/sgns.h>
 #include <isthmus/ppmi.h>
 #include <isthmus/combine.h>
+#include <isthmus/cluster.h>
 
 #ifdef __cplusplus
 extern "C" {
