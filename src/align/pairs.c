@@ -387,7 +387,7 @@ normalise_side(ist_pairs *p, const ist_store *s, bool source, bool *exact, ist_e
     ist_status rc = ist_pairs_norm_open(s, &nz, exact, err);
 
     for (size_t i = 0; rc == IST_OK && i < p->n && !*exact; i++) {
-        size_t off = source ? p->v[i].s_off : p->v[i].t_off, len, noff;
+        size_t off = source ? p->v[i].s_off : p->v[i].t_off, len, noff = 0;
         const char *w;
         rc = ist_pairs_norm_word(nz, p->pool + off, strlen(p->pool + off), &w, &len, err);
         if (rc != IST_OK) {

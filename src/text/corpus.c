@@ -605,7 +605,7 @@ pool_start(build *b, size_t workers, pool **out, ist_error *err)
         pl->args[k].pl = pl;
         pl->args[k].k = k;
         if (pthread_create(&pl->th[k], NULL, segment_worker, &pl->args[k]) != 0)
-            rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start segmenting thread %zu",
+            rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start segmenting thread %zu",
                                k + 1);
         else
             pl->started++;

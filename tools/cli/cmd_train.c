@@ -208,6 +208,7 @@ parse(int argc, char **argv, train_args *a)
     unsigned threads = 0;
 
     ist_sgns_opts_init(&a->so);
+    a->so.simd = getenv("ISTHMUS_SIMD");   /* the kernels' instruction set, for checks */
     ist_corpus_opts_init(&a->co);
     ist_ppmi_opts_init(&a->po);
     a->weights[0] = a->weights[1] = 1.0;
@@ -397,7 +398,7 @@ train_sgns(train_args *a, const ist_corpus *corpus, const uint64_t *counts, ist_
              "%s kernel (%s)\n", (unsigned long long)ist_vocab_total(v), types, a->so.epochs,
              a->so.epochs == 1 ? "" : "es", a->so.dim, a->so.threads,
              a->so.threads == 1 ? "" : "s",
-             a->so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name());
+             a->so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name(a->so.simd));
     ist_status rc = ist_sgns_train(ids, n_ids, counts, types, &a->so, m,
                                    a->so.keep_context ? ctx : NULL, res, err);
     cli_progress_done();
