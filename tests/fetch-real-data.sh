@@ -43,14 +43,14 @@ bible() {  # MODULE NAME
     if fresh "$out/$2.txt" "$sword/$1" extract-bible.py && [ -s "$out/$2.keys" ]; then
         return 0
     fi
-    python3 "$tools/dev/extract-bible.py" "$1" "$out/$2.txt" --keys "$out/$2.keys" --stats
+    python3 "$tools/extract-bible.py" "$1" "$out/$2.txt" --keys "$out/$2.keys" --stats
 }
 
 dict() {  # NAME OUT
     if fresh "$out/$2.pairs" "$dictd/freedict-$1.index" extract-freedict.py; then
         return 0
     fi
-    python3 "$tools/dev/extract-freedict.py" "$1" "$out/$2.pairs" --dir "$dictd" --stats
+    python3 "$tools/extract-freedict.py" "$1" "$out/$2.pairs" --dir "$dictd" --stats
 }
 
 bible engKJV2006eb en

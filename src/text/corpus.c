@@ -237,7 +237,7 @@ take_line(build *b, ist_reader *r, const char *line, size_t len, ist_error *err)
         }
     }
     b->cb_rc = IST_OK;
-    rc = ist_segment_words(norm, nlen, on_word, b, err);
+    rc = ist_segment_words_opts(norm, nlen, &b->o->text, on_word, b, err);
     if (rc == IST_OK)
         rc = b->cb_rc;
     if (rc != IST_OK) {

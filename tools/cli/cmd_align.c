@@ -24,7 +24,8 @@ help(FILE *out)
           "      --identical-seeds   also use words spelt the same in both vocabularies\n"
           "      --identical-min-count=N\n"
           "                          ...seen at least N times on both sides [default: 5]\n"
-          "      --identical-marked  ...and only those holding a digit or a capital letter\n"
+          "      --identical-marked  ...and only those holding a letter and a digit (codes,\n"
+          "                          sizes: tw-4410, 500ml; not prices) or a capital letter\n"
           "      --hold-out=FRACTION hold out this share of the --seeds source words as a test\n"
           "                          list (split by source word) [default: 0]\n"
           "      --split-seed=N      seed of the hold-out split [default: 1]\n"
@@ -227,7 +228,7 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
         }
         printf("%-10s %zu words spelt the same on both sides (count >= %" PRIu64 "%s)\n",
                "identical", ist_pairs_count(ident), a->ident_min,
-               a->ident_marked ? ", with a digit or capital" : "");
+               a->ident_marked ? ", with a letter and a digit or a capital" : "");
     }
     if (file && ident) {
         ist_status st = IST_OK;

@@ -43,8 +43,9 @@ help(FILE *out)
           "      --min-freq=N        keep words seen at least N times [default: 5]\n"
           "      --vocab-limit=N     keep at most the N most frequent words [default: 0 = all]\n"
           "      --max-line-bytes=N  longest line accepted, in bytes [default: 1048576]\n"
-          "      --no-nfkc, --no-casefold, --strip-marks, --mask-digits, --strict-utf8,\n"
-          "      --dedup-lines       as for 'isthmus prepare'\n"
+          "      --no-nfkc, --no-casefold, --strip-marks, --mask-digits, --numbers=POLICY,\n"
+          "      --strict-utf8, --dedup-lines\n"
+          "                          as for 'isthmus prepare'\n"
           "  -h, --help              show this help and exit\n"
           "\n"
           "Progress (percent, words/s, learning rate, recent loss, time left) is shown on a\n"
@@ -107,6 +108,7 @@ parse(int argc, char **argv, train_args *a)
         {"no-casefold", no_argument, NULL, 'C'},
         {"strip-marks", no_argument, NULL, 'M'},
         {"mask-digits", no_argument, NULL, 'D'},
+        {"numbers", required_argument, NULL, 'B'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'u'},
         {"help", no_argument, NULL, 'h'},
@@ -162,6 +164,13 @@ parse(int argc, char **argv, train_args *a)
         case 'C': a->co.text.casefold = false; a->text_opts_given = true; break;
         case 'M': a->co.text.strip_marks = true; a->text_opts_given = true; break;
         case 'D': a->co.text.mask_digits = true; a->text_opts_given = true; break;
+        case 'B':
+            ok = ist_numbers_policy_parse(optarg, &a->co.text.numbers);
+            if (!ok)
+                cli_usage_error(cmd, "--numbers: expected keep, mask or drop, found '%s'",
+                                optarg);
+            a->text_opts_given = true;
+            break;
         case 'U': a->co.text.strict_utf8 = true; a->text_opts_given = true; break;
         case 'u': a->co.dedup_lines = true; a->text_opts_given = true; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
