@@ -285,7 +285,7 @@ test_normalisation(void **state)
     ist_error err;
 
     memcpy(b, a, sizeof a);
-    assert_int_equal(ist_norm_fit("unit,centre,unit", m, &p, &err), IST_OK);
+    assert_int_equal(ist_norm_fit("length,mean,length", m, &p, &err), IST_OK);
     assert_int_equal(ist_norm_steps(p), 3);
     assert_non_null(ist_norm_step_mean(p, 1));
     assert_null(ist_norm_step_mean(p, 0));
@@ -310,7 +310,7 @@ test_normalisation(void **state)
     for (size_t i = 0; i < n * d; i++)
         c[i] = harness_randf(&s) + 0.7f;
     ist_matview mc = {c, n, d, d};
-    assert_int_equal(ist_norm_fit("iterative=10", mc, &p, &err), IST_OK);
+    assert_int_equal(ist_norm_fit("alternate=10", mc, &p, &err), IST_OK);
     assert_int_equal(ist_norm_steps(p), 21);
     for (size_t j = 0; j < d; j++) {
         double mean = 0;
@@ -320,9 +320,9 @@ test_normalisation(void **state)
     }
     ist_norm_free(p);
     free(c);
-    assert_int_equal(ist_norm_check("unit,sideways", &err), IST_ERR_INVALID);
+    assert_int_equal(ist_norm_check("length,sideways", &err), IST_ERR_INVALID);
     assert_non_null(strstr(err.msg, "sideways"));
-    assert_int_equal(ist_norm_check("iterative=0", &err), IST_ERR_INVALID);
+    assert_int_equal(ist_norm_check("alternate=0", &err), IST_ERR_INVALID);
     assert_int_equal(ist_norm_check("none", &err), IST_OK);
 }
 
@@ -361,7 +361,7 @@ test_map_file_round_trip(void **state)
     assert_int_equal(ist_map_rounds(back), ist_map_rounds(map));
     assert_int_equal(ist_pairs_count(ist_map_seeds(back)), 200);
     assert_string_equal(ist_pairs_source(ist_map_seeds(back), 7), "w7");
-    assert_string_equal(ist_norm_spec(ist_map_source_norm(back)), "unit,centre,unit");
+    assert_string_equal(ist_norm_spec(ist_map_source_norm(back)), "length,mean,length");
     const double *m1 = ist_norm_step_mean(ist_map_source_norm(map), 1);
     const double *m2 = ist_norm_step_mean(ist_map_source_norm(back), 1);
     for (size_t j = 0; j < 16; j++)
@@ -435,7 +435,7 @@ test_allocation_failures(void **state)
     ist_pairs *seeds = range_pairs(&sy, 0, 100);
     ist_align_opts_init(&ao);
     ao.refine_rounds = 1;
-    ao.retrieve.threads = 1;
+    ao.search.retrieve.threads = 1;
     for (long n = 0;; n++) {
         ist_map *map = NULL, *back = NULL;
         ist_testing_fail_alloc_after(n);
@@ -551,6 +551,45 @@ test_cancel(void **state)
     ist_topk_free(tk);
 }
 
+/* The neighbour-search group: one default, one range check, embedded in every
+ * ranking step's options, which all start from it. */
+static void
+test_search_opts(void **state)
+{
+    (void)state;
+    ist_search_opts so;
+    ist_align_opts ao;
+    ist_eval_opts eo;
+    ist_diag_opts dg;
+    ist_propose_opts po;
+    ist_error err;
+
+    ist_search_opts_init(&so);
+    assert_int_equal(so.csls_k, 10);
+    assert_int_equal(so.retrieve.threads, 0);
+    assert_int_equal(so.retrieve.budget, (size_t)256 << 20);
+    assert_int_equal(ist_search_opts_check(&so, "x", &err), IST_OK);
+    ist_align_opts_init(&ao);
+    ist_eval_opts_init(&eo);
+    ist_diag_opts_init(&dg);
+    ist_propose_opts_init(&po);
+    assert_memory_equal(&ao.search, &so, sizeof so);
+    assert_memory_equal(&eo.search, &so, sizeof so);
+    assert_memory_equal(&dg.search, &so, sizeof so);
+    assert_memory_equal(&po.search, &so, sizeof so);
+    so.csls_k = 0;
+    assert_int_equal(ist_search_opts_check(&so, "scoring", &err), IST_ERR_INVALID);
+    assert_non_null(strstr(err.msg, "scoring: expected a CSLS neighbourhood from 1 to 1000"));
+    so.csls_k = IST_CSLS_K_MAX + 1;
+    assert_int_equal(ist_search_opts_check(&so, "x", &err), IST_ERR_INVALID);
+    so.csls_k = IST_CSLS_K_MAX;
+    so.retrieve.threads = IST_THREADS_MAX + 1;
+    assert_int_equal(ist_search_opts_check(&so, "x", &err), IST_ERR_INVALID);
+    assert_non_null(strstr(err.msg, "at most 256 threads"));
+    so.retrieve.threads = IST_THREADS_MAX;
+    assert_int_equal(ist_search_opts_check(&so, "x", &err), IST_OK);
+}
+
 int
 main(void)
 {
@@ -564,6 +603,7 @@ main(void)
         cmocka_unit_test(test_allocation_failures),
         cmocka_unit_test(test_result_json),
         cmocka_unit_test(test_cancel),
+        cmocka_unit_test(test_search_opts),
     };
     HARNESS_RUN("align", tests);
 }

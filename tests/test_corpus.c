@@ -443,6 +443,108 @@ allocation_failures_are_clean(void **state)
     harness_rmdir(dir);
 }
 
+static unsigned char *
+read_all(const char *path, size_t *n)
+{
+    FILE *f = fopen(path, "rb");
+    assert_non_null(f);
+    fseek(f, 0, SEEK_END);
+    long len = ftell(f);
+    fseek(f, 0, SEEK_SET);
+    unsigned char *buf = malloc(len > 0 ? (size_t)len : 1);
+    assert_int_equal(fread(buf, 1, (size_t)len, f), (size_t)len);
+    fclose(f);
+    *n = (size_t)len;
+    return buf;
+}
+
+/* Spilling the token stream to a temporary file writes the same prepared file, byte for byte,
+ * as holding it in memory: two inputs (plain and gzip), repeated lines dropped, words pruned
+ * by count and by a vocabulary limit, and a stream of over half a million ids, so that it
+ * crosses the boundaries of the spill's 256 Ki-id chunks. The temporary file leaves no trace. */
+static void
+spilled_stream_same_file(void **state)
+{
+    char *dir = harness_tmpdir(), *spill = harness_path(dir, "spill");
+    char *p1 = harness_path(dir, "a.txt"), *p2 = harness_path(dir, "b.txt.gz");
+    char *qm = harness_path(dir, "mem.prep"), *qs = harness_path(dir, "spilled.prep");
+    const char *paths[] = {p1, p2};
+    uint64_t rng = 42;
+    ist_error err;
+
+    (void)state;
+    assert_int_equal(mkdir(spill, 0755), 0);
+    for (int f = 0; f < 2; f++) {
+        size_t cap = (size_t)6 << 20, len = 0;
+        char *text = malloc(cap);
+        for (int line = 0; line < 60000; line++) {
+            int words = (int)(harness_rand(&rng) % 14);
+            uint64_t again = 7, *r = line % 97 == 5 ? &again : &rng;   /* exact repeats */
+            if (r == &again)
+                words = 3;
+            for (int w = 0; w < words; w++) {
+                /* word ranks spread roughly like text: rank = r^3 of a uniform r */
+                double u = (double)(harness_rand(r) >> 11) / 9007199254740992.0;
+                unsigned rank = (unsigned)(u * u * u * 3000.0);
+                len += (size_t)snprintf(text + len, cap - len, "%sw%u", w ? " " : "", rank);
+            }
+            text[len++] = '\n';
+        }
+        if (f == 0) {
+            harness_write(p1, text, len);
+        } else {
+            gzFile gz = gzopen(p2, "wb");
+            assert_non_null(gz);
+            assert_int_equal(gzwrite(gz, text, (unsigned)len), (int)len);
+            assert_int_equal(gzclose(gz), Z_OK);
+        }
+        free(text);
+    }
+    for (int variant = 0; variant < 2; variant++) {
+        ist_corpus_opts o;
+        ist_corpus *c = NULL, *d = NULL;
+        size_t n;
+        ist_corpus_opts_init(&o);
+        o.min_count = 3;
+        o.dedup_lines = variant == 1;
+        o.max_vocab = variant == 1 ? 1000 : 0;
+        assert_int_equal(ist_corpus_build(paths, 2, &o, &c, &err), IST_OK);
+        assert_non_null(ist_corpus_ids(c, &n));
+        print_message("# %zu ids in memory\n", n);
+        assert_true(n > 2 * 262144);
+        o.spill_dir = spill;
+        assert_int_equal(ist_corpus_build(paths, 2, &o, &d, &err), IST_OK);
+        assert_null(ist_corpus_ids(d, &n));
+        assert_int_equal(n, 0);
+        assert_int_equal(harness_count_entries(spill), 0);    /* unnamed from the start */
+        assert_int_equal(ist_corpus_save(c, qm, &err), IST_OK);
+        assert_int_equal(ist_corpus_save(d, qs, &err), IST_OK);
+        ist_corpus_stats s1, s2;
+        ist_corpus_stats_get(c, &s1);
+        ist_corpus_stats_get(d, &s2);
+        assert_memory_equal(&s1, &s2, sizeof s1);
+        ist_corpus_free(c);
+        ist_corpus_free(d);
+        size_t nm, ns;
+        unsigned char *bm = read_all(qm, &nm), *bs = read_all(qs, &ns);
+        assert_int_equal(nm, ns);
+        assert_memory_equal(bm, bs, nm);
+        free(bm), free(bs);
+    }
+    /* a spill directory that does not exist: the error names it, nothing is built */
+    ist_corpus_opts o;
+    ist_corpus *c = NULL;
+    ist_corpus_opts_init(&o);
+    o.spill_dir = "/nonexistent-isthmus-dir";
+    assert_int_equal(ist_corpus_build(paths, 2, &o, &c, &err), IST_ERR_IO);
+    assert_null(c);
+    assert_non_null(strstr(err.msg, "temporary file"));
+    char buf[1024];
+    assert_non_null(strstr(ist_error_format(&err, buf, sizeof buf), "/nonexistent-isthmus-dir"));
+    free(p1), free(p2), free(qm), free(qs), free(spill);
+    harness_rmdir(dir);
+}
+
 #define CORPUS_TESTS                                   \
     cmocka_unit_test(counts_order_and_stream),         \
     cmocka_unit_test(dedup_drops_repeats),             \
@@ -450,6 +552,7 @@ allocation_failures_are_clean(void **state)
     cmocka_unit_test(invalid_utf8_policy),             \
     cmocka_unit_test(long_line_and_missing_file),      \
     cmocka_unit_test(save_open_round_trip),            \
+    cmocka_unit_test(spilled_stream_same_file),        \
     cmocka_unit_test(damaged_file_rejected),           \
     cmocka_unit_test(progress_and_cancel)
 

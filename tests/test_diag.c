@@ -263,7 +263,7 @@ diagnostics_survive_every_failed_allocation(void **state)
     assert_int_equal(ist_pairs_resolve(p, s, t, NULL, NULL), IST_OK);
     ist_diag_opts_init(&o);
     o.isometry_words = 30;
-    o.retrieve.threads = 1;
+    o.search.retrieve.threads = 1;
     for (k = 0; k < 100000; k++) {
         ist_diag *dg = NULL;
         ist_testing_fail_alloc_after(k);

@@ -255,7 +255,7 @@ propose_plane(const plane *pl, const ist_pairs *const *lists, size_t nl, ist_pro
     ist_error err;
     ist_propose_opts_init(&po);
     no_filters(&po);
-    po.neighbourhood = NB;
+    po.search.csls_k = NB;
     po.candidates = cand;
     po.order = ord;
     po.skip_gold_targets = skip;
@@ -440,7 +440,7 @@ test_plane_exclusions(void **state)
     ist_propose_opts_init(&po);
     no_filters(&po);
     po.top_sources = 2;
-    po.neighbourhood = NB;
+    po.search.csls_k = NB;
     assert_int_equal(ist_propose_views(ist_store_view(pl.src), ist_store_view(pl.tgt), pl.src,
                                        pl.tgt, NULL, 0, &po, &p, &err), IST_OK);
     assert_int_equal(ist_proposals_stats(p).proposed, 2);
@@ -558,7 +558,7 @@ test_filters(void **state)
     assert_true(po.filter.variants && po.same_block);
     assert_true(po.filter.min_score == 0.0f && po.filter.stop_share == 0.005);
     po.candidates = 1;
-    po.neighbourhood = 2;
+    po.search.csls_k = 2;
     po.filter.stop_share = 0.3;      /* with eight words each is over 0.5% */
     po.filter.min_score = 0.05f;
     assert_int_equal(ist_propose_views(ist_store_view(src), ist_store_view(tgt), src, tgt, NULL,
@@ -983,9 +983,9 @@ op_propose(void)
     const ist_pairs *lists[] = {list};
     ist_propose_opts_init(&po);
     no_filters(&po);
-    po.neighbourhood = NB;
+    po.search.csls_k = NB;
     po.skip_gold_targets = true;
-    po.retrieve.threads = 1;
+    po.search.retrieve.threads = 1;
     rc = ist_propose_views(ist_store_view(fault_plane.src), ist_store_view(fault_plane.tgt),
                            fault_plane.src, fault_plane.tgt, lists, 1, &po, &p, NULL);
     if (rc == IST_OK)

@@ -5,6 +5,8 @@
 #include <math.h>
 
 #include <isthmus/align.h>
+#include <isthmus/linalg.h>
+#include <isthmus/matrix.h>
 #include <isthmus/cancel.h>
 #include <isthmus/metrics.h>
 #include <isthmus/corpus.h>
@@ -87,7 +89,7 @@ make_map(void)
     assert_int_equal(ist_pairs_resolve(seeds, src, tgt, NULL, &err), IST_OK);
     ist_align_opts_init(&ao);
     ao.refine_rounds = 1;
-    ao.retrieve.threads = 1;
+    ao.search.retrieve.threads = 1;
     assert_int_equal(ist_align_fit(src, tgt, seeds, &ao, &map, &err), IST_OK);
     char *p = harness_path(dir, "good.map");
     assert_int_equal(ist_map_save(map, p, &err), IST_OK);
@@ -483,6 +485,65 @@ prep_lying_header(void **state)
     free(prep);
 }
 
+/* ---- numbers reaching the maths ------------------------------------------------ */
+
+/* A legal row of tiny numbers gets unit length (the scale factor 1e40 is out of float
+ * range, so it is applied in double); a zero row stays zero; a NaN or an infinity is
+ * refused naming its row. */
+static void
+norm_tiny_zero_and_non_finite_rows(void **state)
+{
+    (void)state;
+    ist_matrix *m;
+    ist_norm *p = NULL;
+    ist_error err;
+
+    assert_int_equal(ist_matrix_new(3, 4, &m, &err), IST_OK);
+    ist_matview v = ist_matrix_view(m);
+    memset(v.data, 0, v.rows * v.stride * sizeof(float));
+    v.data[0] = 1e-40f;                              /* a float subnormal */
+    v.data[v.stride + 1] = 3.0f, v.data[v.stride + 2] = 4.0f;
+    assert_int_equal(ist_norm_fit("length", v, &p, &err), IST_OK);
+    assert_true(v.data[0] == 1.0f);
+    for (size_t j = 1; j < 4; j++)
+        assert_true(v.data[j] == 0.0f);
+    assert_true(fabsf(v.data[v.stride + 1] - 0.6f) < 1e-7f);
+    for (size_t j = 0; j < 4; j++)
+        assert_true(v.data[2 * v.stride + j] == 0.0f); /* the zero row is left as it is */
+    ist_norm_free(p);
+    v.data[2 * v.stride + 3] = NAN;
+    assert_int_equal(ist_norm_fit("length,mean", v, &p, &err), IST_ERR_NUMERIC);
+    assert_null(p);
+    assert_non_null(strstr(err.msg, "row 2 holds a number that is not finite"));
+    v.data[2 * v.stride + 3] = INFINITY;
+    assert_int_equal(ist_norm_fit("length", v, &p, &err), IST_ERR_NUMERIC);
+    ist_matrix_free(m);
+}
+
+/* Procrustes on a seed matrix holding NaN says so in the tool's words instead of passing
+ * LAPACK's "argument 5 is invalid" on. */
+static void
+procrustes_non_finite_seeds(void **state)
+{
+    (void)state;
+    ist_matrix *x, *w;
+    ist_error err;
+
+    assert_int_equal(ist_matrix_new(4, 2, &x, &err), IST_OK);
+    assert_int_equal(ist_matrix_new(2, 2, &w, &err), IST_OK);
+    ist_matview v = ist_matrix_view(x);
+    for (size_t i = 0; i < 4; i++)
+        v.data[i * v.stride] = 1.0f, v.data[i * v.stride + 1] = (float)i;
+    v.data[v.stride] = NAN;
+    assert_int_equal(ist_linalg_procrustes(ist_matrix_cview(x), ist_matrix_cview(x),
+                                           ist_matrix_view(w), NULL, &err), IST_ERR_NUMERIC);
+    assert_non_null(strstr(err.msg, "not finite"));
+    assert_non_null(strstr(err.msg, "isthmus inspect"));
+    assert_null(strstr(err.msg, "argument"));
+    ist_matrix_free(x);
+    ist_matrix_free(w);
+}
+
 int
 main(void)
 {
@@ -494,6 +555,8 @@ main(void)
         cmocka_unit_test_setup_teardown(pairs_bom_on_later_lines, setup, teardown),
         cmocka_unit_test_setup_teardown(prep_lying_header, setup, teardown),
         cmocka_unit_test_setup_teardown(writers_leave_nothing, setup, teardown),
+        cmocka_unit_test(norm_tiny_zero_and_non_finite_rows),
+        cmocka_unit_test(procrustes_non_finite_seeds),
     };
     HARNESS_RUN("reliab", tests);
 }

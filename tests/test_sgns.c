@@ -352,6 +352,69 @@ same_seed_same_bytes(void **state)
     corpus_free(&c);
 }
 
+/* FNV-1a over the bytes of every row (padding excluded). */
+static uint64_t
+matrix_fnv(const ist_matrix *m)
+{
+    ist_cmatview v = ist_matrix_cview(m);
+    uint64_t h = 0xcbf29ce484222325u;
+    for (size_t r = 0; r < v.rows; r++) {
+        const unsigned char *p = (const unsigned char *)(v.data + r * v.stride);
+        for (size_t i = 0; i < v.cols * sizeof(float); i++)
+            h = (h ^ p[i]) * 0x100000001b3u;
+    }
+    return h;
+}
+
+/* One-thread training must stay bit for bit what it was before the multi-thread work: the
+ * checksums below were recorded from the trainer as it stood before that change (2026-12-02,
+ * portable kernels, baseline x86-64 build), and every later change to the trainer must leave
+ * them alone. A build tuned for its CPU (-Dnative_cpu=true) may contract multiply-adds in the
+ * scalar code, so there the check only reports. */
+static void
+one_thread_bits_unchanged(void **state)
+{
+    corpus c;
+    ist_sgns_opts o;
+    (void)state;
+    make_clusters(&c, 20, 10, 2000, 0.3, 11);
+    ist_sgns_opts_init(&o);
+    o.dim = 48;
+    o.epochs = 2;
+    o.subsample = 1e-2;
+    o.seed = 5;
+    o.threads = 1;
+    o.keep_context = true;
+    /* the portable set on any x86-64; the AVX2 set and the reference loop's AVX2 + FMA clone
+     * where the CPU has them (the reference loop's plain clone elsewhere: not recorded) */
+    const char *sets[3] = {"portable", "avx2", "avx2"};
+    const uint64_t want[3] = {UINT64_C(0x0684be02dc667e29), UINT64_C(0x8211b23914a55c75), UINT64_C(0x85c1620b502928cc)};
+    __builtin_cpu_init();
+    bool has2 = __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
+    for (int k = 0; k < 3; k++) {
+        if (k > 0 && !has2) {
+            printf("# %s checksum: not compared (the CPU has no AVX2 + FMA)\n", sets[k]);
+            continue;
+        }
+        o.kernel = k == 2 ? IST_SGNS_REFERENCE : IST_SGNS_FAST;
+        setenv("ISTHMUS_SIMD", sets[k], 1);
+        ist_matrix *ctx = NULL, *m = train(&c, &o, &ctx);
+        unsetenv("ISTHMUS_SIMD");
+        uint64_t h = matrix_fnv(m) ^ (matrix_fnv(ctx) * 31u);
+        printf("# one thread, %s kernel, %s set: checksum %016llx\n",
+               k == 2 ? "reference" : "fast", sets[k], (unsigned long long)h);
+#if defined(__AVX2__) || defined(__FMA__)
+        printf("# built for this CPU: checksum reported, not compared\n");
+#else
+        if (h != want[k])
+            fail_msg("checksum %016llx, recorded %016llx", (unsigned long long)h,
+                     (unsigned long long)want[k]);
+#endif
+        ist_matrix_free(m), ist_matrix_free(ctx);
+    }
+    corpus_free(&c);
+}
+
 static double
 mean_cosine(const ist_matrix *a, const ist_matrix *b)
 {
@@ -711,6 +774,7 @@ main(void)
         cmocka_unit_test(kernels_match_double_sums),
         cmocka_unit_test(windows_stop_at_line_ends),
         cmocka_unit_test(same_seed_same_bytes),
+        cmocka_unit_test(one_thread_bits_unchanged),
         cmocka_unit_test(portable_matches_simd),
         cmocka_unit_test(fast_equals_reference_quality),
         cmocka_unit_test(two_threads_learn),

@@ -54,10 +54,9 @@ typedef struct ist_align_opts {
     const char *target_norm;      /* target [IST_NORM_DEFAULT] */
     size_t refine_rounds;         /* at most this many rounds; 0 = Procrustes only [5] */
     size_t refine_vocab;          /* N most frequent words of each side [5000] */
-    size_t neighbourhood;         /* CSLS k [10] */
     bool refine_keep_seeds;       /* refit on induced pairs plus the seed pairs [false] */
     double min_gain;              /* a round must raise the mean CSLS by more [1e-4] */
-    ist_retrieve_opts retrieve;   /* memory budget and threads */
+    ist_search_opts search;       /* CSLS k, tile memory and threads */
     ist_align_round_fn on_round;  /* called after each round; may be NULL */
     void *ctx;
 } ist_align_opts;

@@ -1,6 +1,7 @@
 /* isthmus/cancel.h - asking long work to stop (Ctrl-C).
  *
- * One process-wide flag, the only mutable global of the library: a signal
+ * One process-wide flag (with the held outputs of output.h, the only mutable
+ * globals of the library): a signal
  * handler sets it with ist_cancel_request() (async-signal-safe); training,
  * retrieval and file writers poll it, stop, remove what they were writing and
  * return IST_ERR_CANCELLED. */

@@ -31,6 +31,11 @@ typedef struct ist_corpus_opts {
     size_t max_line;         /* bytes [default 1 MiB]; longer lines are an error with file:line */
     void (*progress)(void *ctx, uint64_t bytes_done, uint64_t bytes_total);  /* may be NULL */
     void *progress_ctx;
+    /* NULL [default]: the id stream is held in memory. A directory: the stream is written to
+     * an unnamed temporary file there while the text is read, and renumbered from it when the
+     * corpus is saved, so memory holds only the vocabulary (ist_corpus_ids then gives no
+     * stream; ist_corpus_save writes the same bytes as from memory). */
+    const char *spill_dir;
 } ist_corpus_opts;
 
 /** Fill o with the defaults above. */

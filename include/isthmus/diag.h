@@ -51,8 +51,7 @@ typedef struct ist_diag_opts {
     size_t random_pairs;      /* random pairs for the histogram; 0 = 10 per gold pair,
                                  at least 1000 [0] */
     uint64_t seed;            /* random pairs [1] */
-    size_t neighbourhood;     /* CSLS k [10] */
-    ist_retrieve_opts retrieve;
+    ist_search_opts search;   /* CSLS k, tile memory and threads */
 } ist_diag_opts;
 
 IST_API void ist_diag_opts_init(ist_diag_opts *opts);

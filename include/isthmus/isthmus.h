@@ -4,6 +4,7 @@
 
 #include <isthmus/error.h>
 #include <isthmus/cancel.h>
+#include <isthmus/output.h>
 #include <isthmus/matrix.h>
 #include <isthmus/vocab.h>
 #include <isthmus/store.h>
@@ -19,6 +20,8 @@
 #include <isthmus/diag.h>
 #include <isthmus/report.h>
 #include <isthmus/sgns.h>
+#include <isthmus/ppmi.h>
+#include <isthmus/combine.h>
 
 #ifdef __cplusplus
 extern "C" {

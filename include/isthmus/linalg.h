@@ -67,11 +67,11 @@ typedef enum ist_norm_kind {
 typedef struct ist_norm ist_norm;   /* opaque: a recorded sequence of steps */
 
 /** Default specification: the combination that measured best (docs/methods.md). */
-#define IST_NORM_DEFAULT "unit,centre,unit"
+#define IST_NORM_DEFAULT "length,mean,length"
 
-/** Parse a specification, a comma-separated list of "unit", "centre" (or
- *  "center"), "iterative" (5 rounds of unit + centre, then unit) or
- *  "iterative=N", or "none"; apply it to m in place (rows x dim) and record
+/** Parse a specification, a comma-separated list of "length" (unit length),
+ *  "mean" (subtract the mean), "alternate" (5 rounds of length + mean, then
+ *  length: iterative normalisation) or "alternate=N", or "none"; apply it to m in place (rows x dim) and record
  *  the steps with the means each centring subtracted.
  *  Success: *out owns the plan; release with ist_norm_free(). IST_ERR_INVALID
  *  names the bad word. */
@@ -96,7 +96,7 @@ IST_API ist_norm_kind ist_norm_step_kind(const ist_norm *plan, size_t i);
 /** Mean row subtracted by centring step i (dim values); NULL for other steps.
  *  Borrowed; valid until ist_norm_free(). */
 IST_API const double *ist_norm_step_mean(const ist_norm *plan, size_t i);
-/** The specification the plan was made from ("unit,centre,unit"), or the list
+/** The specification the plan was made from ("length,mean,length"), or the list
  *  of its steps when made from recorded steps. Borrowed. */
 IST_API const char *ist_norm_spec(const ist_norm *plan);
 

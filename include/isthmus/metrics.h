@@ -61,11 +61,10 @@ IST_API void ist_metrics_release(ist_metrics *m);
 
 typedef struct ist_eval_opts {
     ist_retrieval method;          /* [CSLS] */
-    size_t neighbourhood;          /* CSLS k [10] */
     size_t band_edges[IST_METRICS_MAX_BANDS - 1];  /* upper ranks of the bands [5000, 20000] */
     size_t nedges;                 /* [2] */
     bool keep_queries;             /* fill query_row / query_place [true] */
-    ist_retrieve_opts retrieve;
+    ist_search_opts search;        /* CSLS k, tile memory and threads */
 } ist_eval_opts;
 
 IST_API void ist_eval_opts_init(ist_eval_opts *opts);

@@ -83,14 +83,13 @@ IST_API ist_status ist_word_filter_mark(const ist_word_filter *f, const ist_stor
 typedef struct ist_propose_opts {
     size_t top_sources;          /* look at the N most frequent source rows; 0 = all [5000] */
     size_t candidates;           /* target candidates per source word, 1..100 [3] */
-    size_t neighbourhood;        /* CSLS k [10] */
     ist_propose_order order;     /* [IST_PROPOSE_INFORMATIVE] */
     bool skip_gold_targets;      /* drop targets that are gold targets of a listed word [false] */
     ist_word_filter filter;      /* numbers, stop list, minimum score [ist_word_filter_init] */
     bool same_block;             /* words whose first candidate is spelt the same (brands,
                                   * model codes, sizes) go to a block after the others, in
                                   * frequency order, for acceptance in bulk [true] */
-    ist_retrieve_opts retrieve;  /* memory budget and threads */
+    ist_search_opts search;      /* CSLS k, tile memory and threads */
 } ist_propose_opts;
 
 IST_API void ist_propose_opts_init(ist_propose_opts *opts);

@@ -32,13 +32,28 @@ typedef enum ist_retrieval {
 
 #define IST_RETRIEVE_BUDGET_DEFAULT ((size_t)256 << 20)
 #define IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT 10u
+#define IST_CSLS_K_MAX 1000u          /* largest CSLS neighbourhood accepted */
+#define IST_THREADS_MAX 256u          /* largest thread count accepted anywhere */
 
 typedef struct ist_retrieve_opts {
     size_t budget;        /* bytes for score tiles, all threads together [256 MiB] */
-    unsigned threads;     /* worker threads; 0 = online processors [0] */
+    unsigned threads;     /* worker threads, 0..IST_THREADS_MAX; 0 = online processors [0] */
 } ist_retrieve_opts;
 
 IST_API void ist_retrieve_opts_init(ist_retrieve_opts *opts);
+
+/** The neighbour-search group every ranking step shares (alignment refinement,
+ *  scoring, diagnostics, proposals): the CSLS neighbourhood size and the tile
+ *  memory and threads. Embedded once in each of those option structs. */
+typedef struct ist_search_opts {
+    size_t csls_k;                /* CSLS neighbourhood size k, 1..IST_CSLS_K_MAX [10] */
+    ist_retrieve_opts retrieve;   /* tile memory and threads */
+} ist_search_opts;
+
+IST_API void ist_search_opts_init(ist_search_opts *opts);
+/** IST_ERR_INVALID naming `who` when k or the thread count is out of range. */
+IST_API ist_status ist_search_opts_check(const ist_search_opts *opts, const char *who,
+                                         ist_error *err);
 
 typedef struct ist_topk ist_topk;   /* opaque: k best targets per query */
 

@@ -125,6 +125,12 @@ IST_API ist_status ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sg
 /** Release memory returned by this module. NULL: no-op. */
 IST_API void ist_sgns_free(void *p);
 
+/** Passes for a corpus of this many tokens when the user gives none: 16 M / tokens, kept
+ *  within a floor and 20. The floor is 20 below 4 M tokens (on the 0.8 M-token real-data
+ *  check 10 passes lost ~10 points of precision@1 and 5 passes were unusable:
+ *  docs/defaults.md), then falls as 80 M / tokens, never below 5. */
+IST_API size_t ist_sgns_auto_passes(uint64_t tokens);
+
 /** Name of the vector instruction set the FAST kernel uses on this machine ("avx512",
  *  "avx2", "portable"). The environment variable ISTHMUS_SIMD=portable|avx2|avx512 forces
  *  one (a set the CPU lacks falls back to the best it has). */

@@ -13,6 +13,7 @@
 #include <stdint.h>
 #include <isthmus/error.h>
 #include <isthmus/matrix.h>
+#include <isthmus/vocab.h>
 
 #ifdef __cplusplus
 extern "C" {

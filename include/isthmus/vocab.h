@@ -14,6 +14,13 @@
 extern "C" {
 #endif
 
+/** The longest word, in bytes of UTF-8, that any isthmus file holds: one limit for the
+ *  field everywhere. Training skips longer tokens; vector files, pair lists, candidate
+ *  lists and reviewed rows refuse longer words naming file and line, so whatever one
+ *  command writes the next reads (a pair line is then far below its 64 KiB line limit,
+ *  a reviewed row below its 1 MiB one). */
+#define IST_WORD_MAX_BYTES 4096
+
 typedef struct ist_vocab ist_vocab;     /* opaque, one owner */
 
 /** Empty table. Success: *out owns it; release with ist_vocab_free(). */

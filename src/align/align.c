@@ -19,9 +19,8 @@ ist_align_opts_init(ist_align_opts *o)
     o->target_norm = IST_NORM_DEFAULT;
     o->refine_rounds = IST_ALIGN_REFINE_ROUNDS_DEFAULT;
     o->refine_vocab = IST_ALIGN_REFINE_VOCAB_DEFAULT;
-    o->neighbourhood = IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT;
     o->min_gain = 1e-4;
-    ist_retrieve_opts_init(&o->retrieve);
+    ist_search_opts_init(&o->search);
 }
 
 void
@@ -178,7 +177,7 @@ refine(ist_map *m, const ist_matrix *xn, const ist_matrix *zn, const ist_align_o
             rc = ist_error_set(err, IST_ERR_CANCELLED, "refinement cancelled");
             goto done;
         }
-        rc = induce(xn, zn, m->w, n, o->neighbourhood, &o->retrieve, arow, brow, &np, &c, err);
+        rc = induce(xn, zn, m->w, n, o->search.csls_k, &o->search.retrieve, arow, brow, &np, &c, err);
         if (rc != IST_OK)
             goto done;
         rd.pairs = np;
@@ -263,8 +262,8 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
         return ist_error_set(err, IST_ERR_INVALID,
                              "align: source vectors have dimension %zu, target vectors %zu",
                              ist_store_dim(src), ist_store_dim(tgt));
-    if (opts->neighbourhood == 0)
-        return ist_error_set(err, IST_ERR_INVALID, "align: the CSLS neighbourhood must be >= 1");
+    if ((rc = ist_search_opts_check(&opts->search, "align", err)) != IST_OK)
+        return rc;
     m = ist_calloc(1, sizeof *m);
     if (!m)
         return ist_error_nomem(err);
@@ -276,7 +275,7 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     if ((rc = ist_pairs_checksum(seeds, &m->seed_ck, err)) != IST_OK)
         goto fail;
     m->refine_vocab = opts->refine_vocab;
-    m->neighbourhood = opts->neighbourhood;
+    m->neighbourhood = opts->search.csls_k;
     if ((rc = seed_rows(seeds, &arow, &brow, &n, err)) != IST_OK)
         goto fail;
     m->seed_n = n;
@@ -285,9 +284,14 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     if ((rc = ist_align_copy_store(src, &xn, err)) != IST_OK ||
         (rc = ist_align_copy_store(tgt, &zn, err)) != IST_OK)
         goto fail;
-    if ((rc = ist_norm_fit(opts->source_norm, ist_matrix_view(xn), &m->ns, err)) != IST_OK ||
-        (rc = ist_norm_fit(opts->target_norm, ist_matrix_view(zn), &m->nt, err)) != IST_OK)
+    if ((rc = ist_norm_fit(opts->source_norm, ist_matrix_view(xn), &m->ns, err)) != IST_OK) {
+        ist_error_prefix(err, "source vectors");
         goto fail;
+    }
+    if ((rc = ist_norm_fit(opts->target_norm, ist_matrix_view(zn), &m->nt, err)) != IST_OK) {
+        ist_error_prefix(err, "target vectors");
+        goto fail;
+    }
     if ((rc = ist_matrix_new(m->dim, m->dim, &m->w, err)) != IST_OK ||
         (rc = ist_matrix_new(m->dim, m->dim, &m->w0, err)) != IST_OK)
         goto fail;

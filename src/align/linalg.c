@@ -53,14 +53,18 @@ svd_double(char jobz, double *a, size_t rows, size_t cols, double *s, double *u,
     if (info == 0)
         return IST_OK;
     if (info == LAPACK_WORK_MEMORY_ERROR || info == LAPACK_TRANSPOSE_MEMORY_ERROR)
-        return ist_error_set(err, IST_ERR_NOMEM, "LAPACKE_dgesdd: out of memory for workspace");
+        return ist_error_set(err, IST_ERR_NOMEM, "out of memory for the workspace of the "
+                             "singular value decomposition (LAPACKE_dgesdd)");
     if (info < 0)
-        return ist_error_set(err, IST_ERR_NUMERIC, "LAPACKE_dgesdd: argument %d is invalid",
-                             (int)-info);
+        return ist_error_set(err, IST_ERR_NUMERIC,
+                             "the singular value decomposition refused its input (LAPACKE_dgesdd, "
+                             "argument %d): a number that is not finite is the usual cause; "
+                             "check the vector files with 'isthmus inspect'", (int)-info);
     if (no_convergence)
         *no_convergence = true;
     return ist_error_set(err, IST_ERR_NUMERIC,
-                         "LAPACKE_dgesdd: the SVD did not converge (info %d)", (int)info);
+                         "the singular value decomposition did not converge (LAPACKE_dgesdd, "
+                         "info %d)", (int)info);
 }
 
 ist_status
@@ -191,6 +195,14 @@ ist_linalg_procrustes(ist_cmatview x, ist_cmatview z, ist_matview w, ist_procrus
     rc = accumulate_cross(x, z, m, err);
     if (rc != IST_OK)
         goto done;
+    for (size_t i = 0; i < d * d; i++)
+        if (!isfinite(m[i])) {
+            rc = ist_error_set(err, IST_ERR_NUMERIC,
+                               "procrustes: the seed vectors give a cross product that is not "
+                               "finite: a seed row holds NaN, an infinity or a huge number; "
+                               "check the vector files with 'isthmus inspect'");
+            goto done;
+        }
     memcpy(keep, m, d * d * sizeof *m);
     bool no_conv = false;
     rc = svd_double('A', m, d, d, s, u, vt, &no_conv, err);
@@ -207,7 +219,10 @@ ist_linalg_procrustes(ist_cmatview x, ist_cmatview z, ist_matview w, ist_procrus
         ist_free(superb);
         if (info2 != 0) {
             rc = ist_error_set(err, IST_ERR_NUMERIC,
-                               "LAPACKE_dgesvd: the SVD did not converge (info %d)", (int)info2);
+                               "the singular value decomposition did not converge by either "
+                               "method (LAPACKE_dgesdd, then LAPACKE_dgesvd info %d): check the "
+                               "seed vectors for extreme values with 'isthmus inspect'",
+                               (int)info2);
             goto done;
         }
         rc = IST_OK;

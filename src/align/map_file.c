@@ -106,10 +106,10 @@ write_side(ist_jw *w, const char *key, uint64_t fp, size_t rows, const ist_norm 
     ist_jw_obj_begin(w, key);
     ist_jw_str(w, "fingerprint", hx);
     ist_jw_uint(w, "rows", rows);
-    ist_jw_str(w, "normalise", ist_norm_spec(n));
+    ist_jw_str(w, "standardise", ist_norm_spec(n));
     ist_jw_arr_begin(w, "steps");
     for (size_t i = 0; i < ist_norm_steps(n); i++)
-        ist_jw_str(w, NULL, ist_norm_step_kind(n, i) == IST_NORM_UNIT ? "unit" : "centre");
+        ist_jw_str(w, NULL, ist_norm_step_kind(n, i) == IST_NORM_UNIT ? "length" : "mean");
     ist_jw_arr_end(w);
     ist_jw_obj_end(w);
 }
@@ -316,13 +316,14 @@ read_side(const ist_jv *side, const char *path, const char *name, size_t dim,
         return rc;
     for (size_t i = 0; i < n; i++) {
         const char *k = ist_jv_str(ist_jv_at(steps, i), "");
-        if (strcmp(k, "unit") == 0)
+        /* maps written before the steps were renamed say "unit" and "centre" */
+        if (strcmp(k, "length") == 0 || strcmp(k, "unit") == 0)
             kinds[i] = IST_NORM_UNIT;
-        else if (strcmp(k, "centre") == 0)
+        else if (strcmp(k, "mean") == 0 || strcmp(k, "centre") == 0)
             kinds[i] = IST_NORM_CENTRE, nc++;
         else
             return ist_error_at(err, IST_ERR_FORMAT, path, 0,
-                                "map metadata: %s step %zu: expected unit or centre, found '%s'",
+                                "map metadata: %s step %zu: expected length or mean, found '%s'",
                                 name, i + 1, k);
     }
     if ((size_t)(end - *means) < nc * dim * 8)

@@ -1,4 +1,4 @@
-/* norm.c - normalisation plans: unit length and mean centring, recorded and replayed. */
+/* norm.c - standardisation plans: unit length and mean centring, recorded and replayed. */
 #include <isthmus/linalg.h>
 
 #include <math.h>
@@ -29,20 +29,36 @@ ist_norm_free(ist_norm *p)
     ist_free(p);
 }
 
+/* Unit length, scaled in double: for a tiny legal row such as (1e-40, 0, 0, 0) the
+ * factor 1/|x| is far beyond float range although every result is at most 1. A zero
+ * row stays zero (it is nobody's neighbour: every cosine with it is 0). The sum of
+ * squares is the pass that finds a non-finite number: *bad gets its row, else stays. */
 static void
-unit_rows(ist_matview m)
+unit_rows(ist_matview m, size_t *bad)
 {
     for (size_t r = 0; r < m.rows; r++) {
         float *row = m.data + r * m.stride;
         double q = 0;
         for (size_t j = 0; j < m.cols; j++)
             q += (double)row[j] * row[j];
+        if (!isfinite(q)) {
+            if (*bad == (size_t)-1)
+                *bad = r;
+            continue;
+        }
         if (q > 0) {
-            float s = (float)(1.0 / sqrt(q));
+            double s = 1.0 / sqrt(q);
             for (size_t j = 0; j < m.cols; j++)
-                row[j] *= s;
+                row[j] = (float)(row[j] * s);
         }
     }
+}
+
+static ist_status
+non_finite(size_t row, ist_error *err)
+{
+    return ist_error_set(err, IST_ERR_NUMERIC, "row %zu holds a number that is not finite (or "
+                         "so large that its square overflows)", row);
 }
 
 static void
@@ -78,37 +94,37 @@ parse_spec(const char *spec, ist_norm_kind *kinds, size_t *n, ist_error *err)
         size_t len = strcspn(p, ",");
         if (len == 0 || len >= sizeof word)
             return ist_error_set(err, IST_ERR_INVALID,
-                                 "normalisation: expected unit, centre, iterative[=N] or none, "
+                                 "standardisation: expected length, mean, alternate[=N] or none, "
                                  "found '%.*s'", (int)(len < 60 ? len : 60), p);
         memcpy(word, p, len);
         word[len] = '\0';
         size_t reps = 0, add = 0;
         ist_norm_kind seq[2];
-        if (strcmp(word, "unit") == 0) {
+        if (strcmp(word, "length") == 0) {
             seq[0] = IST_NORM_UNIT;
             add = 1, reps = 1;
-        } else if (strcmp(word, "centre") == 0 || strcmp(word, "center") == 0) {
+        } else if (strcmp(word, "mean") == 0) {
             seq[0] = IST_NORM_CENTRE;
             add = 1, reps = 1;
-        } else if (strncmp(word, "iterative", 9) == 0 && (word[9] == '\0' || word[9] == '=')) {
+        } else if (strncmp(word, "alternate", 9) == 0 && (word[9] == '\0' || word[9] == '=')) {
             char *end;
             long it = word[9] ? strtol(word + 10, &end, 10) : NORM_ITER_DEFAULT;
             if (word[9] && (end == word + 10 || *end || it < 1 || it > 50))
                 return ist_error_set(err, IST_ERR_INVALID,
-                                     "normalisation: iterative=N: expected N from 1 to 50, "
+                                     "standardisation: alternate=N: expected N from 1 to 50, "
                                      "found '%s'", word + 10);
             seq[0] = IST_NORM_UNIT;
             seq[1] = IST_NORM_CENTRE;
             add = 2, reps = (size_t)it;
         } else {
             return ist_error_set(err, IST_ERR_INVALID,
-                                 "normalisation: expected unit, centre, iterative[=N] or none, "
+                                 "standardisation: expected length, mean, alternate[=N] or none, "
                                  "found '%s'", word);
         }
         for (size_t r = 0; r < reps; r++)
             for (size_t k = 0; k < add; k++) {
                 if (*n + 2 > NORM_MAX_STEPS)
-                    return ist_error_set(err, IST_ERR_INVALID, "normalisation: too many steps");
+                    return ist_error_set(err, IST_ERR_INVALID, "standardisation: too many steps");
                 kinds[(*n)++] = seq[k];
             }
         if (add == 2)
@@ -145,7 +161,12 @@ ist_norm_fit(const char *spec, ist_matview m, ist_norm **out, ist_error *err)
         goto fail;
     for (size_t i = 0; i < p->nsteps; i++) {
         if (p->kinds[i] == IST_NORM_UNIT) {
-            unit_rows(m);
+            size_t bad = (size_t)-1;
+            unit_rows(m, &bad);
+            if (bad != (size_t)-1) {
+                rc = non_finite(bad, err);
+                goto fail;
+            }
             continue;
         }
         p->means[i] = ist_malloc(m.cols * sizeof(double) + 1);
@@ -168,13 +189,16 @@ ist_norm_apply(const ist_norm *p, ist_matview m, ist_error *err)
 {
     if (m.cols != p->dim)
         return ist_error_set(err, IST_ERR_INVALID,
-                             "normalisation: expected vectors of dimension %zu, found %zu",
+                             "standardisation: expected vectors of dimension %zu, found %zu",
                              p->dim, m.cols);
     for (size_t i = 0; i < p->nsteps; i++) {
+        size_t bad = (size_t)-1;
         if (p->kinds[i] == IST_NORM_UNIT)
-            unit_rows(m);
+            unit_rows(m, &bad);
         else
             subtract_mean(m, p->means[i]);
+        if (bad != (size_t)-1)
+            return non_finite(bad, err);
     }
     return IST_OK;
 }
@@ -188,7 +212,7 @@ ist_norm_from_steps(size_t dim, const ist_norm_kind *kinds, size_t nsteps, const
 
     *out = NULL;
     if (nsteps > NORM_MAX_STEPS)
-        return ist_error_set(err, IST_ERR_INVALID, "normalisation: %zu steps, at most %d",
+        return ist_error_set(err, IST_ERR_INVALID, "standardisation: %zu steps, at most %d",
                              nsteps, NORM_MAX_STEPS);
     p = ist_calloc(1, sizeof *p);
     if (!p)
@@ -199,11 +223,11 @@ ist_norm_from_steps(size_t dim, const ist_norm_kind *kinds, size_t nsteps, const
         p->kinds[i] = kinds[i];
         if (kinds[i] != IST_NORM_UNIT && kinds[i] != IST_NORM_CENTRE) {
             ist_norm_free(p);
-            return ist_error_set(err, IST_ERR_INVALID, "normalisation: unknown step %d",
+            return ist_error_set(err, IST_ERR_INVALID, "standardisation: unknown step %d",
                                  (int)kinds[i]);
         }
         at += (size_t)snprintf(p->spec + at, at < sizeof p->spec ? sizeof p->spec - at : 0,
-                               "%s%s", i ? "," : "", kinds[i] == IST_NORM_UNIT ? "unit" : "centre");
+                               "%s%s", i ? "," : "", kinds[i] == IST_NORM_UNIT ? "length" : "mean");
         if (at >= sizeof p->spec)
             at = sizeof p->spec - 1;
         if (kinds[i] == IST_NORM_CENTRE) {

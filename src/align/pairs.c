@@ -172,6 +172,11 @@ parse_line(ist_pairs *p, const char *path, char *line, size_t len, uint64_t line
         return ist_error_at(err, IST_ERR_FORMAT, path, lineno,
                             "expected a source and a target word separated by a tab or space, "
                             "found %zu word%s", nf, nf == 1 ? "" : "s");
+    for (size_t k = 0; k < 2; k++)
+        if (fl[k] > IST_WORD_MAX_BYTES)
+            return ist_error_at(err, IST_ERR_FORMAT, path, lineno,
+                                "%s word of %zu bytes, longer than the limit of %d bytes",
+                                k ? "target" : "source", fl[k], IST_WORD_MAX_BYTES);
     return push(p, f[0], fl[0], f[1], fl[1], lineno, err);
 }
 

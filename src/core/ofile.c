@@ -3,6 +3,8 @@
 
 #include <errno.h>
 #include <fcntl.h>
+#include <pthread.h>
+#include <signal.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -13,11 +15,20 @@
 #include <zlib.h>
 
 #include <isthmus/cancel.h>
+#include <isthmus/output.h>
 
 #include "alloc_int.h"
 #include "error_int.h"
 
 #define OFILE_BUF (1u << 18)
+
+static int stdout_fd = STDOUT_FILENO;   /* where "-" goes (output.h) */
+
+void
+ist_output_set_stdout(int fd)
+{
+    stdout_fd = fd;
+}
 
 struct ist_ofile {
     char *path;         /* final name; NULL for stdout */
@@ -78,7 +89,7 @@ ist_ofile_open(const char *path, bool gz, ist_ofile **out, ist_error *err)
     }
     bool exists = stat(path, &st) == 0;
     if (strcmp(path, "-") == 0) {
-        f->fd = STDOUT_FILENO;
+        f->fd = stdout_fd;
     } else if (exists && S_ISDIR(st.st_mode)) {
         rc = ist_error_at(err, IST_ERR_INVALID, path, 0, "output path is a directory");
         goto fail;
@@ -260,6 +271,129 @@ release(ist_ofile *f)
     ist_free(f);
 }
 
+/* The held group (output.h): finished temporaries waiting for their rename. */
+typedef struct held_file {
+    char *tmp, *path;
+} held_file;
+
+static pthread_mutex_t held_lock = PTHREAD_MUTEX_INITIALIZER;
+static bool holding;
+static held_file *held;
+static size_t nheld, capheld;
+
+/* When holding, move f's names to the group: 1 taken, 0 not holding, -1 out of memory. */
+static int
+hold_take(ist_ofile *f, ist_error *err)
+{
+    int r = 0;
+
+    pthread_mutex_lock(&held_lock);
+    if (holding) {
+        r = 1;
+        if (nheld == capheld) {
+            size_t cap = capheld ? 2 * capheld : 8;
+            held_file *p = ist_realloc(held, cap * sizeof *p);
+            if (!p) {
+                r = -1;
+                ist_error_nomem(err);
+            } else {
+                held = p;
+                capheld = cap;
+            }
+        }
+        if (r == 1) {
+            held[nheld].tmp = f->tmp;
+            held[nheld].path = f->path;
+            nheld++;
+            f->tmp = f->path = NULL;
+        }
+    }
+    pthread_mutex_unlock(&held_lock);
+    return r;
+}
+
+void
+ist_output_hold(void)
+{
+    pthread_mutex_lock(&held_lock);
+    holding = true;
+    pthread_mutex_unlock(&held_lock);
+}
+
+size_t
+ist_output_waiting(void)
+{
+    pthread_mutex_lock(&held_lock);
+    size_t n = nheld;
+    pthread_mutex_unlock(&held_lock);
+    return n;
+}
+
+const char *
+ist_output_waiting_name(size_t i)
+{
+    pthread_mutex_lock(&held_lock);
+    const char *p = i < nheld ? held[i].path : NULL;
+    pthread_mutex_unlock(&held_lock);
+    return p;
+}
+
+/* Remove held temporaries from index i on and empty the group (lock held). */
+static void
+drop_from(size_t i)
+{
+    for (size_t j = 0; j < nheld; j++) {
+        if (j >= i)
+            unlink(held[j].tmp);
+        ist_free(held[j].tmp);
+        ist_free(held[j].path);
+    }
+    ist_free(held);
+    held = NULL;
+    nheld = capheld = 0;
+    holding = false;
+}
+
+void
+ist_output_discard(void)
+{
+    pthread_mutex_lock(&held_lock);
+    drop_from(0);
+    pthread_mutex_unlock(&held_lock);
+}
+
+ist_status
+ist_output_release(size_t *done, ist_error *err)
+{
+    sigset_t stop, old;
+    ist_status rc = IST_OK;
+    size_t i = 0;
+
+    sigemptyset(&stop);
+    sigaddset(&stop, SIGINT);
+    sigaddset(&stop, SIGTERM);
+    pthread_sigmask(SIG_BLOCK, &stop, &old);
+    pthread_mutex_lock(&held_lock);
+    if (ist_cancel_requested()) {
+        rc = ist_error_set(err, IST_ERR_CANCELLED, "stopped on request before the output files "
+                           "were moved into place");
+    } else {
+        for (; i < nheld; i++) {
+            if (rename(held[i].tmp, held[i].path) != 0) {
+                rc = ist_error_sys(err, IST_ERR_IO, held[i].path,
+                                   "cannot move the finished file into place");
+                break;
+            }
+        }
+    }
+    if (done)
+        *done = rc == IST_ERR_CANCELLED ? 0 : i;
+    drop_from(rc == IST_ERR_CANCELLED ? 0 : i);
+    pthread_mutex_unlock(&held_lock);
+    pthread_sigmask(SIG_SETMASK, &old, NULL);
+    return rc;
+}
+
 ist_status
 ist_ofile_commit(ist_ofile *f, ist_error *err)
 {
@@ -304,6 +438,16 @@ ist_ofile_commit(ist_ofile *f, ist_error *err)
     if (ist_cancel_requested()) {
         rc = ist_error_set(err, IST_ERR_CANCELLED, "stopped on request while writing %s", name);
         goto fail;
+    }
+    switch (hold_take(f, err)) {
+    case 1:
+        release(f);
+        return IST_OK;
+    case -1:
+        rc = IST_ERR_NOMEM;
+        goto fail;
+    default:
+        break;
     }
     if (rename(f->tmp, f->path) != 0) {
         rc = ist_error_sys(err, IST_ERR_IO, name, "cannot move the finished file into place");

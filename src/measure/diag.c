@@ -26,8 +26,7 @@ ist_diag_opts_init(ist_diag_opts *o)
     o->isometry_k = 10;
     o->worst_misses = 20;
     o->seed = 1;
-    o->neighbourhood = IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT;
-    ist_retrieve_opts_init(&o->retrieve);
+    ist_search_opts_init(&o->search);
 }
 
 double
@@ -185,9 +184,9 @@ ist_diag_csls_topk(const ist_diag *d, ist_cmatview q, ist_cmatview zt, size_t k,
     *out = NULL;
     if (!rt)
         return ist_error_nomem(err);
-    rc = ist_retrieve_neighbourhood(q, zt, o->neighbourhood, &o->retrieve, rt, err);
+    rc = ist_retrieve_neighbourhood(q, zt, o->search.csls_k, &o->search.retrieve, rt, err);
     if (rc == IST_OK)
-        rc = ist_retrieve_topk(q, zt, k, 2.0f, rt, d->rs, &o->retrieve, out, err);
+        rc = ist_retrieve_topk(q, zt, k, 2.0f, rt, d->rs, &o->search.retrieve, out, err);
     ist_free(rt);
     return rc;
 }
@@ -212,7 +211,7 @@ hubness(ist_diag *d, int m, ist_cmatview xs, ist_cmatview zt, const ist_store *t
     if (m)
         rc = ist_diag_csls_topk(d, first_rows(xs, d->nq), zt, d->k, o, &tk, err);
     else
-        rc = ist_retrieve_topk(first_rows(xs, d->nq), zt, d->k, 1.0f, NULL, NULL, &o->retrieve,
+        rc = ist_retrieve_topk(first_rows(xs, d->nq), zt, d->k, 1.0f, NULL, NULL, &o->search.retrieve,
                                &tk, err);
     if (rc != IST_OK)
         return rc;
@@ -283,18 +282,16 @@ ist_diag_run(ist_cmatview xs, ist_cmatview zt, const ist_store *tgt, const ist_p
     d->k = opts->k ? opts->k : 10;
     d->nq = opts->queries < xs.rows ? opts->queries : xs.rows;
     d->nt = zt.rows;
-    d->neighbourhood = opts->neighbourhood;
+    d->neighbourhood = opts->search.csls_k;
     d->iso = -1;
-    if (d->neighbourhood == 0) {
-        rc = ist_error_set(err, IST_ERR_INVALID, "diagnostics: expected a CSLS neighbourhood >= 1");
+    if ((rc = ist_search_opts_check(&opts->search, "diagnostics", err)) != IST_OK)
         goto fail;
-    }
     d->rs = ist_malloc(zt.rows * sizeof *d->rs);
     if (!d->rs) {
         rc = ist_error_nomem(err);
         goto fail;
     }
-    if ((rc = ist_retrieve_neighbourhood(zt, xs, d->neighbourhood, &opts->retrieve, d->rs,
+    if ((rc = ist_retrieve_neighbourhood(zt, xs, d->neighbourhood, &opts->search.retrieve, d->rs,
                                          err)) != IST_OK)
         goto fail;
     for (int m = 0; m < 2; m++)
@@ -307,7 +304,7 @@ ist_diag_run(ist_cmatview xs, ist_cmatview zt, const ist_store *tgt, const ist_p
         if (n >= 2) {
             d->iso_words = n;
             d->iso_k = opts->isometry_k < n - 1 ? opts->isometry_k : n - 1;
-            rc = ist_diag_eigen_similarity(xs, zt, n, d->iso_k, &opts->retrieve, &d->iso,
+            rc = ist_diag_eigen_similarity(xs, zt, n, d->iso_k, &opts->search.retrieve, &d->iso,
                                            &d->iso_terms, err);
             if (rc != IST_OK)
                 goto fail;

@@ -38,12 +38,14 @@ cmp_miss(const void *x, const void *y)
 static size_t
 sim_bin(double c)
 {
+    /* readers refuse non-finite numbers; a NaN here still lands in the first bin
+     * rather than reaching an undefined conversion */
+    if (!(c > -1.0))
+        return 0;
+    if (!(c < 1.0))
+        return IST_DIAG_SIM_BINS - 1;
     long b = (long)((c + 1.0) * 10.0);
-    if (b < 0)
-        b = 0;
-    if (b >= IST_DIAG_SIM_BINS)
-        b = IST_DIAG_SIM_BINS - 1;
-    return (size_t)b;
+    return b >= IST_DIAG_SIM_BINS ? IST_DIAG_SIM_BINS - 1 : (size_t)b;
 }
 
 static double

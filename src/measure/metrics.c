@@ -26,12 +26,11 @@ ist_eval_opts_init(ist_eval_opts *o)
 {
     memset(o, 0, sizeof *o);
     o->method = IST_RETRIEVAL_CSLS;
-    o->neighbourhood = IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT;
     o->band_edges[0] = 5000;
     o->band_edges[1] = 20000;
     o->nedges = 2;
     o->keep_queries = true;
-    ist_retrieve_opts_init(&o->retrieve);
+    ist_search_opts_init(&o->search);
 }
 
 typedef struct gold {
@@ -158,7 +157,7 @@ ist_eval_run(ist_cmatview xs, ist_cmatview zt, const ist_pairs *test, const ist_
     }
     memset(out, 0, sizeof *out);
     out->method = opts->method;
-    out->neighbourhood = opts->method == IST_RETRIEVAL_CSLS ? opts->neighbourhood : 0;
+    out->neighbourhood = opts->method == IST_RETRIEVAL_CSLS ? opts->search.csls_k : 0;
     setup_bands(out, opts);
     out->sources = distinct_sources(test, err, &ok);
     if (!ok)
@@ -191,7 +190,7 @@ ist_eval_run(ist_cmatview xs, ist_cmatview zt, const ist_pairs *test, const ist_
         memcpy(qv.data + i * qv.stride, xs.data + g[first[i]].s * xs.stride,
                xs.cols * sizeof(float));
     rc = ist_retrieve_rank(ist_matview_const(qv), xs, zt, opts->method, ks[IST_METRICS_NK - 1],
-                           opts->neighbourhood, &opts->retrieve, &tk, err);
+                           opts->search.csls_k, &opts->search.retrieve, &tk, err);
     if (rc != IST_OK)
         goto done;
     if (opts->keep_queries) {

@@ -58,6 +58,27 @@ ist_retrieve_opts_init(ist_retrieve_opts *o)
     o->threads = 0;
 }
 
+void
+ist_search_opts_init(ist_search_opts *o)
+{
+    o->csls_k = IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT;
+    ist_retrieve_opts_init(&o->retrieve);
+}
+
+ist_status
+ist_search_opts_check(const ist_search_opts *o, const char *who, ist_error *err)
+{
+    if (o->csls_k < 1 || o->csls_k > IST_CSLS_K_MAX)
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "%s: expected a CSLS neighbourhood from 1 to %u, found %zu", who,
+                             IST_CSLS_K_MAX, o->csls_k);
+    if (o->retrieve.threads > IST_THREADS_MAX)
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "%s: expected at most %u threads, found %u", who, IST_THREADS_MAX,
+                             o->retrieve.threads);
+    return IST_OK;
+}
+
 /* a is worse than b: lower score, or equal score and higher row */
 static inline bool
 worse(entry a, entry b)

@@ -62,6 +62,9 @@ static bool
 parse_bound(const char *word, double *out)
 {
     char *end;
+    /* plain decimals only: strtod would also take hex floats, "inf" and "nan" */
+    if (word[strspn(word, "0123456789.eE+-%")] != '\0' || !strpbrk(word, "0123456789"))
+        return false;
     errno = 0;
     double v = strtod(word, &end);
     if (end == word || errno != 0)
@@ -108,12 +111,35 @@ typedef struct ctx {
     ist_error *err;
 } ctx;
 
+/* found with every byte that is not printable ASCII shown as \xHH (an invalid or
+ * invisible byte echoed raw would make the message unreadable), cut at ~120 bytes. */
+static void
+escape_word(const char *w, char *buf, size_t cap)
+{
+    size_t o = 0;
+    for (const unsigned char *p = (const unsigned char *)w; *p && o + 5 < cap; p++) {
+        if (o > 120) {
+            memcpy(buf + o, "...", 3);
+            o += 3;
+            break;
+        }
+        if (*p >= 0x20 && *p < 0x7f)
+            buf[o++] = (char)*p;
+        else
+            o += (size_t)snprintf(buf + o, cap - o, "\\x%02x", *p);
+    }
+    buf[o] = '\0';
+}
+
 static ist_status
 bad(const ctx *c, const char *expected, const char *found)
 {
-    if (found)
+    char shown[160];
+    if (found) {
+        escape_word(found, shown, sizeof shown);
         return ist_error_at(c->err, IST_ERR_FORMAT, c->name, c->line, "expected %s, found '%s'",
-                            expected, found);
+                            expected, shown);
+    }
     return ist_error_at(c->err, IST_ERR_FORMAT, c->name, c->line, "expected %s, found the end "
                         "of the line", expected);
 }
@@ -299,6 +325,10 @@ ist_thresholds_parse(const char *text, size_t len, const char *name, ist_thresho
         const char *nl = memchr(text + at, '\n', len - at);
         size_t n = nl ? (size_t)(nl - (text + at)) : len - at;
         lineno++;
+        if (lineno == 1 && n >= 3 && memcmp(text, "\xef\xbb\xbf", 3) == 0) {
+            at += 3;   /* a byte order mark, as every other text format accepts */
+            n -= 3;
+        }
         if (n > MAX_LINE || memchr(text + at, '\0', n)) {
             ist_thresholds_free(t);
             return ist_error_at(err, IST_ERR_FORMAT, name, lineno,
@@ -335,7 +365,18 @@ ist_thresholds_read(const char *path, ist_thresholds **out, ist_error *err)
             goto fail;
         if (eof)
             break;
-        if ((rc = take_line(t, (size_t)ist_reader_lineno(rd), line, err)) != IST_OK)
+        size_t no = (size_t)ist_reader_lineno(rd);
+        if (no == 1 && len >= 3 && memcmp(line, "\xef\xbb\xbf", 3) == 0) {
+            line += 3;   /* a byte order mark, as every other text format accepts */
+            len -= 3;
+        }
+        if (strlen(line) != len) {
+            rc = ist_error_at(err, IST_ERR_FORMAT, path, no,
+                              "expected text, found a NUL byte at byte %zu of the line",
+                              strlen(line) + 1);
+            goto fail;
+        }
+        if ((rc = take_line(t, no, line, err)) != IST_OK)
             goto fail;
     }
     ist_reader_close(rd);

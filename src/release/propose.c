@@ -42,12 +42,11 @@ ist_propose_opts_init(ist_propose_opts *o)
     memset(o, 0, sizeof *o);
     o->top_sources = IST_PROPOSE_SOURCES_DEFAULT;
     o->candidates = IST_PROPOSE_CANDIDATES_DEFAULT;
-    o->neighbourhood = IST_RETRIEVE_NEIGHBOURHOOD_DEFAULT;
     o->order = IST_PROPOSE_INFORMATIVE;
     o->skip_gold_targets = false;
     ist_word_filter_init(&o->filter);
     o->same_block = true;
-    ist_retrieve_opts_init(&o->retrieve);
+    ist_search_opts_init(&o->search);
 }
 
 void
@@ -342,9 +341,8 @@ check_args(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const ist_sto
         return ist_error_set(err, IST_ERR_INVALID,
                              "propose: expected 1 to %u candidates, found %zu",
                              IST_PROPOSE_MAX_CANDIDATES, o->candidates);
-    if (o->neighbourhood < 1)
-        return ist_error_set(err, IST_ERR_INVALID, "propose: expected a CSLS neighbourhood of "
-                             "at least 1");
+    if (ist_search_opts_check(&o->search, "propose", err) != IST_OK)
+        return err->code;
     if (zt.rows == 0 || zt.rows > UINT32_MAX)
         return ist_error_set(err, IST_ERR_INVALID, "propose: expected 1 to 2^32-1 target rows, "
                              "found %zu", zt.rows);
@@ -370,7 +368,7 @@ find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_st
         depth = zt.rows;
     if ((rc = gather(xs, qrow, nq, &q, err)) != IST_OK ||
         (rc = ist_retrieve_rank(ist_matrix_cview(q), xs, zt, IST_RETRIEVAL_CSLS, depth,
-                                o->neighbourhood, &o->retrieve, &tk, err)) != IST_OK)
+                                o->search.csls_k, &o->search.retrieve, &tk, err)) != IST_OK)
         goto done;
     if (ist_mul_size(nq, o->candidates, &cap) != 0 ||
         !(p->row = ist_malloc(cap * sizeof *p->row)) || !(g = ist_malloc(nq * sizeof *g))) {
@@ -382,7 +380,7 @@ find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_st
                      same_only, o->same_block, src, tgt};
     p->n = collect(tk, qrow, nq, &in, p->row, g, &ng, &p->stats);
     p->stats.proposed = ng;
-    if ((rc = mark_mutual(xs, zt, o->neighbourhood, &o->retrieve, p->row, p->n, err)) == IST_OK)
+    if ((rc = mark_mutual(xs, zt, o->search.csls_k, &o->search.retrieve, p->row, p->n, err)) == IST_OK)
         rc = order_rows(p, g, ng, err);
 done:
     ist_free(g);
@@ -424,7 +422,7 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
     p->order = o.order;
     p->top_sources = top;
     p->candidates = o.candidates;
-    p->neighbourhood = o.neighbourhood;
+    p->neighbourhood = o.search.csls_k;
     p->skip_gold_targets = o.skip_gold_targets;
     p->same_block = o.same_block;
     p->filter = o.filter;

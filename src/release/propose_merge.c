@@ -349,6 +349,12 @@ take_row(merger *m, char **f, size_t nf, const columns *c, size_t file, uint64_t
                             "expected the source and candidate columns, found %zu field%s", nf,
                             nf == 1 ? "" : "s");
     const char *s = trim(f[c->source]), *t = trim(f[c->candidate]);
+    if (strlen(s) > IST_WORD_MAX_BYTES || strlen(t) > IST_WORD_MAX_BYTES)
+        return ist_error_at(err, IST_ERR_FORMAT, path, line,
+                            "%s word of %zu bytes, longer than the limit of %d bytes",
+                            strlen(s) > IST_WORD_MAX_BYTES ? "source" : "candidate",
+                            strlen(s) > IST_WORD_MAX_BYTES ? strlen(s) : strlen(t),
+                            IST_WORD_MAX_BYTES);
     if (!word_ok(s) || !word_ok(t))
         return ist_error_at(err, IST_ERR_FORMAT, path, line,
                             "expected one word each in source and candidate, found '%s' and '%s'",
@@ -384,6 +390,10 @@ take_row(merger *m, char **f, size_t nf, const columns *c, size_t file, uint64_t
         if (!word_ok(w))
             return ist_error_at(err, IST_ERR_FORMAT, path, line,
                                 "decision: expected 'use WORD' with one word, found '%s'", dec);
+        if (strlen(w) > IST_WORD_MAX_BYTES)
+            return ist_error_at(err, IST_ERR_FORMAT, path, line,
+                                "decision: 'use WORD' with a word of %zu bytes, longer than the "
+                                "limit of %d bytes", strlen(w), IST_WORD_MAX_BYTES);
         if (strcmp(w, t) == 0)
             m->sum->accepted++;
         else

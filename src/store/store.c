@@ -110,6 +110,9 @@ ist_store_free(ist_store *s)
     ist_free(s);
 }
 
+#define WORD_STR2(x) #x
+#define WORD_STR(x) WORD_STR2(x)
+
 const char *
 ist_store_word_problem(const char *w, size_t len, size_t *bad_at)
 {
@@ -118,6 +121,10 @@ ist_store_word_problem(const char *w, size_t len, size_t *bad_at)
     *bad_at = 0;
     if (len == 0)
         return "empty word";
+    if (len > IST_WORD_MAX_BYTES) {
+        *bad_at = IST_WORD_MAX_BYTES;
+        return "word longer than the limit of " WORD_STR(IST_WORD_MAX_BYTES) " bytes";
+    }
     while (i < len) {
         unsigned char c = (unsigned char)w[i];
         if (c < 0x80) {
@@ -412,13 +419,12 @@ ist_store_save(const ist_store *s, const char *path, const ist_store_save_opts *
     for (size_t i = 0; i < s->rows; i++)
         if (s->wlen[i] == UINT32_MAX)
             return ist_error_set(err, IST_ERR_INVALID, "row %zu has no word; cannot save", i);
-    if (o.format == IST_STORE_AUTO) {
-        bool gz = ends_with(path, ".gz");
+    bool gz = ends_with(path, ".gz");
+    if (o.format == IST_STORE_AUTO)
         o.format = gz || ends_with(path, ".txt") || strcmp(path, "-") == 0 ? IST_STORE_TEXT
                                                                           : IST_STORE_NATIVE;
-        if (gz)
-            o.gzip = true;
-    }
+    if (gz && o.format == IST_STORE_TEXT)
+        o.gzip = true;   /* a text table named .gz is compressed, whoever chose the format */
     if (o.format == IST_STORE_NATIVE) {
         if (strcmp(path, "-") == 0)
             return ist_error_set(err, IST_ERR_INVALID,

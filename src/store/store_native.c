@@ -178,13 +178,15 @@ verify_matrix(const ist_store *s, const char *path, uint32_t want, ist_error *er
             }
         }
     }
+    if (bad_row != (size_t)-1)
+        return ist_error_at(err, IST_ERR_FORMAT, path, 0,
+                            "row %zu ('%s') component %zu is not a finite number%s", bad_row,
+                            ist_store_word(s, bad_row), bad_col + 1,
+                            (uint32_t)crc != want ? " (and the matrix checksum does not match: "
+                                                    "the file is damaged)" : "");
     if ((uint32_t)crc != want)
         return ist_error_at(err, IST_ERR_FORMAT, path, 0,
                             "matrix checksum mismatch: the file is damaged");
-    if (bad_row != (size_t)-1)
-        return ist_error_at(err, IST_ERR_FORMAT, path, 0,
-                            "row %zu ('%s') component %zu is not a finite number", bad_row,
-                            ist_store_word(s, bad_row), bad_col + 1);
     return IST_OK;
 }
 

@@ -1,12 +1,17 @@
 /* corpus.c - raw text to a vocabulary and a token-id stream, one line at a
  * time: read (plain or gzip), normalise, drop repeated lines, segment, count;
  * then prune and renumber the stream in place. Memory holds the vocabulary,
- * the dedup hashes and the id stream, never the text. */
+ * the dedup hashes and the id stream, never the text; with a spill directory
+ * the id stream goes to an unnamed temporary file there instead and is
+ * renumbered while it is saved (corpus_file.c). */
 #include <isthmus/corpus.h>
 
 #include <errno.h>
+#include <fcntl.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include <zlib.h>
 
@@ -21,6 +26,7 @@
 #include "wordtab_int.h"
 
 #define POLL_LINES 1024
+#define SPILL_IDS ((size_t)1 << 18)    /* ids buffered before a write to the spill file (1 MiB) */
 
 void
 ist_corpus_opts_init(ist_corpus_opts *o)
@@ -52,6 +58,7 @@ ist_corpus_alloc(ist_corpus **out, ist_error *err)
         return ist_error_nomem(err);
     }
     ist_text_opts_init(&c->text);
+    c->spill_fd = -1;
     *out = c;
     return IST_OK;
 }
@@ -112,11 +119,131 @@ typedef struct build {
     uint64_t bytes_total, bytes_before;   /* on disk, for progress */
     ist_status cb_rc;                     /* failure inside the word callback */
     ist_error *err;
+    uint32_t *spill_buf;                  /* spilling: ids not yet written */
+    size_t spill_used;
+    uint64_t spill_eols;
 } build;
 
+/* ---- the spilled stream ------------------------------------------------------------------- */
+
+/* An unnamed temporary file in dir: created, then unlinked at once, so that it disappears
+ * with the process whatever happens. */
 static ist_status
-push_id(ist_corpus *c, uint32_t id, ist_error *err)
+spill_open(ist_corpus *c, const char *dir, ist_error *err)
 {
+    size_t n = strlen(dir) + 32;
+    char *path = ist_malloc(n);
+
+    if (!path)
+        return ist_error_nomem(err);
+    snprintf(path, n, "%s/.isthmus-ids-XXXXXX", dir);
+    int fd = mkstemp(path);
+    if (fd < 0) {
+        ist_status rc = ist_error_sys(err, IST_ERR_IO, dir,
+                                      "cannot create a temporary file for the token stream");
+        ist_free(path);
+        return rc;
+    }
+    unlink(path);
+    ist_free(path);
+    c->spill_dir = ist_strdup(dir);
+    if (!c->spill_dir) {
+        close(fd);
+        return ist_error_nomem(err);
+    }
+    c->spill_fd = fd;
+    return IST_OK;
+}
+
+static ist_status
+spill_flush(build *b, ist_error *err)
+{
+    ist_corpus *c = b->c;
+    const char *p = (const char *)b->spill_buf;
+    size_t left = b->spill_used * sizeof *b->spill_buf;
+
+    while (left > 0) {
+        ssize_t k = write(c->spill_fd, p, left);
+        if (k < 0 && errno == EINTR)
+            continue;
+        if (k <= 0)
+            return ist_error_sys(err, IST_ERR_IO, c->spill_dir,
+                                 "cannot write the token stream to a temporary file here");
+        p += k;
+        left -= (size_t)k;
+    }
+    c->spill_n += b->spill_used;
+    b->spill_used = 0;
+    return IST_OK;
+}
+
+ist_status
+ist_corpus_spill_replay(const ist_corpus *c,
+                        ist_status (*fn)(void *ctx, const uint32_t *ids, size_t n,
+                                         ist_error *err),
+                        void *ctx, ist_error *err)
+{
+    uint32_t *buf = ist_malloc(SPILL_IDS * sizeof *buf);
+    uint64_t done = 0, kept = 0;
+    ist_status rc = IST_OK;
+
+    if (!buf)
+        return ist_error_nomem(err);
+#ifdef POSIX_FADV_SEQUENTIAL
+    posix_fadvise(c->spill_fd, 0, 0, POSIX_FADV_SEQUENTIAL);
+#endif
+    while (done < c->spill_n && rc == IST_OK) {
+        size_t want = c->spill_n - done < SPILL_IDS ? (size_t)(c->spill_n - done) : SPILL_IDS;
+        size_t got = 0;
+        while (got < want * sizeof *buf) {
+            ssize_t k = pread(c->spill_fd, (char *)buf + got, want * sizeof *buf - got,
+                              (off_t)(done * sizeof *buf + got));
+            if (k < 0 && errno == EINTR)
+                continue;
+            if (k <= 0) {
+                rc = ist_error_sys(err, IST_ERR_IO, c->spill_dir,
+                                   "cannot read back the token stream from its temporary file");
+                break;
+            }
+            got += (size_t)k;
+        }
+        if (rc != IST_OK)
+            break;
+        size_t k = 0;
+        for (size_t i = 0; i < want; i++) {
+            uint32_t id = buf[i];
+            if (id != IST_CORPUS_EOL && (id >= c->n_remap || (id = c->remap[id]) == UINT32_MAX))
+                continue;
+            buf[k++] = id;
+        }
+        kept += k;
+        if (kept > c->n_ids) {
+            rc = ist_error_set(err, IST_ERR_INTERNAL, "spilled stream longer than counted");
+            break;
+        }
+        rc = fn(ctx, buf, k, err);
+#ifdef POSIX_FADV_DONTNEED
+        posix_fadvise(c->spill_fd, (off_t)(done * sizeof *buf), (off_t)(want * sizeof *buf),
+                      POSIX_FADV_DONTNEED);
+#endif
+        done += want;
+    }
+    if (rc == IST_OK && kept != c->n_ids)
+        rc = ist_error_set(err, IST_ERR_INTERNAL, "spilled stream has %llu ids, counted %zu",
+                           (unsigned long long)kept, c->n_ids);
+    ist_free(buf);
+    return rc;
+}
+
+static ist_status
+push_id(build *b, uint32_t id, ist_error *err)
+{
+    ist_corpus *c = b->c;
+    if (c->spill_fd >= 0) {
+        b->spill_buf[b->spill_used++] = id;
+        b->spill_eols += id == IST_CORPUS_EOL;
+        return b->spill_used == SPILL_IDS ? spill_flush(b, err) : IST_OK;
+    }
     if (c->n_ids == c->ids_cap) {
         size_t nc = c->ids_cap ? c->ids_cap * 2 : (size_t)1 << 16, bytes;
         if (ist_mul_size(nc, sizeof *c->ids, &bytes) != 0)
@@ -137,9 +264,11 @@ on_word(void *ctx, const char *word, size_t len)
     build *b = ctx;
     uint32_t id;
 
+    if (len > IST_WORD_MAX_BYTES)
+        return 0;   /* no vector file could hold it (vocab.h): not a word */
     b->cb_rc = ist_wordtab_add(&b->words, word, len, &id, b->err);
     if (b->cb_rc == IST_OK)
-        b->cb_rc = push_id(b->c, id, b->err);
+        b->cb_rc = push_id(b, id, b->err);
     if (b->cb_rc != IST_OK)
         return 1;
     b->c->st.tokens_in++;
@@ -245,7 +374,7 @@ take_line(build *b, ist_reader *r, const char *line, size_t len, ist_error *err)
                          (unsigned long long)ist_reader_lineno(r));
         return rc;
     }
-    return push_id(b->c, IST_CORPUS_EOL, err);
+    return push_id(b, IST_CORPUS_EOL, err);
 }
 
 static ist_status
@@ -342,7 +471,7 @@ to_vocab(const ist_wordtab *t, ist_vocab *v, ist_error *err)
 
 /* Sort and prune the vocabulary, renumber the stream and drop pruned words. */
 static ist_status
-prune(ist_corpus *c, uint64_t min_count, size_t max_vocab, ist_error *err)
+prune(ist_corpus *c, uint64_t min_count, size_t max_vocab, uint64_t eols, ist_error *err)
 {
     size_t n = ist_vocab_size(c->vocab), bytes, k = 0;
     uint32_t *remap;
@@ -358,6 +487,16 @@ prune(ist_corpus *c, uint64_t min_count, size_t max_vocab, ist_error *err)
     if (rc != IST_OK) {
         ist_free(remap);
         return rc;
+    }
+    if (c->spill_fd >= 0) {      /* renumbered while saved: count what will be kept */
+        size_t kept = ist_vocab_size(c->vocab);
+        for (size_t i = 0; i < kept; i++)
+            c->st.tokens_kept += ist_vocab_count(c->vocab, (uint32_t)i);
+        c->n_ids = (size_t)(c->st.tokens_kept + eols);
+        c->remap = remap;
+        c->n_remap = n;
+        c->view = NULL;
+        return IST_OK;
     }
     for (size_t i = 0; i < c->n_ids; i++) {
         uint32_t id = c->ids[i];
@@ -422,6 +561,15 @@ ist_corpus_build(const char *const *paths, size_t n_paths, const ist_corpus_opts
     b.c->text = o->text;
     b.c->min_count = o->min_count;
     b.c->max_vocab = o->max_vocab;
+    if (o->spill_dir) {
+        b.spill_buf = ist_malloc(SPILL_IDS * sizeof *b.spill_buf);
+        if (!b.spill_buf) {
+            rc = ist_error_nomem(err);
+            goto done;
+        }
+        if ((rc = spill_open(b.c, o->spill_dir, err)) != IST_OK)
+            goto done;
+    }
     for (size_t i = 0; i < n_paths; i++) {
         FILE *f = fopen(paths[i], "rb");
         if (!f) {
@@ -435,6 +583,8 @@ ist_corpus_build(const char *const *paths, size_t n_paths, const ist_corpus_opts
     ist_jw_arr_begin(&b.sources, NULL);
     for (size_t i = 0; i < n_paths && rc == IST_OK; i++)
         rc = read_file(&b, paths[i], err);
+    if (rc == IST_OK && b.c->spill_fd >= 0)
+        rc = spill_flush(&b, err);
     if (rc != IST_OK)
         goto done;
     ist_jw_arr_end(&b.sources);
@@ -446,8 +596,9 @@ ist_corpus_build(const char *const *paths, size_t n_paths, const ist_corpus_opts
     b.c->st.replaced_utf8 = ist_normalizer_replaced(b.nz);
     rc = to_vocab(&b.words, b.c->vocab, err);
     if (rc == IST_OK)
-        rc = prune(b.c, o->min_count, o->max_vocab, err);
+        rc = prune(b.c, o->min_count, o->max_vocab, b.spill_eols, err);
 done:
+    ist_free(b.spill_buf);
     ist_jw_discard(&b.sources);
     ist_free(b.seen.slot);
     ist_wordtab_free(&b.words);
@@ -505,6 +656,10 @@ ist_corpus_free(ist_corpus *c)
     ist_free(c->src);
     ist_vocab_free(c->vocab);
     ist_free(c->ids);
+    if (c->spill_fd >= 0)
+        close(c->spill_fd);
+    ist_free(c->spill_dir);
+    ist_free(c->remap);
     if (c->map)
         ist_corpus_unmap(c->map, c->map_len);
     ist_free(c->sources_json);
@@ -514,7 +669,7 @@ ist_corpus_free(ist_corpus *c)
 const uint32_t *
 ist_corpus_ids(const ist_corpus *c, size_t *n)
 {
-    *n = c->n_ids;
+    *n = c->view ? c->n_ids : 0;
     return c->view;
 }
 

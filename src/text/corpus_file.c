@@ -91,6 +91,12 @@ emit_zeros(sink *s, size_t n, ist_error *err)
 }
 
 static ist_status
+emit_ids(void *ctx, const uint32_t *ids, size_t n, ist_error *err)
+{
+    return n ? emit(ctx, ids, n * sizeof *ids, err) : IST_OK;
+}
+
+static ist_status
 write_body(sink *s, const ist_corpus *c, const header *h, const char *meta, ist_error *err)
 {
     unsigned char hb[HEADER_BYTES];
@@ -110,7 +116,9 @@ write_body(sink *s, const ist_corpus *c, const header *h, const char *meta, ist_
     put_u64(hb + 64, h->meta_bytes);
     put_u64(hb + 72, h->file_bytes);
     rc = emit(s, hb, sizeof hb, err);
-    if (rc == IST_OK && c->n_ids)
+    if (rc == IST_OK && c->n_ids && c->spill_fd >= 0)
+        rc = ist_corpus_spill_replay(c, emit_ids, s, err);
+    else if (rc == IST_OK && c->n_ids)
         rc = emit(s, c->view, c->n_ids * sizeof *c->view, err);   /* host is little-endian */
     if (rc == IST_OK)
         rc = emit_zeros(s, (size_t)(h->words_off - h->ids_off - 4 * h->n_ids), err);

@@ -19,7 +19,20 @@ struct ist_corpus {
     char *sources_json;          /* never NULL once built or opened */
     ist_corpus_source *src;      /* paths owned (ist_strdup) */
     size_t n_src, src_cap;
+    /* spilled stream (ist_corpus_opts.spill_dir): the ids as first numbered, in an unlinked
+     * temporary file, and the map from those ids to the final ones (UINT32_MAX: pruned) */
+    int spill_fd;                /* -1: none */
+    char *spill_dir;
+    uint64_t spill_n;            /* ids in the spill file, line ends included */
+    uint32_t *remap;
+    size_t n_remap;
 };
+
+/* Spilled corpora: the final stream in order, chunk by chunk; fn returns non-OK to stop. */
+ist_status ist_corpus_spill_replay(const ist_corpus *c,
+                                   ist_status (*fn)(void *ctx, const uint32_t *ids, size_t n,
+                                                    ist_error *err),
+                                   void *ctx, ist_error *err);
 
 /* An empty corpus with a vocabulary and "[]" as sources. */
 ist_status ist_corpus_alloc(ist_corpus **out, ist_error *err);

@@ -26,6 +26,8 @@
 #define MAX_DIM 10000
 #define MAX_WINDOW 1000
 #define MAX_NEGATIVES 1000
+#define HOT_ROWS 1024          /* words whose rows each thread keeps a private copy of */
+#define MAX_HOT_ROWS 65536
 
 void
 ist_sgns_opts_init(ist_sgns_opts *o)
@@ -162,6 +164,13 @@ typedef struct shared {
     uint64_t loss_n, last_epoch_n;
     size_t finished;
     ist_status fail;
+    /* With two threads or more: the hot words (the most frequent ones) are trained on private
+     * copies of their input and output rows in each thread, merged into the shared matrices
+     * every PUBLISH_EVERY stream words (docs/performance.md, "Threads"). */
+    size_t n_hot;
+    uint32_t *hot_ids;               /* n_hot ids, most frequent first */
+    int32_t *hot_slot;               /* vocab entries: slot of the word, or -1 */
+    pthread_mutex_t merge_lock;
 } shared;
 
 typedef struct worker {
@@ -179,6 +188,9 @@ typedef struct worker {
     float *s, *g, *gt, *dx;
     pthread_t thread;
     bool started;
+    /* hot rows: the private copies (n_hot x stride, inputs then outputs) and the shared rows
+     * as they were at the last merge */
+    float *rep_in, *rep_out, *base_in, *base_out;
     /* since the last publication */
     uint64_t words, trained, pairs, loss_n, windows;
     double loss;
@@ -238,6 +250,57 @@ current_lr(const shared *sh, uint64_t done)
     return sh->lr0 * (f > LR_FLOOR ? f : LR_FLOOR);
 }
 
+/* ---- rows: shared, or this thread's copy for a hot word --------------------------------- */
+
+static inline float *
+in_row(const worker *w, uint32_t id)
+{
+    const shared *sh = w->sh;
+    if (sh->n_hot) {
+        int32_t s = sh->hot_slot[id];
+        if (s >= 0)
+            return w->rep_in + (size_t)s * sh->stride;
+    }
+    return sh->in + (size_t)id * sh->stride;
+}
+
+static inline float *
+out_row(const worker *w, uint32_t id)
+{
+    const shared *sh = w->sh;
+    if (sh->n_hot) {
+        int32_t s = sh->hot_slot[id];
+        if (s >= 0)
+            return w->rep_out + (size_t)s * sh->stride;
+    }
+    return sh->out + (size_t)id * sh->stride;
+}
+
+/* Fold this thread's changes to its hot rows into the shared rows, then start again from the
+ * shared rows (which hold the other threads' merged changes too):
+ *   shared += copy - base;  copy = base = shared. */
+static void
+merge_hot(worker *w)
+{
+    shared *sh = w->sh;
+    size_t len = sh->stride, dim = sh->dim;
+
+    pthread_mutex_lock(&sh->merge_lock);
+    for (size_t s = 0; s < sh->n_hot; s++) {
+        size_t off = (size_t)s * len, row = (size_t)sh->hot_ids[s] * len;
+        float *si = sh->in + row, *so = sh->out + row;
+        float *ci = w->rep_in + off, *co = w->rep_out + off;
+        float *bi = w->base_in + off, *bo = w->base_out + off;
+        for (size_t c = 0; c < dim; c++) {
+            si[c] += ci[c] - bi[c];
+            so[c] += co[c] - bo[c];
+            ci[c] = bi[c] = si[c];
+            co[c] = bo[c] = so[c];
+        }
+    }
+    pthread_mutex_unlock(&sh->merge_lock);
+}
+
 /* ---- the two kernels: one window centred on sent[i] ----------------------------------- */
 
 /* Plain per-pair loop: every (context, centre) pair draws its own noise words. The loops are
@@ -258,13 +321,13 @@ window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
     for (size_t j = lo; j < hi; j++) {
         if (j == i)
             continue;
-        float *x = sh->in + (size_t)w->sent[j] * sh->stride;
+        float *x = in_row(w, w->sent[j]);
         memset(grad, 0, dim * sizeof *grad);
         for (size_t d = 0; d <= sh->negatives; d++) {
             uint32_t o = d == 0 ? centre : ist_sgns_noise_draw(&sh->noise, &w->rng);
             if (d > 0 && o == centre)
                 continue;
-            float *y = sh->out + (size_t)o * sh->stride, dot = 0.0f;
+            float *y = out_row(w, o), dot = 0.0f;
 #pragma omp simd reduction(+ : dot)
             for (size_t c = 0; c < dim; c++)
                 dot += x[c] * y[c];
@@ -325,11 +388,11 @@ window_outputs(worker *w, uint32_t centre, size_t *drawn)
     }
     for (size_t d = 0; d < kn; d++) {
         w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
-        prefetch_row(sh->out + (size_t)w->pre[d] * len, len);
+        prefetch_row(out_row(w, w->pre[d]), len);
     }
     w->have_pre = true;
     for (size_t k = 0; k < no; k++) {
-        float *y = sh->out + (size_t)w->outs[k] * len;
+        float *y = out_row(w, w->outs[k]);
         w->yr[k] = y;
         w->yw[k] = y;
     }
@@ -374,13 +437,13 @@ window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
 
     size_t no = window_outputs(w, w->sent[i], &drawn);
     if (i + 1 < n)
-        prefetch_row(sh->out + (size_t)w->sent[i + 1] * len, len);
+        prefetch_row(out_row(w, w->sent[i + 1]), len);
     if (i + sh->window + 1 < n)
-        prefetch_row(sh->in + (size_t)w->sent[i + sh->window + 1] * len, len);
+        prefetch_row(in_row(w, w->sent[i + sh->window + 1]), len);
     for (size_t j = lo; j < hi; j++) {
         if (j == i)
             continue;
-        float *x = sh->in + (size_t)w->sent[j] * len;
+        float *x = in_row(w, w->sent[j]);
         w->xr[m] = x;
         w->xw[m] = x;
         m++;
@@ -421,6 +484,8 @@ publish(worker *w, bool last_epoch)
     pthread_mutex_unlock(&sh->lock);
     w->words = w->trained = w->pairs = w->loss_n = 0;
     w->loss = 0.0;
+    if (sh->n_hot)
+        merge_hot(w);
     return (float)lr;
 }
 
@@ -593,9 +658,99 @@ scan_stream(const uint32_t *ids, size_t n, size_t vocab_size, uint64_t *words, i
     return IST_OK;
 }
 
+typedef struct ranked {
+    uint64_t count;
+    uint32_t id;
+} ranked;
+
+static int
+by_count_desc(const void *a, const void *b)
+{
+    const ranked *x = a, *y = b;
+    if (x->count != y->count)
+        return x->count < y->count ? 1 : -1;
+    return (x->id > y->id) - (x->id < y->id);
+}
+
+/* How many hot words get private rows: none on one thread (so that a one-thread run is the
+ * plain algorithm, bit for bit), else HOT_ROWS or what ISTHMUS_SGNS_HOT asks for (0 turns
+ * the copies off: plain lock-free updates of the shared rows). */
+static size_t
+hot_rows_wanted(size_t threads, size_t vocab)
+{
+    size_t n = HOT_ROWS;
+    const char *e = getenv("ISTHMUS_SGNS_HOT");
+    if (threads < 2)
+        return 0;
+    if (e && *e) {
+        char *end;
+        unsigned long long v = strtoull(e, &end, 10);
+        if (*end == '\0')
+            n = v > MAX_HOT_ROWS ? MAX_HOT_ROWS : (size_t)v;
+    }
+    return n < vocab ? n : vocab;
+}
+
+/* The n_hot most frequent words (ties: lower id first) and their slots. */
+static ist_status
+hot_setup(shared *sh, const uint64_t *counts, size_t vocab, size_t n_hot, ist_error *err)
+{
+    ranked *r;
+
+    sh->n_hot = 0;
+    if (n_hot == 0)
+        return IST_OK;
+    r = ist_malloc(vocab * sizeof *r);
+    sh->hot_ids = ist_malloc(n_hot * sizeof *sh->hot_ids);
+    sh->hot_slot = ist_malloc(vocab * sizeof *sh->hot_slot);
+    if (!r || !sh->hot_ids || !sh->hot_slot) {
+        ist_free(r);
+        return ist_error_nomem(err);
+    }
+    for (size_t i = 0; i < vocab; i++) {
+        r[i].count = counts[i];
+        r[i].id = (uint32_t)i;
+        sh->hot_slot[i] = -1;
+    }
+    qsort(r, vocab, sizeof *r, by_count_desc);
+    for (size_t s = 0; s < n_hot; s++) {
+        sh->hot_ids[s] = r[s].id;
+        sh->hot_slot[r[s].id] = (int32_t)s;
+    }
+    ist_free(r);
+    sh->n_hot = n_hot;
+    return IST_OK;
+}
+
+/* This thread's copies of the hot rows, taken from the shared rows. */
+static ist_status
+hot_copies(worker *w, const shared *sh, ist_error *err)
+{
+    size_t bytes = sh->n_hot * sh->stride * sizeof(float);
+
+    if (sh->n_hot == 0)
+        return IST_OK;
+    w->rep_in = ist_aligned_alloc(bytes);
+    w->rep_out = ist_aligned_alloc(bytes);
+    w->base_in = ist_aligned_alloc(bytes);
+    w->base_out = ist_aligned_alloc(bytes);
+    if (!w->rep_in || !w->rep_out || !w->base_in || !w->base_out)
+        return ist_error_nomem(err);
+    for (size_t s = 0; s < sh->n_hot; s++) {
+        size_t off = s * sh->stride, row = (size_t)sh->hot_ids[s] * sh->stride;
+        memcpy(w->rep_in + off, sh->in + row, sh->stride * sizeof(float));
+        memcpy(w->rep_out + off, sh->out + row, sh->stride * sizeof(float));
+    }
+    memcpy(w->base_in, w->rep_in, bytes);
+    memcpy(w->base_out, w->rep_out, bytes);
+    return IST_OK;
+}
+
 static void
 worker_free(worker *w)
 {
+    ist_aligned_free(w->rep_in), ist_aligned_free(w->rep_out);
+    ist_aligned_free(w->base_in), ist_aligned_free(w->base_out);
     ist_free(w->xr), ist_free(w->yr), ist_free(w->xw), ist_free(w->yw), ist_free(w->dxr);
     ist_free(w->outs), ist_free(w->mult), ist_free(w->pre);
     ist_free(w->s), ist_free(w->g), ist_free(w->gt);
@@ -714,6 +869,7 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sig_tables(sh);
     atomic_init(&sh->stop, 0);
     pthread_mutex_init(&sh->lock, NULL);
+    pthread_mutex_init(&sh->merge_lock, NULL);
     pthread_cond_init(&sh->wake, NULL);
 }
 
@@ -752,10 +908,14 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         goto fail;
     shared_setup(sh, ids, o, in, out, keep, words);
     init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
+    if ((rc = hot_setup(sh, counts, vocab_size, hot_rows_wanted(o->threads, vocab_size), err))
+        != IST_OK)
+        goto fail_sync;
     for (size_t t = 0; t < o->threads; t++) {
         ws[t].sh = sh;
         ws[t].rng = o->seed * 0x9e3779b97f4a7c15u + (uint64_t)t * 0xd1b54a32d192ed03u + 1;
-        if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK)
+        if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK ||
+            (rc = hot_copies(&ws[t], sh, err)) != IST_OK)
             goto fail_sync;
     }
     if ((rc = run_threads(sh, ws, o, n_ids, err)) != IST_OK)
@@ -781,14 +941,18 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
     in = out = NULL;
 fail_sync:
     pthread_mutex_destroy(&sh->lock);
+    pthread_mutex_destroy(&sh->merge_lock);
     pthread_cond_destroy(&sh->wake);
 fail:
     if (ws)
         for (size_t t = 0; t < o->threads; t++)
             worker_free(&ws[t]);
     ist_free(ws);
-    if (sh)
+    if (sh) {
         ist_sgns_noise_free(&sh->noise);
+        ist_free(sh->hot_ids);
+        ist_free(sh->hot_slot);
+    }
     ist_free(sh);
     ist_free(keep);
     ist_matrix_free(in);

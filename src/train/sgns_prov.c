@@ -64,3 +64,20 @@ ist_sgns_free(void *p)
 {
     ist_free(p);
 }
+
+size_t
+ist_sgns_auto_passes(uint64_t tokens)
+{
+    if (tokens == 0)
+        return 20;
+    double p = 16e6 / (double)tokens, floor = 80e6 / (double)tokens;
+    if (floor > 20)
+        floor = 20;
+    if (floor < 5)
+        floor = 5;
+    if (p < floor)
+        p = floor;
+    if (p > 20)
+        p = 20;
+    return (size_t)(p + 0.5);
+}

@@ -73,7 +73,7 @@ def main():
     run([isthmus, "-q", "align", vec["en"], vec["es"], "--seeds=" + seeds, "-o", mp],
         stdout=subprocess.DEVNULL)
     run([isthmus, "-q", "score", vec["en"], vec["es"], "--map=" + mp, "--test=" + test,
-         "--retrieval=csls", "--json-out=" + res], stdout=subprocess.DEVNULL)
+         "--rank-by=csls", "--json-out=" + res], stdout=subprocess.DEVNULL)
     p1 = 100 * json.load(open(res))["runs"][0]["precision"]["p@1"]
     gold = read_gold(test)
     checks = []

@@ -2,13 +2,19 @@
  * reference loop, in one run on one machine (docs/performance.md, section "Training").
  *
  * Usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] [--repeat R]
- *                   [--only fast|reference DIM THREADS]
+ *                   [--only fast|reference DIM THREADS] [--designs] [--fast-only]
  *   --corpus F    a prepared corpus (isthmus prepare; $ISTHMUS_BENCH_CORPUS), e.g. the English
  *                 Bible from tools/dev/extract-bible.py; its stream is repeated to N tokens
  *   --text FILE   words separated by spaces, one line per sentence, vocabulary pruned at
  *                 count 5 ($ISTHMUS_BENCH_TEXT). Without either, a synthetic Zipfian stream.
  *   --tokens N    stream length [default 10000000]
  *   --repeat R    interleaved repetitions; medians are printed [default 1]
+ *   --designs     also, for the fast kernel on 2 threads: plain lock-free updates of the
+ *                 shared rows (no private hot rows), 256 and 4096 private hot rows instead
+ *                 of the default 1024, and the control: two independent one-thread runs at
+ *                 the same time (what the machine gives two processes that share nothing)
+ *   --fast-only   leave out the reference kernel's rows
+ * The load average (/proc/loadavg) is printed before every repetition and at the end.
  * Prints words/s (stream words, counted before subsampling), the useful flop rate against
  * this machine's single-precision GEMM rate measured here with cblas_sgemm, and peak resident
  * memory against the floor 2 x vocabulary x dim x 4 bytes + the id stream. */
@@ -268,6 +274,8 @@ kernel_ceiling(size_t dim)
 typedef struct row {
     int fast;
     size_t dim, threads;
+    int procs;                               /* 2: the control, two one-thread processes */
+    long hot;                                /* ISTHMUS_SGNS_HOT for the run, -1: default */
     int n;                                   /* repetitions done */
     double wps[MAX_REPEAT], cpu_wps[MAX_REPEAT], flops[MAX_REPEAT], cpu_flops[MAX_REPEAT];
     double peak, added, floor_;
@@ -309,71 +317,128 @@ typedef struct outcome {
     double wps, cpu_wps, flops, cpu_flops, base;
 } outcome;
 
+/* The child's side: train once, send the outcome down the pipe. */
+static void
+child_train(const stream *s, const row *r, int fd)
+{
+    ist_sgns_opts o;
+    ist_sgns_result res;
+    ist_matrix *m = NULL;
+    ist_error err;
+    outcome out = {0};
+    char hot[32];
+    if (r->hot >= 0) {
+        snprintf(hot, sizeof hot, "%ld", r->hot);
+        setenv("ISTHMUS_SGNS_HOT", hot, 1);
+    }
+    ist_sgns_opts_init(&o);
+    o.dim = r->dim;
+    o.threads = r->threads;
+    o.epochs = 1;
+    o.kernel = r->fast ? IST_SGNS_FAST : IST_SGNS_REFERENCE;
+    out.base = rss_now();
+    double u0 = cpu_seconds();
+    if (ist_sgns_train(s->ids, s->n, s->counts, s->vocab, &o, &m, NULL, &res, &err) == IST_OK) {
+        double cpu = cpu_seconds() - u0;
+        out.ok = 1;
+        out.wps = res.words_per_sec;
+        out.cpu_wps = (double)res.words_seen / cpu;
+        /* per pair: dot product, output-row update, input-gradient update: 3 x 2 dim */
+        out.flops = (double)res.pairs * 6.0 * (double)o.dim / res.seconds;
+        out.cpu_flops = (double)res.pairs * 6.0 * (double)o.dim / cpu;
+    } else {
+        fprintf(stderr, "bench-sgns: %s\n", err.msg);
+    }
+    if (write(fd, &out, sizeof out) != (ssize_t)sizeof out)
+        _exit(1);
+    _exit(0);
+}
+
 /* Each training runs in a child process so that its peak resident memory is its own:
- * the child starts with the parent's pages (the id stream) and ru_maxrss is its peak. */
+ * the child starts with the parent's pages (the id stream) and ru_maxrss is its peak. The
+ * control row starts two children at once and adds their rates. */
 static int
 run_one(const stream *s, row *r, int rep)
 {
-    int fd[2];
-    outcome out = {0};
-    if (pipe(fd) != 0) {
-        perror("bench-sgns: pipe");
-        return -1;
-    }
+    int fd[2][2], np = r->procs > 1 ? 2 : 1;
+    pid_t pid[2];
+    outcome out[2];
+    double peak = 0, added = 0;
     fflush(stdout);
-    pid_t pid = fork();
-    if (pid < 0) {
-        perror("bench-sgns: fork");
-        return -1;
-    }
-    if (pid == 0) {
-        ist_sgns_opts o;
-        ist_sgns_result res;
-        ist_matrix *m = NULL;
-        ist_error err;
-        close(fd[0]);
-        ist_sgns_opts_init(&o);
-        o.dim = r->dim;
-        o.threads = r->threads;
-        o.epochs = 1;
-        o.kernel = r->fast ? IST_SGNS_FAST : IST_SGNS_REFERENCE;
-        out.base = rss_now();
-        double u0 = cpu_seconds();
-        if (ist_sgns_train(s->ids, s->n, s->counts, s->vocab, &o, &m, NULL, &res, &err) ==
-            IST_OK) {
-            double cpu = cpu_seconds() - u0;
-            out.ok = 1;
-            out.wps = res.words_per_sec;
-            out.cpu_wps = (double)res.words_seen / cpu;
-            /* per pair: dot product, output-row update, input-gradient update: 3 x 2 dim */
-            out.flops = (double)res.pairs * 6.0 * (double)o.dim / res.seconds;
-            out.cpu_flops = (double)res.pairs * 6.0 * (double)o.dim / cpu;
-        } else {
-            fprintf(stderr, "bench-sgns: %s\n", err.msg);
+    for (int c = 0; c < np; c++) {
+        if (pipe(fd[c]) != 0) {
+            perror("bench-sgns: pipe");
+            return -1;
         }
-        if (write(fd[1], &out, sizeof out) != (ssize_t)sizeof out)
-            _exit(1);
-        _exit(0);
+        pid[c] = fork();
+        if (pid[c] < 0) {
+            perror("bench-sgns: fork");
+            return -1;
+        }
+        if (pid[c] == 0) {
+            close(fd[c][0]);
+            child_train(s, r, fd[c][1]);
+        }
+        close(fd[c][1]);
     }
-    close(fd[1]);
-    ssize_t got = read(fd[0], &out, sizeof out);
-    close(fd[0]);
-    struct rusage ru;
-    int status;
-    if (wait4(pid, &status, 0, &ru) < 0 || got != (ssize_t)sizeof out || !out.ok)
+    int bad = 0;
+    for (int c = 0; c < np; c++) {
+        memset(&out[c], 0, sizeof out[c]);
+        ssize_t got = read(fd[c][0], &out[c], sizeof out[c]);
+        close(fd[c][0]);
+        struct rusage ru;
+        int status;
+        if (wait4(pid[c], &status, 0, &ru) < 0 || got != (ssize_t)sizeof out[c] || !out[c].ok)
+            bad = 1;
+        double pk = (double)ru.ru_maxrss * 1024.0;
+        if (pk > peak)
+            peak = pk;
+        if (pk - out[c].base > added)
+            added = pk - out[c].base;
+    }
+    if (bad)
         return -1;
-    double peak = (double)ru.ru_maxrss * 1024.0;
-    r->wps[rep] = out.wps;
-    r->cpu_wps[rep] = out.cpu_wps;
-    r->flops[rep] = out.flops;
-    r->cpu_flops[rep] = out.cpu_flops;
+    r->wps[rep] = r->cpu_wps[rep] = r->flops[rep] = r->cpu_flops[rep] = 0;
+    for (int c = 0; c < np; c++) {
+        r->wps[rep] += out[c].wps;
+        r->flops[rep] += out[c].flops;
+        r->cpu_wps[rep] += out[c].cpu_wps / np;
+        r->cpu_flops[rep] += out[c].cpu_flops / np;
+    }
     if (rep == 0 || peak > r->peak)
         r->peak = peak;
-    if (rep == 0 || peak - out.base > r->added)
-        r->added = peak - out.base;
+    if (rep == 0 || added > r->added)
+        r->added = added;
     r->floor_ = 2.0 * (double)s->vocab * (double)r->dim * 4 + (double)s->n * 4;
     r->n = rep + 1;
     return 0;
+}
+
+static void
+print_load(const char *when)
+{
+    char buf[128] = "?";
+    FILE *f = fopen("/proc/loadavg", "r");
+    if (f) {
+        if (!fgets(buf, sizeof buf, f))
+            strcpy(buf, "?\n");
+        fclose(f);
+    }
+    printf("load average %s: %s", when, buf);
+}
+
+static const char *
+row_label(const row *r, char *buf, size_t cap)
+{
+    if (r->procs > 1)
+        snprintf(buf, cap, "control: 2 one-thread processes");
+    else if (r->hot == 0)
+        snprintf(buf, cap, "shared rows only");
+    else if (r->hot > 0)
+        snprintf(buf, cap, "%ld private hot rows", r->hot);
+    else
+        snprintf(buf, cap, r->threads > 1 ? "default (1024 private hot rows)" : "-");
+    return buf;
 }
 
 int
@@ -382,8 +447,8 @@ main(int argc, char **argv)
     const char *text = getenv("ISTHMUS_BENCH_TEXT"), *prepared = getenv("ISTHMUS_BENCH_CORPUS");
     size_t tokens = 10000000, dims[2] = {100, 300}, nthr[2] = {1, 2};
     stream s = {0};
-    row rows[8];
-    int nr = 0, only_kernel = -1, repeat = 1;
+    row rows[16];
+    int nr = 0, only_kernel = -1, repeat = 1, designs = 0, fast_only = 0;
     size_t only_dim = 0, only_threads = 0;
 
     for (int i = 1; i < argc; i++) {
@@ -399,9 +464,13 @@ main(int argc, char **argv)
             only_kernel = strcmp(argv[++i], "fast") == 0 ? 0 : 1;
             only_dim = strtoull(argv[++i], NULL, 10);
             only_threads = strtoull(argv[++i], NULL, 10);
+        } else if (strcmp(argv[i], "--designs") == 0) {
+            designs = 1;
+        } else if (strcmp(argv[i], "--fast-only") == 0) {
+            fast_only = 1;
         } else {
             fprintf(stderr, "usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] "
-                            "[--repeat R] [--only fast|reference DIM THREADS]\n");
+                            "[--repeat R] [--only fast|reference DIM THREADS] [--designs] [--fast-only]\n");
             return 2;
         }
     }
@@ -439,51 +508,86 @@ main(int argc, char **argv)
                 if (only_kernel >= 0 &&
                     (k != only_kernel || dims[di] != only_dim || nthr[ti] != only_threads))
                     continue;
+                if (fast_only && k == 1)
+                    continue;
                 row *r = &rows[nr++];
                 memset(r, 0, sizeof *r);
                 r->fast = k == 0;
                 r->dim = dims[di];
                 r->threads = nthr[ti];
+                r->procs = 1;
+                r->hot = -1;
             }
-    for (int rep = 0; rep < repeat; rep++)
+    int n_main = nr, step = fast_only ? 1 : 2;   /* rows from 1 to 2 threads */
+    if (designs && only_kernel < 0)
+        for (int di = 0; di < 2; di++) {
+            long hots[3] = {0, 256, 4096};
+            for (int v = 0; v < 4; v++) {
+                row *r = &rows[nr++];
+                memset(r, 0, sizeof *r);
+                r->fast = 1;
+                r->dim = dims[di];
+                r->threads = v < 3 ? 2 : 1;
+                r->procs = v < 3 ? 1 : 2;
+                r->hot = v < 3 ? hots[v] : -1;
+            }
+        }
+    print_load("at the start");
+    for (int rep = 0; rep < repeat; rep++) {
+        if (rep > 0)
+            print_load("before the next repetition");
         for (int i = 0; i < nr; i++) {
             if (run_one(&s, &rows[i], rep) != 0)
                 return 1;
             fprintf(stderr, "\rbench-sgns: repetition %d/%d, run %d/%d ", rep + 1, repeat, i + 1,
                     nr);
         }
+    }
     fprintf(stderr, "\n");
+    print_load("at the end");
     printf("words/s: wall clock; words/cpu-s: per CPU-second, i.e. per busy thread; %%GEMM: "
            "GFLOP per CPU-second / GEMM's\n");
     printf("peak MB: peak resident set of the training process (which holds the id stream from "
            "the start);\nadded MB: its growth during training; floor MB: 2 x vocabulary x dim x 4 "
            "bytes + id stream\n");
-    printf("%-9s %4s %3s %10s %14s %12s %8s %7s %8s %8s %8s\n", "kernel", "dim", "thr",
+    printf("%-9s %4s %3s %10s %14s %12s %8s %7s %8s %8s %8s  %s\n", "kernel", "dim", "thr",
            "words/s", "words/s/thread", "words/cpu-s", "GFLOP/s", "%GEMM", "peak MB", "added MB",
-           "floor MB");
+           "floor MB", "design");
     for (int i = 0; i < nr; i++) {
         row *r = &rows[i];
-        double g = r->threads == 1 ? c1 : c2, w = median(r->wps, r->n);
-        printf("%-9s %4zu %3zu %10.0f %14.0f %12.0f %8.2f %6.1f%% %8.1f %8.1f %8.1f\n",
-               r->fast ? "fast" : "reference", r->dim, r->threads, w, w / (double)r->threads,
+        char lab[64];
+        size_t busy = r->threads * (size_t)r->procs;
+        double g = busy == 1 ? c1 : c2, w = median(r->wps, r->n);
+        printf("%-9s %4zu %3zu %10.0f %14.0f %12.0f %8.2f %6.1f%% %8.1f %8.1f %8.1f  %s\n",
+               r->fast ? "fast" : "reference", r->dim, busy, w, w / (double)busy,
                median(r->cpu_wps, r->n), median(r->flops, r->n) * 1e-9,
                100.0 * median(r->cpu_flops, r->n) / g, r->peak / 1048576.0, r->added / 1048576.0,
-               r->floor_ / 1048576.0);
+               r->floor_ / 1048576.0, row_label(r, lab, sizeof lab));
     }
     if (only_kernel >= 0)
         return 0;
     printf("\nratios of medians (same run):\n");
-    for (int i = 0; i < nr; i += 2)
+    for (int i = 0; i + 1 < n_main && !fast_only; i += 2)
         printf("  dim %3zu, %zu thread%s: fast / reference = %.2f (wall), %.2f (per CPU-second)\n",
                rows[i].dim, rows[i].threads, rows[i].threads > 1 ? "s" : " ",
                median(rows[i].wps, rows[i].n) / median(rows[i + 1].wps, rows[i + 1].n),
                median(rows[i].cpu_wps, rows[i].n) / median(rows[i + 1].cpu_wps, rows[i + 1].n));
-    for (int i = 0; i < nr; i++)
-        if (rows[i].threads == 1)
+    for (int i = 0; i < n_main; i++)
+        if (rows[i].threads == 1 && i + step < n_main)
             printf("  %-9s dim %3zu: 2 threads / 1 thread = %.2f (wall); per CPU-second %.2f\n",
                    rows[i].fast ? "fast" : "reference", rows[i].dim,
-                   median(rows[i + 2].wps, rows[i + 2].n) / median(rows[i].wps, rows[i].n),
-                   median(rows[i + 2].cpu_wps, rows[i + 2].n) / median(rows[i].cpu_wps, rows[i].n));
+                   median(rows[i + step].wps, rows[i + step].n) / median(rows[i].wps, rows[i].n),
+                   median(rows[i + step].cpu_wps, rows[i + step].n) /
+                       median(rows[i].cpu_wps, rows[i].n));
+    for (int i = n_main; i < nr; i++) {
+        const row *r = &rows[i], *one = &rows[r->dim == 100 ? 0 : 2 * step];
+        char lab[64];
+        printf("  fast      dim %3zu: %-32s / 1 thread = %.2f (wall); per CPU-second %.2f\n",
+               r->dim, row_label(r, lab, sizeof lab),
+               median(r->wps, r->n) / median(one->wps, one->n),
+               median(r->cpu_wps, r->n) / median(one->cpu_wps, one->n));
+    }
+    printf("  GEMM: 2 threads / 1 thread = %.2f (wall)\n", g2 / g1);
     free(s.ids);
     free(s.counts);
     return 0;

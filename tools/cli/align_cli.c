@@ -11,6 +11,7 @@ ac_common_init(ac_common *c, ac_methods dflt)
 {
     memset(c, 0, sizeof *c);
     c->methods = dflt;
+    ist_search_opts_init(&c->search);
     ist_eval_opts_init(&c->eval);
     c->diagnostics = true;
     ist_diag_opts_init(&c->diag);
@@ -47,25 +48,20 @@ ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
     int m;
 
     switch (opt) {
-    case AC_OPT_RETRIEVAL:
-        if (!cli_parse_choice(cmd, "--retrieval", arg, methods, &m))
+    case AC_OPT_RANK_BY:
+        if (!cli_parse_choice(cmd, "--rank-by", arg, methods, &m))
             return false;
         c->methods = (ac_methods)(m + 1);
         return true;
-    case AC_OPT_NEIGHBOURHOOD:
-        if (!cli_parse_size(cmd, "--neighbourhood", arg, 1, 1000, &c->eval.neighbourhood))
-            return false;
-        return true;
+    case AC_OPT_CSLS_K:
+        return cli_parse_size(cmd, "--csls-k", arg, 1, IST_CSLS_K_MAX, &c->search.csls_k);
     case AC_OPT_MEMORY:
         if (!cli_parse_size(cmd, "--memory", arg, 1, (size_t)1 << 20, &v))
             return false;
-        c->eval.retrieve.budget = v << 20;
+        c->search.retrieve.budget = v << 20;
         return true;
     case AC_OPT_THREADS:
-        if (!cli_parse_size(cmd, "--threads", arg, 0, 64, &v))
-            return false;
-        c->eval.retrieve.threads = (unsigned)v;
-        return true;
+        return cli_parse_threads(cmd, arg, &c->search.retrieve.threads);
     case AC_OPT_BANDS:
         return parse_bands(cmd, arg, &c->eval);
     case AC_OPT_ALLOW_OVERLAP:
@@ -88,37 +84,49 @@ ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
 }
 
 void
-ac_common_help(FILE *out, bool scoring)
+ac_common_help(FILE *out, unsigned groups, const char *rank_default)
 {
-    if (scoring)
-        fputs("      --retrieval=METHOD  cosine, csls or both [default: both]\n"
-              "      --bands=R1,R2,...   upper frequency ranks of the bands reported\n"
+    if (groups & AC_HELP_RANK)
+        fprintf(out, "      --rank-by=METHOD    rank target words by %s [default: %s]\n",
+                strcmp(rank_default, "both") == 0 ? "cosine, csls or both" : "cosine or csls",
+                rank_default);
+    if (groups & AC_HELP_SCORING)
+        fputs("      --bands=R1,R2,...   upper frequency ranks of the bands reported\n"
               "                          [default: 5000,20000]\n"
               "      --allow-overlap     score even when test source words are also seed\n"
               "                          source words (the result says so) [default: refuse]\n"
-              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n"
-              "      --no-diagnostics    leave the diagnostics (hubness, isometry, worst misses,\n"
+              "      --json-out=FILE     write every figure as JSON ('-': standard output)\n",
+              out);
+    if (groups & AC_HELP_DIAG)
+        fputs("      --no-diagnostics    leave the diagnostics (hubness, isometry, worst misses,\n"
               "                          similarity histograms) out of the JSON result\n"
               "      --diagnostics-words=N  hubness queries: the N most frequent source words\n"
               "                          [default: 5000]\n"
               "      --isometry-words=N  isometry: the N most frequent words of each side,\n"
               "                          0 to skip, at most 4000 [default: 1000]\n",
               out);
-    fputs("      --neighbourhood=K   CSLS neighbourhood size [default: 10]\n"
-          "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
-          "      --threads=N         worker threads, 0 = one per processor [default: 0]\n",
-          out);
+    if (groups & AC_HELP_SEARCH)
+        fputs("      --csls-k=K          neighbours averaged in the CSLS hub penalty, 1..1000\n"
+              "                          [default: 10]\n"
+              "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
+              CLI_HELP_THREADS,
+              out);
 }
 
 int
 ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s, ist_store **t)
 {
+    ist_store_opts so;
     ist_error err;
 
+    /* these commands read every row anyway: check the matrix checksum and that every
+     * number is finite before any of it reaches the maths (docs/formats.md) */
+    ist_store_opts_init(&so);
+    so.verify = true;
     *s = *t = NULL;
-    if (ist_store_open(src, NULL, s, &err) != IST_OK)
+    if (ist_store_open(src, &so, s, &err) != IST_OK)
         return cli_report(cmd, &err);
-    if (ist_store_open(tgt, NULL, t, &err) != IST_OK) {
+    if (ist_store_open(tgt, &so, t, &err) != IST_OK) {
         ist_store_free(*s);
         *s = NULL;
         return cli_report(cmd, &err);
@@ -164,6 +172,19 @@ ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
         return cli_report(cmd, &err);
     }
     ac_print_coverage(what, path, cov);
+    if (cov->kept == 0) {
+        cli_progress_done();
+        if (cov->read == 0)
+            fprintf(stderr, "isthmus %s: %s: the %s list holds no pair (only blank or comment "
+                    "lines)\n", cmd, path, what);
+        else
+            fprintf(stderr, "isthmus %s: %s: none of its %zu pairs has both words in the vectors "
+                    "(%zu source, %zu target and %zu both words missing)\n", cmd, path,
+                    cov->read, cov->missing_source, cov->missing_target, cov->missing_both);
+        ist_pairs_free(*out);
+        *out = NULL;
+        return CLI_EXIT_ERROR;
+    }
     return 0;
 }
 
@@ -210,6 +231,7 @@ ac_score(const char *cmd, const char *label, const ac_common *c, const ist_map *
         if (!(c->methods & (m ? AC_CSLS : AC_COSINE)))
             continue;
         ist_eval_opts eo = c->eval;
+        eo.search = c->search;
         eo.method = m ? IST_RETRIEVAL_CSLS : IST_RETRIEVAL_COSINE;
         ist_result_run *r = &runs[(*nruns)++];
         r->label = label;
@@ -308,14 +330,14 @@ void
 ac_options_json(const ac_common *c, const char *extra, char *buf, size_t cap)
 {
     size_t at = (size_t)snprintf(buf, cap,
-                                 "{\"retrieval\":\"%s\",\"neighbourhood\":%zu,"
+                                 "{\"rank_by\":\"%s\",\"csls_k\":%zu,"
                                  "\"memory_bytes\":%zu,\"threads\":%u,\"allow_overlap\":%s,"
                                  "\"bands\":[",
                                  c->methods == AC_BOTH   ? "both"
                                  : c->methods == AC_CSLS ? "csls"
                                                          : "cosine",
-                                 c->eval.neighbourhood, c->eval.retrieve.budget,
-                                 c->eval.retrieve.threads, c->allow_overlap ? "true" : "false");
+                                 c->search.csls_k, c->search.retrieve.budget,
+                                 c->search.retrieve.threads, c->allow_overlap ? "true" : "false");
     for (size_t i = 0; i < c->eval.nedges && at < cap; i++)
         at += (size_t)snprintf(buf + at, cap - at, "%s%zu", i ? "," : "", c->eval.band_edges[i]);
     if (at < cap)
@@ -334,8 +356,7 @@ ac_diagnose(const char *cmd, const ac_common *c, const ist_map *map, const ist_s
     *out = NULL;
     if (!c->diagnostics || !c->json_out)
         return 0;
-    o.neighbourhood = c->eval.neighbourhood;
-    o.retrieve = c->eval.retrieve;
+    o.search = c->search;
     double t0 = cli_now();
     if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK ||
         ist_diag_run(ist_matrix_cview(xs), ist_matrix_cview(zt), t, test, &o, out, &err) !=

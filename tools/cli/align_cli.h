@@ -5,10 +5,10 @@
 
 #include "cli.h"
 
-/* Options the three commands share (long option values 1000 and up). */
+/* Options the commands share (long option values 1000 and up). */
 enum {
-    AC_OPT_RETRIEVAL = 1000,
-    AC_OPT_NEIGHBOURHOOD,
+    AC_OPT_RANK_BY = 1000,
+    AC_OPT_CSLS_K,
     AC_OPT_MEMORY,
     AC_OPT_THREADS,
     AC_OPT_BANDS,
@@ -19,12 +19,36 @@ enum {
     AC_OPT_ISO_WORDS,
 };
 
+/* The rows of the shared options, one fragment per group, written once: a command's
+ * getopt table lists the groups it takes, and ac_common_option() handles them.
+ *   AC_OPTS_SEARCH   the neighbour search (align, score, gate, lookup, propose)
+ *   AC_OPTS_RANK     the ranking method (align, score, gate, lookup)
+ *   AC_OPTS_SCORING  scoring a test list (align, score, gate)
+ *   AC_OPTS_DIAG     diagnostics in the JSON result (align, score) */
+#define AC_OPTS_SEARCH                                                                            \
+    {"csls-k", required_argument, NULL, AC_OPT_CSLS_K},                                           \
+    {"memory", required_argument, NULL, AC_OPT_MEMORY},                                           \
+    {"threads", required_argument, NULL, AC_OPT_THREADS}
+#define AC_OPTS_RANK {"rank-by", required_argument, NULL, AC_OPT_RANK_BY}
+#define AC_OPTS_SCORING                                                                           \
+    {"bands", required_argument, NULL, AC_OPT_BANDS},                                             \
+    {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},                                   \
+    {"json-out", required_argument, NULL, AC_OPT_JSON_OUT}
+#define AC_OPTS_DIAG                                                                              \
+    {"no-diagnostics", no_argument, NULL, AC_OPT_NO_DIAG},                                        \
+    {"diagnostics-words", required_argument, NULL, AC_OPT_DIAG_WORDS},                            \
+    {"isometry-words", required_argument, NULL, AC_OPT_ISO_WORDS}
+
+/* Groups for ac_common_help(). */
+enum { AC_HELP_SEARCH = 1, AC_HELP_RANK = 2, AC_HELP_SCORING = 4, AC_HELP_DIAG = 8 };
+
 /* Which retrieval methods to score with. */
 typedef enum ac_methods { AC_COSINE = 1, AC_CSLS = 2, AC_BOTH = 3 } ac_methods;
 
 typedef struct ac_common {
     ac_methods methods;
-    ist_eval_opts eval;           /* neighbourhood, bands, retrieval budget and threads */
+    ist_search_opts search;       /* CSLS k, tile memory and threads: the one copy */
+    ist_eval_opts eval;           /* bands (its search group is set from `search`) */
     bool allow_overlap;
     const char *json_out;
     bool diagnostics;             /* compute them for the JSON result [true] */
@@ -34,8 +58,9 @@ typedef struct ac_common {
 void ac_common_init(ac_common *c, ac_methods dflt);
 /* Handle one of the shared options; false after a usage error was printed. */
 bool ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg);
-/* Help lines of the shared options. */
-void ac_common_help(FILE *out, bool scoring);
+/* Help lines of the shared option groups (AC_HELP_* bits); rank_default names the
+ * default of --rank-by. */
+void ac_common_help(FILE *out, unsigned groups, const char *rank_default);
 
 /* Open two vector files; on failure prints the error and returns the exit status. */
 int ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s,

@@ -2,6 +2,7 @@
 #include "cli.h"
 
 #include <errno.h>
+#include <fcntl.h>
 #include <math.h>
 #include <signal.h>
 #include <stdarg.h>
@@ -106,6 +107,24 @@ bad:
 }
 
 bool
+cli_parse_threads(const char *cmd, const char *s, unsigned *out)
+{
+    size_t v;
+
+    if (!cli_parse_size(cmd, "--threads", s, 0, IST_THREADS_MAX, &v))
+        return false;
+    *out = (unsigned)v;
+    return true;
+}
+
+unsigned
+cli_processors(void)
+{
+    long n = sysconf(_SC_NPROCESSORS_ONLN);
+    return n < 1 ? 1u : n > (long)IST_THREADS_MAX ? IST_THREADS_MAX : (unsigned)n;
+}
+
+bool
 cli_parse_choice(const char *cmd, const char *opt, const char *s, const char *const *choices,
                  int *out)
 {
@@ -169,6 +188,198 @@ cli_output_dir_ok(const char *cmd, const char *path)
     fprintf(stderr, "isthmus %s: %s: cannot write in its directory (%s)\n", cmd, path,
             strerror(errno));
     return false;
+}
+
+/* Where an output lands: the file itself when it exists, else its directory and name
+ * (the writer renames a temporary over that name). */
+typedef struct file_key {
+    bool exists, device;
+    dev_t dev;
+    ino_t ino;
+    const char *base;
+} file_key;
+
+static void
+key_of(const char *path, file_key *k)
+{
+    struct stat st;
+    char dir[4096];
+    const char *slash = strrchr(path, '/');
+
+    memset(k, 0, sizeof *k);
+    if (stat(path, &st) == 0) {
+        k->exists = true;
+        k->device = !S_ISREG(st.st_mode);
+        k->dev = st.st_dev;
+        k->ino = st.st_ino;
+        return;
+    }
+    k->base = slash ? slash + 1 : path;
+    if (slash && (size_t)(slash - path) < sizeof dir) {
+        memcpy(dir, path, (size_t)(slash - path));
+        dir[slash - path] = '\0';
+    }
+    if (stat(!slash ? "." : slash == path ? "/" : dir, &st) == 0) {
+        k->dev = st.st_dev;
+        k->ino = st.st_ino;
+    } else {
+        k->base = NULL;    /* no directory: cli_output_dir_ok says so */
+    }
+}
+
+static bool
+same_key(const file_key *a, const file_key *b)
+{
+    if (a->exists != b->exists || a->device || b->device)
+        return false;
+    if (a->exists)
+        return a->dev == b->dev && a->ino == b->ino;
+    return a->base && b->base && a->dev == b->dev && a->ino == b->ino &&
+           strcmp(a->base, b->base) == 0;
+}
+
+/* An output goes to standard output: keep the descriptor for that data alone and send
+ * what the command prints there (tables, summaries) to standard error, or nowhere
+ * with -q, so the data can be piped. */
+static void
+claim_stdout(void)
+{
+    int data, to;
+
+    fflush(stdout);
+    data = dup(STDOUT_FILENO);
+    to = cli_g.verbosity < 0 ? open("/dev/null", O_WRONLY | O_CLOEXEC) : dup(STDERR_FILENO);
+    if (data < 0 || to < 0 || dup2(to, STDOUT_FILENO) < 0) {
+        if (data >= 0)
+            close(data);
+        if (to >= 0)
+            close(to);
+        return;   /* no descriptor to spare: leave standard output as it is */
+    }
+    close(to);
+    ist_output_set_stdout(data);
+}
+
+static bool
+skipped(const char *p)
+{
+    return !p || strcmp(p, "-") == 0;
+}
+
+int
+cli_check_files(const char *cmd, const char *const *inputs, size_t nin,
+                const char *const *outputs, size_t nout)
+{
+    for (size_t i = 0; i < nout; i++) {
+        file_key ko, k;
+        if (skipped(outputs[i]))
+            continue;
+        key_of(outputs[i], &ko);
+        for (size_t j = 0; j < nin && ko.exists; j++) {
+            if (skipped(inputs[j]))
+                continue;
+            key_of(inputs[j], &k);
+            if (same_key(&ko, &k))
+                return cli_usage_error(cmd, "output '%s' is the input '%s': writing it would "
+                                       "destroy the input; name another file", outputs[i],
+                                       inputs[j]);
+        }
+        for (size_t j = 0; j < i; j++) {
+            if (skipped(outputs[j]))
+                continue;
+            key_of(outputs[j], &k);
+            if (same_key(&ko, &k))
+                return cli_usage_error(cmd, "outputs '%s' and '%s' name the same file; give "
+                                       "each output its own name", outputs[j], outputs[i]);
+        }
+    }
+    for (size_t i = 0; i < nout; i++)
+        if (!skipped(outputs[i]) && !cli_output_dir_ok(cmd, outputs[i]))
+            return CLI_EXIT_ERROR;
+    size_t to_stdout = 0;
+    for (size_t i = 0; i < nout; i++)
+        to_stdout += outputs[i] && strcmp(outputs[i], "-") == 0;
+    if (to_stdout > 1)
+        return cli_usage_error(cmd, "only one output may go to standard output ('-')");
+    if (to_stdout == 1)
+        claim_stdout();
+    return 0;
+}
+
+/* "a, b and c" of names[from..to) into buf. */
+static void
+name_list(char **names, size_t from, size_t to, char *buf, size_t cap)
+{
+    size_t len = 0;
+
+    buf[0] = '\0';
+    for (size_t i = from; i < to && len + 1 < cap; i++) {
+        int n = snprintf(buf + len, cap - len, "%s%s",
+                         i == from ? "" : i + 1 == to ? " and " : ", ", names[i]);
+        if (n < 0)
+            break;
+        len += (size_t)n;
+    }
+}
+
+static int
+finish_group(const char *cmd, int rc)
+{
+    size_t n = ist_output_waiting(), done = 0;
+    char **names = calloc(n ? n : 1, sizeof *names);
+    char list[2048];
+    ist_error err;
+
+    for (size_t i = 0; names && i < n; i++)
+        names[i] = strdup(ist_output_waiting_name(i));
+    if (ist_output_release(&done, &err) != IST_OK) {
+        cli_progress_done();
+        if (err.code == IST_ERR_CANCELLED) {
+            fprintf(stderr, "isthmus %s: stopped on request; no output file was written\n",
+                    cmd);
+            rc = 130;
+        } else {
+            char buf[1024];
+            ist_error_format(&err, buf, sizeof buf);
+            fprintf(stderr, "isthmus %s: %s\n", cmd, buf);
+            if (names && done > 0) {
+                name_list(names, 0, done, list, sizeof list);
+                fprintf(stderr, "isthmus %s: written: %s\n", cmd, list);
+            }
+            if (names) {
+                name_list(names, done, n, list, sizeof list);
+                fprintf(stderr, "isthmus %s: not written: %s\n", cmd, list);
+            }
+            rc = CLI_EXIT_ERROR;
+        }
+    }
+    for (size_t i = 0; names && i < n; i++)
+        free(names[i]);
+    free(names);
+    return rc;
+}
+
+int
+cli_finish(const char *cmd, int rc)
+{
+    errno = 0;
+    if (fflush(stdout) != 0 || ferror(stdout)) {
+        int e = errno;
+        size_t n = ist_output_waiting();
+        cli_progress_done();
+        fprintf(stderr, "isthmus %s: standard output: cannot write%s%s%s\n", cmd,
+                e ? " (" : "", e ? strerror(e) : "", e ? ")" : "");
+        if (n > 0)
+            fprintf(stderr, "isthmus %s: so no output file was written (%zu held back)\n",
+                    cmd, n);
+        ist_output_discard();
+        return rc == CLI_EXIT_OK || rc == CLI_EXIT_GATE ? CLI_EXIT_ERROR : rc;
+    }
+    if (rc != CLI_EXIT_OK && rc != CLI_EXIT_GATE) {
+        ist_output_discard();
+        return rc;
+    }
+    return finish_group(cmd, rc);
 }
 
 double

@@ -18,6 +18,11 @@ enum {
     CLI_EXIT_GATE = 3      /* a check or gate rule failed */
 };
 
+/* Every command's parse() returns CLI_GO_ON when the command should run, or the exit
+ * status to return at once (CLI_EXIT_OK after --help, CLI_EXIT_USAGE after a usage
+ * error). */
+#define CLI_GO_ON (-1)
+
 typedef enum cli_progress_mode { CLI_PROGRESS_AUTO, CLI_PROGRESS_ALWAYS, CLI_PROGRESS_NEVER } cli_progress_mode;
 
 /* Global settings, parsed before the subcommand name. */
@@ -50,6 +55,13 @@ bool cli_parse_u64(const char *cmd, const char *opt, const char *s, uint64_t lo,
                    uint64_t *out);
 bool cli_parse_double(const char *cmd, const char *opt, const char *s, double lo, double hi,
                       double *out);
+/* --threads=N, one meaning in every command: 0..IST_THREADS_MAX, 0 = one per
+ * processor. CLI_HELP_THREADS is its help line. */
+bool cli_parse_threads(const char *cmd, const char *s, unsigned *out);
+#define CLI_HELP_THREADS "      --threads=N         worker threads, 0 = one per processor [default: 0]\n"
+/* The thread count that 0 stands for: the online processors, within 1..IST_THREADS_MAX. */
+unsigned cli_processors(void);
+
 /* One of a fixed set of words; *out gets its index. */
 bool cli_parse_choice(const char *cmd, const char *opt, const char *s,
                       const char *const *choices, int *out);
@@ -62,6 +74,20 @@ void cli_install_signals(void);
  * "isthmus CMD: PATH: cannot write in its directory (REASON)" and return false. Devices
  * such as /dev/full are written in place and pass. */
 bool cli_output_dir_ok(const char *cmd, const char *path);
+
+/* Before any work, with every file the command reads and writes (NULL entries and "-"
+ * skipped): refuse an output that is one of the inputs, compared by device and inode
+ * however the paths are spelt ("isthmus CMD: output 'A' is the input 'B' ..."), and two
+ * outputs naming one file (exit 2); refuse an output whose directory cannot be written
+ * (cli_output_dir_ok, exit 1). Devices such as /dev/null pass. Returns 0 to go on. */
+int cli_check_files(const char *cmd, const char *const *inputs, size_t nin,
+                    const char *const *outputs, size_t nout);
+
+/* After the command returned rc (main calls it once): check that standard output took
+ * every byte, then move the command's finished output files into place as one group
+ * (exit 0 or 3) or remove them (any other status), saying exactly what was written
+ * when that is not all or nothing. Returns the final exit status. */
+int cli_finish(const char *cmd, int rc);
 
 /* Progress on stderr: one "\r" line, at most 4 updates a second, cleared by
  * cli_progress_done(). Shown only when stderr is a terminal (or

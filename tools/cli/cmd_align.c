@@ -21,18 +21,22 @@ help(FILE *out)
           "Options:\n"
           "  -o, --output=MAP        map file to write (required)\n"
           "      --seeds=FILE        seed pairs: 'source target' per line, tab or space\n"
-          "      --identical-seeds   also use words spelt the same in both vocabularies\n"
-          "      --identical-min-count=N\n"
+          "      --spelt-alike       also use words spelt the same in both vocabularies\n"
+          "      --spelt-alike-min-freq=N\n"
           "                          ...seen at least N times on both sides [default: 5]\n"
-          "      --identical-marked  ...and only those holding a letter and a digit (codes,\n"
-          "                          sizes: tw-4410, 500ml; not prices) or a capital letter\n"
+          "      --spelt-alike-codes-only\n"
+          "                          ...and only those holding a letter and a digit (codes,\n"
+          "                          sizes: tw-4410, 500ml; not prices such as 17.99) or a\n"
+          "                          capital letter (only where case was kept)\n"
           "      --hold-out=FRACTION hold out this share of the --seeds source words as a test\n"
           "                          list (split by source word) [default: 0]\n"
           "      --split-seed=N      seed of the hold-out split [default: 1]\n"
           "      --write-test=FILE   write the held-out pairs to FILE\n"
           "      --test=FILE         score the map before and after refinement on this list\n"
-          "      --normalise=SPEC    steps for both sides: unit, centre, iterative[=N], none,\n"
-          "                          comma-separated [default: " IST_NORM_DEFAULT "]\n"
+          "      --standardise=STEPS steps applied to both sides before the fit, comma-\n"
+          "                          separated: length (scale to length 1), mean (subtract\n"
+          "                          the mean vector), alternate[=N] (length and mean in\n"
+          "                          turn N times [5]), none [default: " IST_NORM_DEFAULT "]\n"
           "      --refine-rounds=N   at most N refinement rounds, 0 = none [default: 5]\n"
           "      --refine-vocab=N    refine among the N most frequent words of each side\n"
           "                          [default: 5000]\n"
@@ -40,7 +44,7 @@ help(FILE *out)
           "                          [default: induced pairs only]\n"
           "      --mapped-out=FILE   also write the mapped source vectors as a vector file\n",
           out);
-    ac_common_help(out, true);
+    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK | AC_HELP_SCORING | AC_HELP_DIAG, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Refinement stops early when the mean CSLS of the induced pairs stops rising.\n"
@@ -100,28 +104,22 @@ parse(int argc, char **argv, args *a)
     static const struct option opts[] = {
         {"output", required_argument, NULL, 'o'},
         {"seeds", required_argument, NULL, OPT_SEEDS},
-        {"identical-seeds", no_argument, NULL, OPT_IDENT},
-        {"identical-min-count", required_argument, NULL, OPT_IDENT_MIN},
-        {"identical-marked", no_argument, NULL, OPT_IDENT_MARKED},
+        {"spelt-alike", no_argument, NULL, OPT_IDENT},
+        {"spelt-alike-min-freq", required_argument, NULL, OPT_IDENT_MIN},
+        {"spelt-alike-codes-only", no_argument, NULL, OPT_IDENT_MARKED},
         {"hold-out", required_argument, NULL, OPT_HOLD_OUT},
         {"split-seed", required_argument, NULL, OPT_SPLIT_SEED},
         {"write-test", required_argument, NULL, OPT_WRITE_TEST},
         {"test", required_argument, NULL, OPT_TEST},
-        {"normalise", required_argument, NULL, OPT_NORMALISE},
+        {"standardise", required_argument, NULL, OPT_NORMALISE},
         {"refine-rounds", required_argument, NULL, OPT_ROUNDS},
         {"refine-vocab", required_argument, NULL, OPT_RVOCAB},
         {"mapped-out", required_argument, NULL, OPT_MAPPED},
         {"refine-keep-seeds", no_argument, NULL, OPT_KEEP_SEEDS},
-        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
-        {"bands", required_argument, NULL, AC_OPT_BANDS},
-        {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
-        {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
-        {"no-diagnostics", no_argument, NULL, AC_OPT_NO_DIAG},
-        {"diagnostics-words", required_argument, NULL, AC_OPT_DIAG_WORDS},
-        {"isometry-words", required_argument, NULL, AC_OPT_ISO_WORDS},
+        AC_OPTS_SEARCH,
+        AC_OPTS_RANK,
+        AC_OPTS_SCORING,
+        AC_OPTS_DIAG,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -134,7 +132,7 @@ parse(int argc, char **argv, args *a)
         case OPT_SEEDS: a->seeds = optarg; break;
         case OPT_IDENT: a->ident = true; break;
         case OPT_IDENT_MIN:
-            if (!cli_parse_u64(CMD, "--identical-min-count", optarg, 0, UINT64_MAX,
+            if (!cli_parse_u64(CMD, "--spelt-alike-min-freq", optarg, 0, UINT64_MAX,
                                &a->ident_min))
                 return CLI_EXIT_USAGE;
             break;
@@ -151,7 +149,7 @@ parse(int argc, char **argv, args *a)
         case OPT_TEST: a->test = optarg; break;
         case OPT_NORMALISE:
             if (ist_norm_check(optarg, &err) != IST_OK)
-                return cli_usage_error(CMD, "--normalise: %s", err.msg);
+                return cli_usage_error(CMD, "--standardise: %s", err.msg);
             a->normalise = optarg;
             break;
         case OPT_ROUNDS:
@@ -164,7 +162,7 @@ parse(int argc, char **argv, args *a)
             break;
         case OPT_MAPPED: a->mapped = optarg; break;
         case OPT_KEEP_SEEDS: a->keep_seeds = true; break;
-        case 'h': help(stdout); return -1;
+        case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (c >= 1000) {
                 if (!ac_common_option(CMD, &a->c, c, optarg))
@@ -180,14 +178,14 @@ parse(int argc, char **argv, args *a)
     if (!a->out)
         return cli_usage_error(CMD, "expected -o MAP, the map file to write");
     if (!a->seeds && !a->ident)
-        return cli_usage_error(CMD, "expected --seeds=FILE or --identical-seeds");
+        return cli_usage_error(CMD, "expected --seeds=FILE or --spelt-alike");
     if (a->hold_out > 0 && !a->seeds)
         return cli_usage_error(CMD, "--hold-out splits the --seeds list; give --seeds=FILE");
     if (a->hold_out > 0 && a->test)
         return cli_usage_error(CMD, "--hold-out and --test both name a test list; give one");
     if (a->write_test && a->hold_out <= 0)
         return cli_usage_error(CMD, "--write-test needs --hold-out");
-    return 0;
+    return CLI_GO_ON;
 }
 
 /* The seed list: the file's kept pairs, the identical strings, or both. */
@@ -227,7 +225,7 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
             return cli_report(CMD, &err);
         }
         printf("%-10s %zu words spelt the same on both sides (count >= %" PRIu64 "%s)\n",
-               "identical", ist_pairs_count(ident), a->ident_min,
+               "alike", ist_pairs_count(ident), a->ident_min,
                a->ident_marked ? ", with a letter and a digit or a capital" : "");
     }
     if (file && ident) {
@@ -284,8 +282,8 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     char opts[2048], extra[1024], *mj = NULL;
     memset(&info, 0, sizeof info);
     snprintf(extra, sizeof extra,
-             "\"normalise\":\"%s\",\"refine_rounds\":%zu,\"refine_vocab\":%zu,"
-             "\"identical_seeds\":%s,\"identical_min_count\":%" PRIu64 ",\"identical_marked\":%s,"
+             "\"standardise\":\"%s\",\"refine_rounds\":%zu,\"refine_vocab\":%zu,"
+             "\"spelt_alike\":%s,\"spelt_alike_min_freq\":%" PRIu64 ",\"spelt_alike_codes_only\":%s,"
              "\"hold_out\":%g,\"split_seed\":%" PRIu64 ",\"refine_keep_seeds\":%s",
              a->normalise, a->rounds, a->rvocab, a->ident ? "true" : "false", a->ident_min,
              a->ident_marked ? "true" : "false", a->hold_out, a->split_seed,
@@ -350,10 +348,14 @@ run(int argc, char **argv)
     a.rounds = IST_ALIGN_REFINE_ROUNDS_DEFAULT;
     a.rvocab = IST_ALIGN_REFINE_VOCAB_DEFAULT;
     ac_common_init(&a.c, AC_BOTH);
-    if ((rc = parse(argc, argv, &a)) != 0)
-        return rc < 0 ? CLI_EXIT_OK : rc;
+    if ((rc = parse(argc, argv, &a)) != CLI_GO_ON)
+        return rc;
     a.src = argv[optind];
     a.tgt = argv[optind + 1];
+    const char *ins[] = {a.src, a.tgt, a.seeds, a.test};
+    const char *outs[] = {a.out, a.mapped, a.write_test, a.c.json_out};
+    if ((rc = cli_check_files(CMD, ins, 4, outs, 4)) != 0)
+        return rc;
     if ((rc = ac_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
         return rc;
     if ((rc = build_seeds(&a, s, t, &seeds, &test, &tcov)) != 0)
@@ -370,8 +372,7 @@ run(int argc, char **argv)
     ao.refine_rounds = a.rounds;
     ao.refine_vocab = a.rvocab;
     ao.refine_keep_seeds = a.keep_seeds;
-    ao.neighbourhood = a.c.eval.neighbourhood;
-    ao.retrieve = a.c.eval.retrieve;
+    ao.search = a.c.search;
     ao.on_round = on_round;
     double t0 = cli_now();
     if (ist_align_fit(s, t, seeds, &ao, &map, &err) != IST_OK) {
@@ -379,7 +380,7 @@ run(int argc, char **argv)
         goto done;
     }
     ist_procrustes_info fi = ist_map_seed_fit(map);
-    printf("%-10s %zu seed pairs, dimension %zu, normalisation %s; mean cosine %.4f, "
+    printf("%-10s %zu seed pairs, dimension %zu, standardised %s; mean cosine %.4f, "
            "orthogonality error %.2g\n",
            "fit", ist_map_seed_pairs(map), ist_map_dim(map), a.normalise, fi.seed_cos,
            fi.orth_error);

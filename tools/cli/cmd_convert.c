@@ -77,6 +77,9 @@ run(int argc, char **argv)
         return cli_usage_error("convert", "refusing to write gzip data to a terminal");
     if (strcmp(in, out) == 0)
         return cli_usage_error("convert", "IN and OUT are the same file");
+    int fc = cli_check_files("convert", &in, 1, &out, 1);
+    if (fc != 0)
+        return fc;
     if (sv.gzip && sv.format == IST_STORE_AUTO)
         sv.format = IST_STORE_TEXT;
     if (sv.gzip && sv.format == IST_STORE_NATIVE)

@@ -31,7 +31,7 @@ help(FILE *out)
           "      --map=MAP           map file, to score SRC and TGT\n"
           "      --test=FILE         test pairs, to score SRC and TGT\n",
           out);
-    ac_common_help(out, true);
+    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK | AC_HELP_SCORING, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "A 'max drop' rule fails only when the whole 95% interval of the change in\n"
@@ -147,13 +147,9 @@ parse_args(int argc, char **argv, args *a)
         {"seed", required_argument, NULL, OPT_SEED},
         {"map", required_argument, NULL, OPT_MAP},
         {"test", required_argument, NULL, OPT_TEST},
-        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
-        {"bands", required_argument, NULL, AC_OPT_BANDS},
-        {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
-        {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
+        AC_OPTS_SEARCH,
+        AC_OPTS_RANK,
+        AC_OPTS_SCORING,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -174,7 +170,7 @@ parse_args(int argc, char **argv, args *a)
             if (!cli_parse_u64(CMD, "--seed", optarg, 0, UINT64_MAX, &a->gate.ci.seed))
                 return CLI_EXIT_USAGE;
             break;
-        case 'h': help(stdout); return -1;
+        case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (o >= 1000 && ac_common_option(CMD, &a->c, o, optarg))
                 break;
@@ -192,7 +188,7 @@ parse_args(int argc, char **argv, args *a)
         return cli_usage_error(CMD, "expected %s, got %d argument%s",
                                a->map ? "SRC and TGT vector files" : "one RESULT.json",
                                argc - optind, argc - optind == 1 ? "" : "s");
-    return 0;
+    return CLI_GO_ON;
 }
 
 static int
@@ -228,8 +224,13 @@ run(int argc, char **argv)
     memset(&a, 0, sizeof a);
     ist_gate_opts_init(&a.gate);
     ac_common_init(&a.c, AC_BOTH);
-    if ((rc = parse_args(argc, argv, &a)) != 0)
-        return rc < 0 ? CLI_EXIT_OK : rc;
+    if ((rc = parse_args(argc, argv, &a)) != CLI_GO_ON)
+        return rc;
+    const char *ins[] = {a.thresholds, a.baseline, a.map, a.test, argv[optind],
+                         a.map ? argv[optind + 1] : NULL};
+    const char *outs[] = {a.verdict, a.c.json_out};
+    if ((rc = cli_check_files(CMD, ins, 6, outs, 2)) != 0)
+        return rc;
     if (ist_thresholds_read(a.thresholds, &rules, &err) != IST_OK)
         return cli_report(CMD, &err);
     if (a.baseline && ist_gate_result_load(a.baseline, &base, &err) != IST_OK) {

@@ -23,7 +23,6 @@ help(FILE *out)
           "      --map=MAP           map file written by 'isthmus align' (required)\n"
           "      --words=FILE        also look up the words of FILE, one per line\n"
           "      --top=N             translations shown per word [default: 10]\n"
-          "      --retrieval=METHOD  cosine or csls [default: csls]\n"
           "      --with-numbers, --with-variants, --stop-share=PCT, --min-score=X\n"
           "                          the review filters of 'isthmus propose': by default\n"
           "                          number-shaped words and codes (unless the query is one,\n"
@@ -31,7 +30,7 @@ help(FILE *out)
           "                          above 0.5% of the target's tokens and scores below 0\n"
           "                          are not shown\n",
           out);
-    ac_common_help(out, false);
+    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "The output is a statistical suggestion; have a speaker of the language review it\n"
@@ -144,7 +143,7 @@ lookup(const ac_common *c, size_t top, const ist_word_filter *wf, const ist_map 
     ist_retrieval m = c->methods == AC_COSINE ? IST_RETRIEVAL_COSINE : IST_RETRIEVAL_CSLS;
     size_t depth = top + 64 < ist_store_rows(t) ? top + 64 : ist_store_rows(t);
     if (ist_retrieve_rank(ist_matview_const(qv), xv, ist_matrix_cview(zt), m, depth,
-                          c->eval.neighbourhood, &c->eval.retrieve, &tk, &err) != IST_OK) {
+                          c->search.csls_k, &c->search.retrieve, &tk, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }
@@ -186,14 +185,12 @@ run(int argc, char **argv)
         {"map", required_argument, NULL, OPT_MAP},
         {"words", required_argument, NULL, OPT_WORDS},
         {"top", required_argument, NULL, OPT_TOP},
-        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
         {"with-numbers", no_argument, NULL, OPT_NUMBERS},
         {"with-variants", no_argument, NULL, OPT_VARIANTS},
         {"stop-share", required_argument, NULL, OPT_STOP},
         {"min-score", required_argument, NULL, OPT_MIN},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        AC_OPTS_SEARCH,
+        AC_OPTS_RANK,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -236,7 +233,7 @@ run(int argc, char **argv)
                 if (!ac_common_option(CMD, &c, rc, optarg))
                     return CLI_EXIT_USAGE;
                 if (c.methods == AC_BOTH)
-                    return cli_usage_error(CMD, "--retrieval: expected cosine or csls");
+                    return cli_usage_error(CMD, "--rank-by: expected cosine or csls");
                 break;
             }
             return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);

@@ -98,6 +98,9 @@ run(int argc, char **argv)
     if (strcmp(out, argv[optind]) == 0)
         return cli_usage_error(CMD, "-o: expected a file other than SEEDS");
     const char *seeds = argv[optind];
+    if ((o = cli_check_files(CMD, (const char *const *)argv + optind, (size_t)(argc - optind),
+                             &out, 1)) != 0)
+        return o;
     const char *const *reviewed = (const char *const *)argv + optind + 1;
     size_t n = (size_t)(argc - optind - 1);
     if (ist_propose_merge(seeds, reviewed, n, &mo, out, &sum, &err) != IST_OK) {

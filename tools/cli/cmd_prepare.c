@@ -1,6 +1,7 @@
 /* cmd_prepare.c - isthmus prepare: raw text to a prepared corpus file. */
 #include <errno.h>
 #include <getopt.h>
+#include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
 
@@ -41,6 +42,9 @@ help(FILE *out)
           "A summary goes to standard output: lines, duplicates removed, tokens, word types\n"
           "before and after pruning, invalid UTF-8 replaced in each file and the reading rate.\n"
           "The output is written to a temporary file and renamed into place when complete.\n"
+          "Memory holds the vocabulary, not the text or its tokens: while the text is read the\n"
+          "token stream goes to an unnamed temporary file in OUT's directory (4 bytes a token,\n"
+          "on top of the output's own size), then is renumbered into the output.\n"
           "\n"
           "Example:\n"
           "  isthmus prepare --min-freq 3 --dedup-lines -o tillwick-es.prep \\\n"
@@ -163,25 +167,30 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
     return -1;
 }
 
-/* Fail before hours of reading when the output directory is not writable. */
-static bool
-output_dir_writable(const char *out)
+/* Where the token stream waits while the text is read: beside the output (the same disk
+ * the output goes to), or $TMPDIR / /tmp for standard output. */
+static const char *
+spill_dir_for(const char *out, char *dir, size_t cap)
 {
-    char dir[4096];
-    const char *slash = strrchr(out, '/');
+    const char *slash = strrchr(out, '/'), *t = getenv("TMPDIR");
 
+    if (strcmp(out, "-") == 0)
+        return t && *t ? t : "/tmp";
     if (!slash)
-        return access(".", W_OK) == 0;
-    if ((size_t)(slash - out) >= sizeof dir)
-        return true;   /* let the library report it */
+        return ".";
+    if (slash == out)
+        return "/";
+    if ((size_t)(slash - out) >= cap)
+        return NULL;
     memcpy(dir, out, (size_t)(slash - out));
     dir[slash - out] = '\0';
-    return access(slash == out ? "/" : dir, W_OK) == 0;
+    return dir;
 }
 
 static int
 run(int argc, char **argv)
 {
+    char spill[4096];
     ist_corpus_opts o;
     const char *out = NULL;
     ist_corpus *corpus;
@@ -192,14 +201,14 @@ run(int argc, char **argv)
     status = parse_args(argc, argv, &o, &out);
     if (status >= 0)
         return status;
-    if (!output_dir_writable(out)) {
-        fprintf(stderr, "isthmus prepare: %s: cannot write in its directory (%s)\n", out,
-                strerror(errno));
-        return CLI_EXIT_ERROR;
-    }
+    status = cli_check_files("prepare", (const char *const *)argv + optind,
+                             (size_t)(argc - optind), &out, 1);
+    if (status != 0)
+        return status;
     double t0 = cli_now();
     o.progress = on_progress;
     o.progress_ctx = &t0;
+    o.spill_dir = spill_dir_for(out, spill, sizeof spill);
     ist_status rc = ist_corpus_build((const char *const *)argv + optind, (size_t)(argc - optind),
                                      &o, &corpus, &err);
     cli_progress_done();

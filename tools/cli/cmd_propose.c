@@ -33,7 +33,7 @@ help(FILE *out)
           "      --skip-gold-targets leave out candidates that are already a gold target of a\n"
           "                          listed source word [default: keep them]\n"
           "\n"
-          "What a reviewer is spared (the same filters as 'lookup' and 'score'):\n"
+          "What a reviewer is spared (the same filters as in 'lookup'):\n"
           "      --with-numbers      also propose number-shaped words (prices, order numbers,\n"
           "                          sizes such as 40cm) and codes, and offer them as\n"
           "                          candidates [default: left out; a code such as tw-4410\n"
@@ -50,7 +50,7 @@ help(FILE *out)
           "                          order [default: a block of their own at the end, most\n"
           "                          frequent first, to accept in bulk]\n",
           out);
-    ac_common_help(out, false);
+    ac_common_help(out, AC_HELP_SEARCH, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Write accept, reject or 'use WORD' in the decision column, then merge the file\n"
@@ -90,9 +90,7 @@ parse(int argc, char **argv, args *a)
         {"min-score", required_argument, NULL, OPT_MIN_SCORE},
         {"mixed-order", no_argument, NULL, OPT_MIXED},
         {"with-variants", no_argument, NULL, OPT_WITH_VARIANTS},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
+        AC_OPTS_SEARCH,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -144,7 +142,7 @@ parse(int argc, char **argv, args *a)
         }
         case OPT_MIXED: a->po.same_block = false; break;
         case OPT_WITH_VARIANTS: a->po.filter.variants = false; break;
-        case 'h': help(stdout); return -1;
+        case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (o >= 1000) {
                 if (!ac_common_option(CMD, &c, o, optarg))
@@ -162,9 +160,8 @@ parse(int argc, char **argv, args *a)
         return cli_usage_error(CMD, "expected -o CANDIDATES, the candidate list to write");
     a->src = argv[optind];
     a->tgt = argv[optind + 1];
-    a->po.neighbourhood = c.eval.neighbourhood;
-    a->po.retrieve = c.eval.retrieve;
-    return 0;
+    a->po.search = c.search;
+    return CLI_GO_ON;
 }
 
 static int
@@ -217,8 +214,13 @@ run(int argc, char **argv)
     int rc;
 
     memset(&a, 0, sizeof a);
-    if ((rc = parse(argc, argv, &a)) != 0)
-        return rc < 0 ? CLI_EXIT_OK : rc;
+    if ((rc = parse(argc, argv, &a)) != CLI_GO_ON)
+        return rc;
+    const char *ins[MAX_LISTS + 3] = {a.src, a.tgt, a.map};
+    for (size_t i = 0; i < a.nlists; i++)
+        ins[3 + i] = a.lists[i];
+    if ((rc = cli_check_files(CMD, ins, 3 + a.nlists, &a.out, 1)) != 0)
+        return rc;
     for (size_t i = 0; i < a.nlists; i++)
         if (ist_pairs_read(a.lists[i], &lists[i], &err) != IST_OK) {
             rc = cli_report(CMD, &err);

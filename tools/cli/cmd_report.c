@@ -58,6 +58,9 @@ run(int argc, char **argv)
         return cli_usage_error(CMD, "expected one RESULT.json, got %d arguments", argc - optind);
     if (!out)
         return cli_usage_error(CMD, "expected -o REPORT.html");
+    const char *ins[] = {argv[optind], verdict};
+    if ((c = cli_check_files(CMD, ins, 2, &out, 1)) != 0)
+        return c;
     if (ist_report_write(argv[optind], verdict, out, &err) != IST_OK)
         return cli_report(CMD, &err);
     if (strcmp(out, "-") != 0)

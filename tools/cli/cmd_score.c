@@ -23,7 +23,7 @@ help(FILE *out)
           "      --stage=WHICH       final (after refinement), seed (Procrustes on the seeds\n"
           "                          only) or both [default: final]\n",
           out);
-    ac_common_help(out, true);
+    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK | AC_HELP_SCORING | AC_HELP_DIAG, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Test source words that are also seed source words (recorded in the map) make the\n"
@@ -88,16 +88,10 @@ run(int argc, char **argv)
         {"map", required_argument, NULL, OPT_MAP},
         {"test", required_argument, NULL, OPT_TEST},
         {"stage", required_argument, NULL, OPT_STAGE},
-        {"retrieval", required_argument, NULL, AC_OPT_RETRIEVAL},
-        {"neighbourhood", required_argument, NULL, AC_OPT_NEIGHBOURHOOD},
-        {"memory", required_argument, NULL, AC_OPT_MEMORY},
-        {"threads", required_argument, NULL, AC_OPT_THREADS},
-        {"bands", required_argument, NULL, AC_OPT_BANDS},
-        {"allow-overlap", no_argument, NULL, AC_OPT_ALLOW_OVERLAP},
-        {"json-out", required_argument, NULL, AC_OPT_JSON_OUT},
-        {"no-diagnostics", no_argument, NULL, AC_OPT_NO_DIAG},
-        {"diagnostics-words", required_argument, NULL, AC_OPT_DIAG_WORDS},
-        {"isometry-words", required_argument, NULL, AC_OPT_ISO_WORDS},
+        AC_OPTS_SEARCH,
+        AC_OPTS_RANK,
+        AC_OPTS_SCORING,
+        AC_OPTS_DIAG,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -138,6 +132,9 @@ run(int argc, char **argv)
                                argc - optind, argc - optind == 1 ? "" : "s");
     if (!mpath || !tpath)
         return cli_usage_error(CMD, "expected --map=MAP and --test=FILE");
+    const char *ins[] = {argv[optind], argv[optind + 1], mpath, tpath};
+    if ((rc = cli_check_files(CMD, ins, 4, &c.json_out, 1)) != 0)
+        return rc;
     if (ist_map_load(mpath, &map, &err) != IST_OK)
         return cli_report(CMD, &err);
     if ((rc = ac_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)

@@ -1,4 +1,5 @@
-/* cmd_train.c - isthmus train: skip-gram vectors from a prepared corpus or raw text. */
+/* cmd_train.c - isthmus train: skip-gram, PPMI-SVD or combined vectors from a prepared corpus
+ * or raw text. */
 #include <getopt.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -11,8 +12,10 @@ static void
 help(FILE *out)
 {
     fputs("Usage: isthmus train [OPTIONS] -o OUT INPUT...\n"
-          "Train word vectors with skip-gram and negative sampling and write them as a native\n"
-          "vector file (with provenance: corpus checksums, every option, the seed).\n"
+          "Train word vectors and write them as a native vector file (with provenance: corpus\n"
+          "checksums, every option, the seed). Three methods: skip-gram with negative sampling,\n"
+          "PPMI of windowed co-occurrence counts reduced by a truncated SVD, or both side by\n"
+          "side (each block unit-normalised and centred, see 'isthmus stack').\n"
           "\n"
           "Arguments:\n"
           "  INPUT...                one prepared corpus (from 'isthmus prepare'), or raw UTF-8\n"
@@ -20,22 +23,45 @@ help(FILE *out)
           "\n"
           "Training options:\n"
           "  -o, --output=OUT        vector file to write (required)\n"
+          "      --method=M          skip-gram, ppmi, or skip-gram+ppmi (the two blocks side by\n"
+          "                          side) [default: skip-gram]\n"
+          "      --block-weights=A,B weights of the skip-gram and PPMI blocks in skip-gram+ppmi\n"
+          "                          [default: 1,1]\n"
+          "\n"
+          "Skip-gram options:\n"
           "      --dimension=N       vector components [default: 100]\n"
           "      --context=N         largest window radius in words; each position draws its\n"
           "                          radius uniformly from 1..N [default: 10]\n"
           "      --noise-samples=N   noise words per positive pair [default: 5]\n"
-          "      --passes=N          passes over the corpus; 'auto' = 16M / tokens, kept\n"
-          "                          within 5..20 [default: auto]\n"
+          "      --passes=N          passes over the corpus; 'auto' = 16M / tokens, at most\n"
+          "                          20, at least 20 below 4M tokens and 80M / tokens above\n"
+          "                          (never under 5) [default: auto]\n"
           "      --rate=X            start learning rate, decays linearly to 1e-4 of it\n"
           "                          [default: 0.025]\n"
           "      --subsample=T       frequent-word threshold t: a word of frequency f is kept\n"
           "                          with probability min(1, sqrt(t/f)); 0 = off [default: 1e-4]\n"
-          "      --threads=N         training threads; only 1 gives bit-identical reruns\n"
-          "                          [default: the number of processors]\n"
+          CLI_HELP_THREADS
+          "                          (only 1 gives bit-identical reruns)\n"
           "      --seed=N            random seed [default: 1]\n"
           "      --kernel=K          fast (shared noise words per window, vector kernels) or\n"
           "                          reference (plain per-pair loop) [default: fast]\n"
           "      --keep-context=FILE also write the output (context) vectors to FILE\n"
+          "                          (skip-gram only)\n"
+          "\n",
+          out);
+    fputs("PPMI options:\n"
+          "      --ppmi-dimension=N  components kept by the truncated SVD [default: 300]\n"
+          "      --ppmi-context=N    words counted on each side [default: 10]\n"
+          "      --ppmi-weighting=W  linear (weight (N-d+1)/N at distance d) or flat\n"
+          "                          [default: linear]\n"
+          "      --smoothing=A       context counts raised to A in the PMI [default: 0.75]\n"
+          "      --ppmi-shift=S      log S subtracted from every PMI, S >= 1 [default: 1]\n"
+          "      --singular-power=P  rows are U S^P [default: 0.5]\n"
+          "      --power-iterations=Q  power iterations of the randomized SVD [default: 4]\n"
+          "      --oversample=N      extra columns of its random test matrix [default: 20]\n"
+          "      --pair-buffer=MIB   memory for gathering co-occurrence pairs [default: 256]\n"
+          "      (--threads and --seed apply to both methods; PPMI reruns are bit-identical for\n"
+          "      any thread count)\n"
           "      --text-copy=FILE    also write the vectors as a text table (gzip if FILE ends\n"
           "                          in .gz)\n"
           "\n"
@@ -48,18 +74,26 @@ help(FILE *out)
           "                          as for 'isthmus prepare'\n"
           "  -h, --help              show this help and exit\n"
           "\n"
-          "Progress (percent, words/s, learning rate, recent loss, time left) is shown on a\n"
-          "terminal; a summary line goes to standard error unless -q. Ctrl-C stops the training\n"
+          "Progress (percent, words/s, learning rate, recent loss, time left; for PPMI the stage\n"
+          "and time left) is shown on a terminal; a summary line goes to standard error unless\n"
+          "-q. Ctrl-C stops the training\n"
           "and leaves no output file. The environment variable ISTHMUS_SIMD=portable forces the\n"
           "portable kernels.\n"
           "\n"
           "Example:\n"
-          "  isthmus train --dimension 50 -o tillwick-en.isv data-samples/tillwick-en.txt.gz\n",
+          "  isthmus train --dimension 50 -o tillwick-en.isv data-samples/tillwick-en.txt.gz\n"
+          "  isthmus train --method=skip-gram+ppmi --ppmi-dimension 100 -o tillwick-en.isv \\\n"
+          "      data-samples/tillwick-en.txt.gz\n",
           out);
 }
 
+enum { METHOD_SGNS = 0, METHOD_PPMI = 1, METHOD_BOTH = 2 };
+
 typedef struct train_args {
     ist_sgns_opts so;
+    ist_ppmi_opts po;
+    int method;
+    double weights[2];
     ist_corpus_opts co;
     bool passes_auto, text_opts_given;
     const char *out, *ctx_out, *text_out;
@@ -76,6 +110,17 @@ on_progress(void *ctx, const ist_sgns_progress *p)
     return 0;
 }
 
+static int
+on_ppmi_progress(void *ctx, const ist_ppmi_progress *p)
+{
+    (void)ctx;
+    static const char *const stages[] = {"counting pairs", "weighting", "factoring"};
+    int eta = (int)(p->eta_sec + 0.5);
+    cli_progress_update("train (PPMI): %5.1f%%  %s  left %d:%02d", 100.0 * p->fraction,
+                        stages[p->stage], eta / 60, eta % 60);
+    return 0;
+}
+
 static void
 on_build_progress(void *ctx, uint64_t done, uint64_t total)
 {
@@ -84,7 +129,28 @@ on_build_progress(void *ctx, uint64_t done, uint64_t total)
                         total ? 100.0 * (double)done / (double)total : 100.0, total / 1e6);
 }
 
-/* Parse argv into a; returns -1 to go on, else the exit status. */
+/* "A,B": the two block weights, each a positive number. */
+static bool
+parse_weights(const char *cmd, const char *s, double w[2])
+{
+    char *end;
+    double a = strtod(s, &end), b = 0.0;
+    bool ok = end != s && *end == ',';
+    if (ok) {
+        const char *t = end + 1;
+        b = strtod(t, &end);
+        ok = end != t && *end == '\0';
+    }
+    if (!ok || !(a > 0.0 && a <= 1e3) || !(b > 0.0 && b <= 1e3)) {
+        cli_usage_error(cmd, "--block-weights: expected two positive numbers up to 1000 "
+                             "separated by a comma (skip-gram,PPMI), found '%s'", s);
+        return false;
+    }
+    w[0] = a, w[1] = b;
+    return true;
+}
+
+/* Parse argv into a; CLI_GO_ON or the exit status. */
 static int
 parse(int argc, char **argv, train_args *a)
 {
@@ -111,17 +177,31 @@ parse(int argc, char **argv, train_args *a)
         {"numbers", required_argument, NULL, 'B'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'u'},
+        {"method", required_argument, NULL, 1000},
+        {"block-weights", required_argument, NULL, 1001},
+        {"ppmi-dimension", required_argument, NULL, 1002},
+        {"ppmi-context", required_argument, NULL, 1003},
+        {"ppmi-weighting", required_argument, NULL, 1004},
+        {"smoothing", required_argument, NULL, 1005},
+        {"ppmi-shift", required_argument, NULL, 1006},
+        {"singular-power", required_argument, NULL, 1007},
+        {"power-iterations", required_argument, NULL, 1008},
+        {"oversample", required_argument, NULL, 1009},
+        {"pair-buffer", required_argument, NULL, 1010},
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
     static const char *const kernels[] = {"fast", "reference", NULL};
+    static const char *const methods[] = {"skip-gram", "ppmi", "skip-gram+ppmi", NULL};
+    static const char *const weightings[] = {"linear", "flat", NULL};
     const char *cmd = "train";
     int c, k;
-    long ncpu = sysconf(_SC_NPROCESSORS_ONLN);
+    unsigned threads = 0;
 
     ist_sgns_opts_init(&a->so);
     ist_corpus_opts_init(&a->co);
-    a->so.threads = ncpu > 0 ? (size_t)(ncpu < 64 ? ncpu : 64) : 1;
+    ist_ppmi_opts_init(&a->po);
+    a->weights[0] = a->weights[1] = 1.0;
     a->passes_auto = true;
     while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
         bool ok = true;
@@ -139,7 +219,9 @@ parse(int argc, char **argv, train_args *a)
             break;
         case 'r': ok = cli_parse_double(cmd, "--rate", optarg, 1e-9, 10, &a->so.lr0); break;
         case 's': ok = cli_parse_double(cmd, "--subsample", optarg, 0, 1, &a->so.subsample); break;
-        case 't': ok = cli_parse_size(cmd, "--threads", optarg, 1, 256, &a->so.threads); break;
+        case 't':
+            ok = cli_parse_threads(cmd, optarg, &threads);
+            break;
         case 'S': ok = cli_parse_u64(cmd, "--seed", optarg, 0, UINT64_MAX, &a->so.seed); break;
         case 'k':
             ok = cli_parse_choice(cmd, "--kernel", optarg, kernels, &k);
@@ -173,14 +255,46 @@ parse(int argc, char **argv, train_args *a)
             break;
         case 'U': a->co.text.strict_utf8 = true; a->text_opts_given = true; break;
         case 'u': a->co.dedup_lines = true; a->text_opts_given = true; break;
+        case 1000: ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method); break;
+        case 1001: ok = parse_weights(cmd, optarg, a->weights); break;
+        case 1002:
+            ok = cli_parse_size(cmd, "--ppmi-dimension", optarg, 1, 10000, &a->po.dim);
+            break;
+        case 1003:
+            ok = cli_parse_size(cmd, "--ppmi-context", optarg, 1, 1000, &a->po.window);
+            break;
+        case 1004:
+            ok = cli_parse_choice(cmd, "--ppmi-weighting", optarg, weightings, &k);
+            a->po.weighting = k == 1 ? IST_PPMI_FLAT : IST_PPMI_LINEAR;
+            break;
+        case 1005:
+            ok = cli_parse_double(cmd, "--smoothing", optarg, 0.01, 1, &a->po.alpha);
+            break;
+        case 1006: ok = cli_parse_double(cmd, "--ppmi-shift", optarg, 1, 1e6, &a->po.shift); break;
+        case 1007:
+            ok = cli_parse_double(cmd, "--singular-power", optarg, 0, 1, &a->po.power);
+            break;
+        case 1008:
+            ok = cli_parse_size(cmd, "--power-iterations", optarg, 0, 100, &a->po.power_iters);
+            break;
+        case 1009:
+            ok = cli_parse_size(cmd, "--oversample", optarg, 0, 1000, &a->po.oversample);
+            break;
+        case 1010:
+            ok = cli_parse_size(cmd, "--pair-buffer", optarg, 1, 1048576, &a->po.buffer_mb);
+            break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default: return cli_usage_error(cmd, "unknown option '%s'", argv[optind - 1]);
         }
         if (!ok)
             return CLI_EXIT_USAGE;
     }
+    a->so.threads = threads ? threads : cli_processors();
     if (!a->out)
         return cli_usage_error(cmd, "expected --output OUT");
+    if (a->ctx_out && a->method != METHOD_SGNS)
+        return cli_usage_error(cmd, "--keep-context needs --method=skip-gram (PPMI vectors have "
+                                    "no context vectors)");
     if (strcmp(a->out, "-") == 0)
         return cli_usage_error(cmd, "the native vector file is binary; give a file name to "
                                     "--output, not '-' (use --text-copy for a text table)");
@@ -193,7 +307,7 @@ parse(int argc, char **argv, train_args *a)
     if ((a->ctx_out && strcmp(a->ctx_out, a->out) == 0) ||
         (a->text_out && strcmp(a->text_out, a->out) == 0))
         return cli_usage_error(cmd, "two outputs share the name '%s'", a->out);
-    return -1;
+    return CLI_GO_ON;
 }
 
 /* A prepared corpus starts with these bytes (written by ist_corpus_save). */
@@ -261,33 +375,102 @@ check_inputs(int n, char **paths, const train_args *a)
     return -1;
 }
 
+/* Train the skip-gram block; *m and *prov are new on success. */
+static ist_status
+train_sgns(train_args *a, const ist_corpus *corpus, const uint64_t *counts, ist_matrix **m,
+           ist_matrix **ctx, char **prov, ist_sgns_result *res, ist_error *err)
+{
+    size_t n_ids;
+    const uint32_t *ids = ist_corpus_ids(corpus, &n_ids);
+    const ist_vocab *v = ist_corpus_vocab(corpus);
+    size_t types = ist_vocab_size(v);
+    char *text_json = NULL;
+    if (cli_progress_enabled())
+        a->so.progress = on_progress;
+    cli_info("isthmus train: %llu tokens, %zu words, %zu pass%s, dimension %zu, %zu thread%s, "
+             "%s kernel (%s)\n", (unsigned long long)ist_vocab_total(v), types, a->so.epochs,
+             a->so.epochs == 1 ? "" : "es", a->so.dim, a->so.threads,
+             a->so.threads == 1 ? "" : "s",
+             a->so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name());
+    ist_status rc = ist_sgns_train(ids, n_ids, counts, types, &a->so, m,
+                                   a->so.keep_context ? ctx : NULL, res, err);
+    cli_progress_done();
+    if (rc == IST_OK)
+        rc = ist_text_opts_to_json(ist_corpus_text_opts(corpus), &text_json, err);
+    if (rc == IST_OK)
+        rc = ist_sgns_provenance_json(&a->so, res, text_json, ist_corpus_sources_json(corpus),
+                                      ist_vocab_total(v), types, prov, err);
+    ist_text_free(text_json);
+    return rc;
+}
+
+/* Train the PPMI block; *m and *prov are new on success. */
+static ist_status
+train_ppmi(train_args *a, const ist_corpus *corpus, ist_matrix **m, char **prov,
+           ist_error *err)
+{
+    size_t n_ids;
+    const uint32_t *ids = ist_corpus_ids(corpus, &n_ids);
+    const ist_vocab *v = ist_corpus_vocab(corpus);
+    size_t types = ist_vocab_size(v);
+    char *text_json = NULL;
+    ist_ppmi_result res;
+    a->po.threads = a->so.threads;
+    a->po.seed = a->so.seed;
+    if (a->po.dim > types) {
+        cli_info("isthmus train: the vocabulary has %zu words: PPMI dimension %zu lowered to "
+                 "%zu\n", types, a->po.dim, types);
+        a->po.dim = types;
+    }
+    if (cli_progress_enabled())
+        a->po.progress = on_ppmi_progress;
+    cli_info("isthmus train: PPMI, %llu tokens, %zu words, context %zu (%s), dimension %zu, "
+             "%zu thread%s\n", (unsigned long long)ist_vocab_total(v), types, a->po.window,
+             a->po.weighting == IST_PPMI_FLAT ? "flat" : "linear", a->po.dim, a->po.threads,
+             a->po.threads == 1 ? "" : "s");
+    ist_status rc = ist_ppmi_train(ids, n_ids, types, &a->po, m, NULL, &res, err);
+    cli_progress_done();
+    if (rc == IST_OK)
+        rc = ist_text_opts_to_json(ist_corpus_text_opts(corpus), &text_json, err);
+    if (rc == IST_OK)
+        rc = ist_ppmi_provenance_json(&a->po, &res, text_json, ist_corpus_sources_json(corpus),
+                                      ist_vocab_total(v), types, prov, err);
+    ist_text_free(text_json);
+    if (rc == IST_OK)
+        cli_info("isthmus train: %llu co-occurring pairs (%llu with positive PMI) counted in "
+                 "%.2f s, factored in %.2f s\n", (unsigned long long)res.nonzeros,
+                 (unsigned long long)res.positive, res.count_seconds,
+                 res.seconds - res.count_seconds);
+    return rc;
+}
+
 static int
 run(int argc, char **argv)
 {
     train_args a;
     memset(&a, 0, sizeof a);
     int st = parse(argc, argv, &a);
-    if (st >= 0)
+    if (st != CLI_GO_ON)
         return st;
     if ((st = check_inputs(argc - optind, argv + optind, &a)) >= 0)
         return st;
     /* refuse an output that cannot be written before spending the training time */
-    if (!cli_output_dir_ok("train", a.out) ||
-        (a.ctx_out && !cli_output_dir_ok("train", a.ctx_out)) ||
-        (a.text_out && !cli_output_dir_ok("train", a.text_out)))
-        return CLI_EXIT_ERROR;
+    const char *outs[] = {a.out, a.ctx_out, a.text_out};
+    if ((st = cli_check_files("train", (const char *const *)argv + optind,
+                              (size_t)(argc - optind), outs, 3)) != 0)
+        return st;
 
     ist_corpus *corpus = NULL;
-    ist_matrix *in = NULL, *ctx = NULL;
+    ist_matrix *sg = NULL, *ctx = NULL, *pm = NULL, *both = NULL;
+    const ist_matrix *result = NULL;
     ist_sgns_result res;
     ist_error err;
-    char *text_json = NULL, *prov = NULL;
+    char *sg_prov = NULL, *pm_prov = NULL, *both_prov = NULL;
+    const char *prov = NULL;
     double t0 = cli_now();
     ist_status rc = load_corpus(argc - optind, argv + optind, &a, &corpus, &err);
     if (rc != IST_OK)
         return cli_report("train", &err);
-    size_t n_ids;
-    const uint32_t *ids = ist_corpus_ids(corpus, &n_ids);
     const ist_vocab *v = ist_corpus_vocab(corpus);
     size_t types = ist_vocab_size(v);
     uint64_t tokens = ist_vocab_total(v);
@@ -306,38 +489,46 @@ run(int argc, char **argv)
     }
     for (size_t i = 0; i < types; i++)
         counts[i] = ist_vocab_count(v, (uint32_t)i);
-    if (a.passes_auto) {
-        double p = tokens ? 16e6 / (double)tokens : 20;
-        a.so.epochs = p < 5 ? 5 : p > 20 ? 20 : (size_t)(p + 0.5);
+    if (a.passes_auto)
+        a.so.epochs = ist_sgns_auto_passes(tokens);
+    memset(&res, 0, sizeof res);
+    if (a.method != METHOD_PPMI)
+        rc = train_sgns(&a, corpus, counts, &sg, &ctx, &sg_prov, &res, &err);
+    if (rc == IST_OK && a.method != METHOD_SGNS)
+        rc = train_ppmi(&a, corpus, &pm, &pm_prov, &err);
+    if (rc == IST_OK && a.method == METHOD_BOTH) {
+        ist_cmatview blocks[2] = {ist_matrix_cview(sg), ist_matrix_cview(pm)};
+        const char *provs[2] = {sg_prov, pm_prov};
+        rc = ist_combine_concat(blocks, NULL, a.weights, 2, &both, &err);
+        if (rc == IST_OK)
+            rc = ist_combine_provenance_json("train", provs, NULL, a.weights, 2, &both_prov,
+                                             &err);
+        ist_matrix_free(sg);
+        ist_matrix_free(pm);
+        sg = pm = NULL;
     }
-    if (cli_progress_enabled())
-        a.so.progress = on_progress;
-    cli_info("isthmus train: %llu tokens, %zu words, %zu pass%s, dimension %zu, %zu thread%s, "
-             "%s kernel (%s)\n", (unsigned long long)tokens, types, a.so.epochs,
-             a.so.epochs == 1 ? "" : "es", a.so.dim, a.so.threads, a.so.threads == 1 ? "" : "s",
-             a.so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name());
-    rc = ist_sgns_train(ids, n_ids, counts, types, &a.so, &in, a.so.keep_context ? &ctx : NULL,
-                        &res, &err);
-    cli_progress_done();
+    result = a.method == METHOD_SGNS ? sg : a.method == METHOD_PPMI ? pm : both;
+    prov = a.method == METHOD_SGNS ? sg_prov : a.method == METHOD_PPMI ? pm_prov : both_prov;
     if (rc == IST_OK)
-        rc = ist_text_opts_to_json(ist_corpus_text_opts(corpus), &text_json, &err);
-    if (rc == IST_OK)
-        rc = ist_sgns_provenance_json(&a.so, &res, text_json, ist_corpus_sources_json(corpus),
-                                      tokens, types, &prov, &err);
-    if (rc == IST_OK)
-        rc = save_vectors(in, v, prov, a.out, NULL, &err);
+        rc = save_vectors(result, v, prov, a.out, NULL, &err);
     if (rc == IST_OK && a.ctx_out)
         rc = save_vectors(ctx, v, prov, a.ctx_out, NULL, &err);
     if (rc == IST_OK && a.text_out) {
         ist_store_save_opts sv;
         ist_store_save_opts_init(&sv);
         sv.format = IST_STORE_TEXT;
-        rc = save_vectors(in, v, prov, a.text_out, &sv, &err);
+        rc = save_vectors(result, v, prov, a.text_out, &sv, &err);
     }
-    ist_matrix_free(in);
+    size_t dim = 0;
+    if (rc == IST_OK)
+        dim = ist_matrix_cview(result).cols;
+    ist_matrix_free(sg);
     ist_matrix_free(ctx);
-    ist_text_free(text_json);
-    ist_sgns_free(prov);
+    ist_matrix_free(pm);
+    ist_matrix_free(both);
+    ist_sgns_free(sg_prov);
+    ist_ppmi_free(pm_prov);
+    ist_combine_free(both_prov);
     free(counts);
     ist_corpus_free(corpus);
     if (rc != IST_OK) {
@@ -345,11 +536,17 @@ run(int argc, char **argv)
             fprintf(stderr, "isthmus train: interrupted after %.1f s\n", cli_now() - t0);
         return cli_report("train", &err);
     }
-    cli_info("isthmus train: %llu words seen (%llu trained after subsampling) in %.2f s, "
-             "%.0f words/s; %zu x %zu vectors -> %s\n", (unsigned long long)res.words_seen,
-             (unsigned long long)res.words_trained, res.seconds, res.words_per_sec, types,
-             a.so.dim, a.out);
+    if (a.method == METHOD_SGNS)
+        cli_info("isthmus train: %llu words seen (%llu trained after subsampling) in %.2f s, "
+                 "%.0f words/s; %zu x %zu vectors -> %s\n", (unsigned long long)res.words_seen,
+                 (unsigned long long)res.words_trained, res.seconds, res.words_per_sec, types,
+                 dim, a.out);
+    else
+        cli_info("isthmus train: %zu x %zu %s vectors in %.2f s -> %s\n", types, dim,
+                 a.method == METHOD_PPMI ? "PPMI" : "combined (skip-gram + PPMI)",
+                 cli_now() - t0, a.out);
     return CLI_EXIT_OK;
 }
 
-const cli_command cmd_train = {"train", "train skip-gram word vectors", run, help};
+const cli_command cmd_train = {"train", "train word vectors (skip-gram, PPMI-SVD or both)", run,
+                               help};
