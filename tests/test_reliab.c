@@ -544,6 +544,97 @@ procrustes_non_finite_seeds(void **state)
     ist_matrix_free(w);
 }
 
+/* ---- every byte of a native file flipped -------------------------------------- */
+
+/* What a reader hands back, for comparing two opens. */
+static bool
+same_store(const ist_store *a, const ist_store *b, size_t *changed_numbers)
+{
+    if (ist_store_rows(a) != ist_store_rows(b) || ist_store_dim(a) != ist_store_dim(b) ||
+        strcmp(ist_store_provenance(a), ist_store_provenance(b)) != 0)
+        return false;
+    *changed_numbers = 0;
+    for (size_t i = 0; i < ist_store_rows(a); i++) {
+        if (strcmp(ist_store_word(a, i), ist_store_word(b, i)) != 0 ||
+            ist_store_count(a, i) != ist_store_count(b, i))
+            return false;
+        *changed_numbers += memcmp(ist_store_row(a, i), ist_store_row(b, i),
+                                   ist_store_dim(a) * sizeof(float)) != 0;
+    }
+    return true;
+}
+
+/* The promise of docs/formats.md, tested: every byte of a small native file is flipped
+ * (XOR 0xff) in turn. The verified open (what inspect, convert, align, score, lookup,
+ * propose and gate use) refuses every one. The default open refuses every flip outside
+ * the matrix; a flip inside it is the one documented unchecked case: the words,
+ * counts and provenance are the same, and either nothing visible changed (the padding
+ * of a row) or exactly one row's numbers did. */
+static void
+native_byte_flips(void **state)
+{
+    (void)state;
+    static const char *const words[] = {"cup", "mug", "kettle"};
+    ist_store *s, *ref, *got;
+    ist_store_opts vo;
+    ist_error err;
+    size_t n;
+
+    assert_int_equal(ist_store_new(3, 5, &s, &err), IST_OK);
+    for (size_t i = 0; i < 3; i++) {
+        for (size_t j = 0; j < 5; j++)
+            ist_store_row_mut(s, i)[j] = (float)(i * 5 + j) - 6.5f;
+        assert_int_equal(ist_store_set_word(s, i, words[i], 10 + i, &err), IST_OK);
+    }
+    assert_int_equal(ist_store_set_provenance(s, "{\"demo\":true}", &err), IST_OK);
+    char *good = harness_path(dir, "good.isv"), *bad = harness_path(dir, "flip.isv");
+    assert_int_equal(ist_store_save(s, good, NULL, &err), IST_OK);
+    ist_store_free(s);
+    unsigned char *b = read_file(good, &n);
+    assert_int_equal(ist_store_open(good, NULL, &ref, &err), IST_OK);
+    size_t stride = (size_t)b[32] | (size_t)b[33] << 8;      /* header field, docs/formats.md */
+    size_t mbeg = 128, mend = 128 + 3 * stride * 4;
+    ist_store_opts_init(&vo);
+    vo.verify = true;
+    size_t v_refused = 0, d_refused = 0, d_same = 0, d_one_row = 0;
+    for (size_t at = 0; at < n; at++) {
+        size_t changed;
+        b[at] ^= 0xff;
+        harness_write(bad, b, n);
+        b[at] ^= 0xff;
+        if (ist_store_open(bad, &vo, &got, &err) == IST_OK) {
+            ist_store_free(got);
+            fail_msg("byte %zu flipped: the verified open accepted it", at);
+        }
+        assert_true(err.msg[0] != '\0');
+        v_refused++;
+        if (ist_store_open(bad, NULL, &got, &err) != IST_OK) {
+            if (at >= mbeg && at < mend)
+                fail_msg("byte %zu (matrix) flipped: the default open refused it", at);
+            d_refused++;
+            continue;
+        }
+        if (at < mbeg || at >= mend)
+            fail_msg("byte %zu (outside the matrix) flipped: the default open accepted it", at);
+        if (!same_store(ref, got, &changed))
+            fail_msg("byte %zu flipped: words, counts or provenance changed", at);
+        bool padding = (at - mbeg) % (stride * 4) >= 5 * 4;
+        assert_int_equal(changed, padding ? 0 : 1);
+        padding ? d_same++ : d_one_row++;
+        ist_store_free(got);
+    }
+    assert_int_equal(v_refused, n);
+    assert_int_equal(d_refused + d_same + d_one_row, n);
+    print_message("# byte flips of a %zu-byte native file: verified open refused %zu; default "
+                  "open refused %zu, gave the same result for %zu (row padding) and changed "
+                  "one row's numbers for %zu (matrix, unchecked without verify)\n", n, v_refused,
+                  d_refused, d_same, d_one_row);
+    ist_store_free(ref);
+    free(b);
+    free(good);
+    free(bad);
+}
+
 int
 main(void)
 {
@@ -557,6 +648,7 @@ main(void)
         cmocka_unit_test_setup_teardown(writers_leave_nothing, setup, teardown),
         cmocka_unit_test(norm_tiny_zero_and_non_finite_rows),
         cmocka_unit_test(procrustes_non_finite_seeds),
+        cmocka_unit_test_setup_teardown(native_byte_flips, setup, teardown),
     };
     HARNESS_RUN("reliab", tests);
 }

@@ -510,12 +510,27 @@ two_threads_learn(void **state)
     o.epochs = 3;
     o.subsample = 0;
     o.threads = 2;
-    assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &m, NULL, &res, NULL),
-                     IST_OK);
-    assert_int_equal(res.words_seen, 3 * 4000 * 12);
-    assert_true(res.final_loss > 0 && res.final_loss < 1.0);
-    assert_true(nn_accuracy(m, 40, 10) >= 0.6);
-    ist_matrix_free(m);
+    /* shared rows only (the default), then private copies of the 60 most frequent words'
+     * rows in each thread, merged every publication and every 3rd */
+    const char *hot[3] = {NULL, "60", "60"}, *merge[3] = {NULL, NULL, "3"};
+    for (int v = 0; v < 3; v++) {
+        if (hot[v])
+            setenv("ISTHMUS_SGNS_HOT", hot[v], 1);
+        if (merge[v])
+            setenv("ISTHMUS_SGNS_MERGE", merge[v], 1);
+        assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &m, NULL, &res, NULL),
+                         IST_OK);
+        unsetenv("ISTHMUS_SGNS_HOT");
+        unsetenv("ISTHMUS_SGNS_MERGE");
+        assert_int_equal(res.words_seen, 3 * 4000 * 12);
+        assert_true(res.final_loss > 0 && res.final_loss < 1.0);
+        double acc = nn_accuracy(m, 40, 10);
+        printf("# two threads, private hot rows %s, merged every %s publication(s): "
+               "nearest-neighbour accuracy %.3f\n", hot[v] ? hot[v] : "none",
+               merge[v] ? merge[v] : "1", acc);
+        assert_true(acc >= 0.6);
+        ist_matrix_free(m);
+    }
     corpus_free(&c);
 }
 

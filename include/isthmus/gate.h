@@ -116,6 +116,13 @@ IST_API void ist_verdict_line(const ist_verdict *v, size_t i, char *buf, size_t 
 /** Write the verdict JSON atomically ("-": standard output). */
 IST_API ist_status ist_verdict_write(const ist_verdict *v, const char *path, ist_error *err);
 
+/** Write the verdict as a JUnit-style XML report, atomically ("-": standard output): one
+ *  testsuite named after the thresholds file, one testcase per rule in file order, with a
+ *  failure element for a failed rule and a skipped element for one not checked
+ *  (docs/formats.md "JUnit report"). */
+IST_API ist_status ist_verdict_write_junit(const ist_verdict *v, const char *path,
+                                           ist_error *err);
+
 #ifdef __cplusplus
 }
 #endif

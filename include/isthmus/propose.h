@@ -192,6 +192,10 @@ typedef struct ist_merge_opts {
     bool skip_conflicts;         /* leave conflicting pairs out instead of failing [false] */
     ist_merge_conflict_fn on_conflict;   /* may be NULL */
     void *ctx;
+    const ist_store *target_vectors;     /* check the word of every "use WORD" against this
+                                            vocabulary (normalised as it was) and refuse one
+                                            it lacks [NULL: unchecked, counted in
+                                            ist_merge_summary.unchecked] */
 } ist_merge_opts;
 
 IST_API void ist_merge_opts_init(ist_merge_opts *opts);
@@ -207,6 +211,7 @@ typedef struct ist_merge_summary {
     size_t duplicates;           /* accepted pairs already in the list (skipped) */
     size_t conflicts;
     size_t added;                /* pairs written after the seed lines */
+    size_t unchecked;            /* "use WORD" corrections not checked against a vocabulary */
 } ist_merge_summary;
 
 /** Merge reviewed candidate lists into the seed pair file seed_path and write

@@ -17,8 +17,8 @@
  * - Dynamic window (Mikolov et al. 2013; analysed by Levy, Goldberg & Dagan 2015): for each
  *   position the window radius is drawn uniformly from 1..window. Windows never cross a line
  *   end (IST_CORPUS_EOL).
- * - Learning rate decays linearly from lr0 to lr0 * 1e-4 over all epochs:
- *   lr = lr0 * max(1e-4, 1 - words_done / (epochs * words_per_epoch)).
+ * - Learning rate decays linearly from lr0 to lr0 * lr_floor over all epochs:
+ *   lr = lr0 * max(lr_floor, 1 - words_done / (epochs * words_per_epoch)).
  * - Initialisation: input vectors uniform in [-0.5/dim, 0.5/dim], output vectors zero.
  * - SGNS factorises the shifted PMI matrix: at the optimum w . c = PMI(w, c) - log k
  *   (Levy & Goldberg 2014, "Neural Word Embedding as Implicit Matrix Factorization").
@@ -70,6 +70,7 @@ typedef struct ist_sgns_opts {
     size_t negatives;        /* noise words k per positive pair [default 5] */
     size_t epochs;           /* passes over the stream [default 5] */
     double lr0;              /* start learning rate [default 0.025] */
+    double lr_floor;         /* the rate never falls below lr0 * lr_floor [default 1e-4] */
     double subsample;        /* t in the discard formula; 0 = off [default 1e-4] */
     size_t threads;          /* worker threads [default 1] */
     uint64_t seed;           /* random seed [default 1] */

@@ -82,6 +82,24 @@ fail:
     return rc;
 }
 
+/* zlib's reason without the "<fd:N>: " it puts in front, the offset in the compressed
+ * file (what a hex dump of the file shows) and how much text came out before. */
+static ist_status
+gzip_damage(ist_reader *r, const char *what, ist_error *err)
+{
+    int ze;
+    const char *zmsg = gzerror(r->gz, &ze);
+    const char *colon = zmsg && zmsg[0] == '<' ? strstr(zmsg, ">: ") : NULL;
+    z_off_t at = gzoffset(r->gz);
+
+    if (colon)
+        zmsg = colon + 3;
+    return ist_error_at_offset(err, IST_ERR_FORMAT, r->path, at < 0 ? 0 : (uint64_t)at,
+                               "%s (%s), after %llu bytes of text", what,
+                               zmsg && *zmsg ? zmsg : "no reason given",
+                               (unsigned long long)(r->consumed + r->end));
+}
+
 static ist_status
 refill(ist_reader *r, ist_error *err)
 {
@@ -97,18 +115,16 @@ refill(ist_reader *r, ist_error *err)
     int n = gzread(r->gz, r->buf + r->end, (unsigned)(room > CHUNK ? CHUNK : room));
     if (n < 0) {
         int ze;
-        const char *zmsg = gzerror(r->gz, &ze);
+        gzerror(r->gz, &ze);
         if (ze == Z_ERRNO)
             return ist_error_sys(err, IST_ERR_IO, r->path, "cannot read");
-        return ist_error_at_offset(err, IST_ERR_FORMAT, r->path, r->consumed + r->end,
-                                   "corrupt gzip data: %s", zmsg);
+        return gzip_damage(r, "corrupt gzip data", err);
     }
     if (n == 0) {
         int ze;
-        const char *zmsg = gzerror(r->gz, &ze);
+        gzerror(r->gz, &ze);
         if (ze != Z_OK && ze != Z_STREAM_END)
-            return ist_error_at_offset(err, IST_ERR_FORMAT, r->path, r->consumed + r->end,
-                                       "truncated or corrupt gzip data: %s", zmsg);
+            return gzip_damage(r, "truncated or corrupt gzip data", err);
         r->at_eof = true;
     }
     r->end += (size_t)n;

@@ -12,6 +12,7 @@
 #include "ofile_int.h"
 #include "reader_int.h"
 #include "text_int.h"
+#include "pairs_int.h"
 
 #define MAX_LINE ((size_t)1 << 20)
 
@@ -42,6 +43,7 @@ typedef struct merger {
     const ist_merge_opts *o;
     ist_merge_summary *sum;
     ist_error first;       /* the first conflict */
+    ist_pairs_norm *tnorm; /* normalises "use WORD" like the target vocabulary, NULL: exact */
 } merger;
 
 static uint64_t
@@ -336,6 +338,35 @@ parse_header(char **f, size_t nf, const char *path, uint64_t line, columns *c, i
 }
 
 /* One candidate row: decide and record. */
+/* The word of a "use WORD" correction must be a word of the target vectors when they
+ * are given (a typo would otherwise become a seed pair no vector file has). */
+static ist_status
+check_use_word(merger *m, const char *w, const char *path, uint64_t line, ist_error *err)
+{
+    const ist_store *t = m->o->target_vectors;
+    const char *nw = w;
+    size_t nl = strlen(w);
+    char buf[IST_WORD_MAX_BYTES * 4 + 1];
+
+    if (!t) {
+        m->sum->unchecked++;
+        return IST_OK;
+    }
+    if (m->tnorm) {
+        ist_status rc = ist_pairs_norm_word(m->tnorm, w, strlen(w), &nw, &nl, err);
+        if (rc != IST_OK)
+            return rc;
+    }
+    if (nl >= sizeof buf)
+        nl = sizeof buf - 1;
+    memcpy(buf, nw, nl);
+    buf[nl] = '\0';
+    if (ist_store_find(t, buf) < 0)
+        return ist_error_at(err, IST_ERR_FORMAT, path, line,
+                            "decision: 'use %s': the word is not in the target vectors", w);
+    return IST_OK;
+}
+
 static ist_status
 take_row(merger *m, char **f, size_t nf, const columns *c, size_t file, uint64_t line,
          ist_error *err)
@@ -394,6 +425,11 @@ take_row(merger *m, char **f, size_t nf, const columns *c, size_t file, uint64_t
             return ist_error_at(err, IST_ERR_FORMAT, path, line,
                                 "decision: 'use WORD' with a word of %zu bytes, longer than the "
                                 "limit of %d bytes", strlen(w), IST_WORD_MAX_BYTES);
+        if (strcmp(w, t) != 0) {
+            ist_status rc = check_use_word(m, w, path, line, err);
+            if (rc != IST_OK)
+                return rc;
+        }
         if (strcmp(w, t) == 0)
             m->sum->accepted++;
         else
@@ -549,7 +585,12 @@ ist_propose_merge(const char *seed_path, const char *const *reviewed, size_t nre
     m.files = reviewed;
     m.o = &o;
     m.sum = sum;
-    rc = read_seeds(&m, seed_path, err);
+    if (o.target_vectors) {
+        bool exact;
+        rc = ist_pairs_norm_open(o.target_vectors, &m.tnorm, &exact, err);
+    }
+    if (rc == IST_OK)
+        rc = read_seeds(&m, seed_path, err);
     for (size_t i = 0; rc == IST_OK && i < nreviewed; i++)
         rc = read_reviewed(&m, i, err);
     if (rc == IST_OK && sum->conflicts > 0 && !o.skip_conflicts) {
@@ -573,6 +614,7 @@ ist_propose_merge(const char *seed_path, const char *const *reviewed, size_t nre
         ist_free(m.rec[i].tgt);
     }
     ist_free(m.rec);
+    ist_pairs_norm_close(m.tnorm);
     ist_free(m.pairs.slot);
     ist_free(m.sources.slot);
     return rc;

@@ -406,6 +406,10 @@ ist_corpus_open(const char *path, ist_corpus **out, ist_error *err)
     close(fd);
     if (map == MAP_FAILED)
         return ist_error_sys(err, IST_ERR_IO, path, "cannot map into memory");
+    /* The checks and then training read the stream front to back (each training thread its
+     * own part): ask for large read-ahead, and let pages already read go first when memory
+     * is short, so that a corpus larger than memory streams from disk. Advice only. */
+    madvise(map, (size_t)sb.st_size, MADV_SEQUENTIAL);
     rc = check_layout(map, (size_t)sb.st_size, path, &h, err);
     if (rc == IST_OK)
         rc = ist_corpus_alloc(&c, err);

@@ -7,7 +7,9 @@
 #include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
 #include <time.h>
+#include <unistd.h>
 
 #include <isthmus/cancel.h>
 
@@ -20,14 +22,16 @@
 #define PUBLISH_EVERY 10000    /* stream words between updates of the shared counters */
 #define SIG_RANGE 8.0f         /* sigmoid table covers [-8, 8] */
 #define SIG_SIZE 2048
-#define LR_FLOOR 1e-4
 #define LOSS_EVERY_MASK 7      /* the loss (for progress only) is summed on every 8th window */
 #define MAX_THREADS 256
 #define MAX_DIM 10000
 #define MAX_WINDOW 1000
 #define MAX_NEGATIVES 1000
-#define HOT_ROWS 1024          /* words whose rows each thread keeps a private copy of */
+#define HOT_ROWS 0             /* words whose rows each thread keeps a private copy of: none by
+                                * default, measured slower here (docs/performance.md) */
 #define MAX_HOT_ROWS 65536
+#define AHEAD_IDS ((size_t)1 << 22) /* ids (16 MiB) a thread asks the kernel to read ahead */
+#define MERGE_EVERY 1          /* publications between merges of the private rows */
 
 void
 ist_sgns_opts_init(ist_sgns_opts *o)
@@ -38,6 +42,7 @@ ist_sgns_opts_init(ist_sgns_opts *o)
     o->negatives = 5;
     o->epochs = 5;
     o->lr0 = 0.025;
+    o->lr_floor = 1e-4;
     o->subsample = 1e-4;
     o->threads = 1;
     o->seed = 1;
@@ -153,7 +158,7 @@ typedef struct shared {
     ist_sgns_noise noise;
     const ist_sgns_simd *simd;
     ist_sgns_kernel kernel;
-    double lr0;
+    double lr0, lr_floor;
     uint64_t words_per_epoch, words_total;
     float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
     atomic_int stop;
@@ -164,10 +169,12 @@ typedef struct shared {
     uint64_t loss_n, last_epoch_n;
     size_t finished;
     ist_status fail;
-    /* With two threads or more: the hot words (the most frequent ones) are trained on private
-     * copies of their input and output rows in each thread, merged into the shared matrices
-     * every PUBLISH_EVERY stream words (docs/performance.md, "Threads"). */
-    size_t n_hot;
+    /* Optional, with two threads or more (ISTHMUS_SGNS_HOT): the hot words (the most frequent
+     * ones) are trained on private copies of their input and output rows in each thread,
+     * merged into the shared matrices every merge_every x PUBLISH_EVERY stream words
+     * (docs/performance.md, "Threads"). */
+    size_t n_hot, merge_every;
+    size_t page;                     /* bytes of a memory page, for read-ahead advice */
     uint32_t *hot_ids;               /* n_hot ids, most frequent first */
     int32_t *hot_slot;               /* vocab entries: slot of the word, or -1 */
     pthread_mutex_t merge_lock;
@@ -191,6 +198,7 @@ typedef struct worker {
     /* hot rows: the private copies (n_hot x stride, inputs then outputs) and the shared rows
      * as they were at the last merge */
     float *rep_in, *rep_out, *base_in, *base_out;
+    size_t publications;
     /* since the last publication */
     uint64_t words, trained, pairs, loss_n, windows;
     double loss;
@@ -247,7 +255,7 @@ static double
 current_lr(const shared *sh, uint64_t done)
 {
     double f = 1.0 - (double)done / (double)(sh->words_total + 1);
-    return sh->lr0 * (f > LR_FLOOR ? f : LR_FLOOR);
+    return sh->lr0 * (f > sh->lr_floor ? f : sh->lr_floor);
 }
 
 /* ---- rows: shared, or this thread's copy for a hot word --------------------------------- */
@@ -484,9 +492,21 @@ publish(worker *w, bool last_epoch)
     pthread_mutex_unlock(&sh->lock);
     w->words = w->trained = w->pairs = w->loss_n = 0;
     w->loss = 0.0;
-    if (sh->n_hot)
+    if (sh->n_hot && ++w->publications % sh->merge_every == 0)
         merge_hot(w);
     return (float)lr;
+}
+
+/* Ask for the next AHEAD_IDS ids of this thread's part to be read in (the stream may be a
+ * memory-mapped file larger than memory, on a slow disk): advice only, results unchanged. */
+static void
+read_ahead(const worker *w, size_t pos)
+{
+    size_t page = w->sh->page, end = pos + AHEAD_IDS < w->end ? pos + AHEAD_IDS : w->end;
+    uintptr_t a = (uintptr_t)(w->sh->ids + pos) & ~(uintptr_t)(page - 1);
+    uintptr_t b = (uintptr_t)(w->sh->ids + end);
+    if (b > a)
+        posix_madvise((void *)a, (size_t)(b - a), POSIX_MADV_WILLNEED);
 }
 
 static void *
@@ -501,9 +521,13 @@ worker_main(void *arg)
     for (size_t e = 0; e < sh->epochs && !atomic_load_explicit(&sh->stop, memory_order_relaxed);
          e++) {
         bool last = e + 1 == sh->epochs;
-        size_t pos = w->begin;
+        size_t pos = w->begin, ahead = pos;
         while (pos < w->end) {
             size_t n = 0;
+            if (pos >= ahead) {
+                read_ahead(w, pos);
+                ahead = pos + AHEAD_IDS / 2;
+            }
             while (pos < w->end) {
                 uint32_t id = sh->ids[pos++];
                 if (id == IST_CORPUS_EOL)
@@ -533,6 +557,8 @@ worker_main(void *arg)
         }
         lr = publish(w, last);
     }
+    if (sh->n_hot)
+        merge_hot(w);                /* whatever the last publication left */
     pthread_mutex_lock(&sh->lock);
     sh->finished++;
     pthread_cond_signal(&sh->wake);
@@ -621,6 +647,10 @@ check_opts(const ist_sgns_opts *o, size_t n_ids, size_t vocab_size, ist_error *e
     if (o->threads == 0 || o->threads > MAX_THREADS)
         return ist_error_set(err, IST_ERR_INVALID, "threads: expected 1 to %d, found %zu",
                              MAX_THREADS, o->threads);
+    if (!(o->lr_floor > 0.0 && o->lr_floor <= 1.0))
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "learning-rate floor: expected a fraction in (0, 1], found %g",
+                             o->lr_floor);
     if (!(o->lr0 > 0.0 && o->lr0 <= 10.0))
         return ist_error_set(err, IST_ERR_INVALID,
                              "learning rate: expected a number in (0, 10], found %g", o->lr0);
@@ -672,22 +702,29 @@ by_count_desc(const void *a, const void *b)
     return (x->id > y->id) - (x->id < y->id);
 }
 
-/* How many hot words get private rows: none on one thread (so that a one-thread run is the
- * plain algorithm, bit for bit), else HOT_ROWS or what ISTHMUS_SGNS_HOT asks for (0 turns
- * the copies off: plain lock-free updates of the shared rows). */
+/* A count from the environment (for measurements), or def when unset or not a number. */
 static size_t
-hot_rows_wanted(size_t threads, size_t vocab)
+env_count(const char *name, size_t def, size_t max)
 {
-    size_t n = HOT_ROWS;
-    const char *e = getenv("ISTHMUS_SGNS_HOT");
-    if (threads < 2)
-        return 0;
+    const char *e = getenv(name);
     if (e && *e) {
         char *end;
         unsigned long long v = strtoull(e, &end, 10);
         if (*end == '\0')
-            n = v > MAX_HOT_ROWS ? MAX_HOT_ROWS : (size_t)v;
+            return v > max ? max : (size_t)v;
     }
+    return def;
+}
+
+/* How many hot words get private rows: none on one thread (so that a one-thread run is the
+ * plain algorithm, bit for bit), else HOT_ROWS or what ISTHMUS_SGNS_HOT asks for (0: plain
+ * lock-free updates of the shared rows). */
+static size_t
+hot_rows_wanted(size_t threads, size_t vocab)
+{
+    size_t n = env_count("ISTHMUS_SGNS_HOT", HOT_ROWS, MAX_HOT_ROWS);
+    if (threads < 2)
+        return 0;
     return n < vocab ? n : vocab;
 }
 
@@ -719,6 +756,9 @@ hot_setup(shared *sh, const uint64_t *counts, size_t vocab, size_t n_hot, ist_er
     }
     ist_free(r);
     sh->n_hot = n_hot;
+    sh->merge_every = env_count("ISTHMUS_SGNS_MERGE", MERGE_EVERY, 1000);
+    if (sh->merge_every == 0)
+        sh->merge_every = 1;
     return IST_OK;
 }
 
@@ -864,9 +904,12 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
     sh->kernel = o->kernel;
     sh->lr0 = o->lr0;
+    sh->lr_floor = o->lr_floor;
     sh->words_per_epoch = words;
     sh->words_total = words * o->epochs;
     sig_tables(sh);
+    long page = sysconf(_SC_PAGESIZE);
+    sh->page = page > 0 ? (size_t)page : 4096;
     atomic_init(&sh->stop, 0);
     pthread_mutex_init(&sh->lock, NULL);
     pthread_mutex_init(&sh->merge_lock, NULL);

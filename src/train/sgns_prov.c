@@ -40,6 +40,7 @@ ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
     ist_jw_num(&w, "noise_power", 0.75);
     ist_jw_uint(&w, "passes", o->epochs);
     ist_jw_num(&w, "rate", o->lr0);
+    ist_jw_num(&w, "rate_floor", o->lr_floor);
     ist_jw_num(&w, "subsample", o->subsample);
     ist_jw_uint(&w, "threads", o->threads);
     ist_jw_uint(&w, "seed", o->seed);

@@ -19,7 +19,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
-    char path[64];
+    char path[FUZZ_PATH_CAP];
     ist_corpus *c;
     ist_error e;
     uint8_t *copy = malloc(size ? size : 1);

@@ -37,7 +37,7 @@ slurp(const char *path, size_t *len)
 static void
 check_map(const ist_map *m)
 {
-    char a[64], b[64];
+    char a[FUZZ_PATH_CAP], b[FUZZ_PATH_CAP];
     ist_map *m2 = NULL;
     char *desc = NULL;
     ist_error e;
@@ -48,8 +48,8 @@ check_map(const ist_map *m)
     if (ist_map_describe(m, &desc, &e) != IST_OK)
         abort();
     ist_map_free_text(desc);
-    snprintf(a, sizeof a, "/tmp/isthmus-fuzz-map-a-%ld", (long)getpid());
-    snprintf(b, sizeof b, "/tmp/isthmus-fuzz-map-b-%ld", (long)getpid());
+    if (!fuzz_path(a, sizeof a, "a.map") || !fuzz_path(b, sizeof b, "b.map"))
+        abort();
     if (ist_map_save(m, a, &e) != IST_OK || ist_map_load(a, &m2, &e) != IST_OK ||
         ist_map_save(m2, b, &e) != IST_OK)
         abort();   /* what was loaded can be written and read back */
@@ -66,7 +66,7 @@ check_map(const ist_map *m)
 static void
 try_load(const uint8_t *data, size_t size)
 {
-    char path[64];
+    char path[FUZZ_PATH_CAP];
     ist_map *m = NULL;
     ist_error e;
 

@@ -17,11 +17,12 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 static void
 check_saved(const ist_pairs *p)
 {
-    char path[64];
+    char path[FUZZ_PATH_CAP];
     ist_pairs *q = NULL;
     ist_error e;
 
-    snprintf(path, sizeof path, "/tmp/isthmus-fuzz-pairs-%ld", (long)getpid());
+    if (!fuzz_path(path, sizeof path, "saved.pairs"))
+        return;
     if (ist_pairs_save(p, path, &e) != IST_OK)
         abort();   /* a list that was read can always be written */
     if (ist_pairs_read(path, &q, &e) != IST_OK || ist_pairs_count(q) != ist_pairs_count(p))
@@ -37,7 +38,7 @@ check_saved(const ist_pairs *p)
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
-    char path[64];
+    char path[FUZZ_PATH_CAP];
     ist_pairs *p = NULL, *seeds = NULL, *test = NULL;
     ist_error e;
     uint64_t ck, sh;

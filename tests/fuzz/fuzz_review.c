@@ -20,7 +20,7 @@ static const char seed_text[] = "# seeds\nkettle\thervidor\nblue azul\n";
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
-    char seed[64], review[64], out[80];
+    char seed[FUZZ_PATH_CAP], review[FUZZ_PATH_CAP], out[FUZZ_PATH_CAP + 8];
     ist_merge_opts mo;
     ist_merge_summary sum;
     ist_error e;

@@ -15,7 +15,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
-    char path[64];
+    char path[FUZZ_PATH_CAP];
     ist_store_opts o;
     ist_store *s;
     ist_error e;

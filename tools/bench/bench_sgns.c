@@ -9,10 +9,11 @@
  *                 count 5 ($ISTHMUS_BENCH_TEXT). Without either, a synthetic Zipfian stream.
  *   --tokens N    stream length [default 10000000]
  *   --repeat R    interleaved repetitions; medians are printed [default 1]
- *   --designs     also, for the fast kernel on 2 threads: plain lock-free updates of the
- *                 shared rows (no private hot rows), 256 and 4096 private hot rows instead
- *                 of the default 1024, and the control: two independent one-thread runs at
- *                 the same time (what the machine gives two processes that share nothing)
+ *   --designs     also, for the fast kernel on 2 threads: private copies of the hottest rows
+ *                 in each thread (256 or 1024 rows merged every 10,000 words, 1024 merged
+ *                 every 100,000) against the default (lock-free updates of the shared rows),
+ *                 and the control: two independent one-thread runs at the same time (what the
+ *                 machine gives two processes that share nothing)
  *   --fast-only   leave out the reference kernel's rows
  * The load average (/proc/loadavg) is printed before every repetition and at the end.
  * Prints words/s (stream words, counted before subsampling), the useful flop rate against
@@ -276,6 +277,7 @@ typedef struct row {
     size_t dim, threads;
     int procs;                               /* 2: the control, two one-thread processes */
     long hot;                                /* ISTHMUS_SGNS_HOT for the run, -1: default */
+    long merge;                              /* ISTHMUS_SGNS_MERGE, 0: default */
     int n;                                   /* repetitions done */
     double wps[MAX_REPEAT], cpu_wps[MAX_REPEAT], flops[MAX_REPEAT], cpu_flops[MAX_REPEAT];
     double peak, added, floor_;
@@ -330,6 +332,10 @@ child_train(const stream *s, const row *r, int fd)
     if (r->hot >= 0) {
         snprintf(hot, sizeof hot, "%ld", r->hot);
         setenv("ISTHMUS_SGNS_HOT", hot, 1);
+    }
+    if (r->merge > 0) {
+        snprintf(hot, sizeof hot, "%ld", r->merge);
+        setenv("ISTHMUS_SGNS_MERGE", hot, 1);
     }
     ist_sgns_opts_init(&o);
     o.dim = r->dim;
@@ -435,9 +441,10 @@ row_label(const row *r, char *buf, size_t cap)
     else if (r->hot == 0)
         snprintf(buf, cap, "shared rows only");
     else if (r->hot > 0)
-        snprintf(buf, cap, "%ld private hot rows", r->hot);
+        snprintf(buf, cap, "%ld private hot rows, merged /%ldk words", r->hot,
+                 10 * (r->merge > 0 ? r->merge : 1));
     else
-        snprintf(buf, cap, r->threads > 1 ? "default (1024 private hot rows)" : "-");
+        snprintf(buf, cap, r->threads > 1 ? "default (shared rows only)" : "-");
     return buf;
 }
 
@@ -521,7 +528,7 @@ main(int argc, char **argv)
     int n_main = nr, step = fast_only ? 1 : 2;   /* rows from 1 to 2 threads */
     if (designs && only_kernel < 0)
         for (int di = 0; di < 2; di++) {
-            long hots[3] = {0, 256, 4096};
+            long hots[3] = {256, 1024, 1024}, merges[3] = {1, 1, 10};
             for (int v = 0; v < 4; v++) {
                 row *r = &rows[nr++];
                 memset(r, 0, sizeof *r);
@@ -530,6 +537,7 @@ main(int argc, char **argv)
                 r->threads = v < 3 ? 2 : 1;
                 r->procs = v < 3 ? 1 : 2;
                 r->hot = v < 3 ? hots[v] : -1;
+                r->merge = v < 3 ? merges[v] : 0;
             }
         }
     print_load("at the start");
@@ -555,7 +563,7 @@ main(int argc, char **argv)
            "floor MB", "design");
     for (int i = 0; i < nr; i++) {
         row *r = &rows[i];
-        char lab[64];
+        char lab[128];
         size_t busy = r->threads * (size_t)r->procs;
         double g = busy == 1 ? c1 : c2, w = median(r->wps, r->n);
         printf("%-9s %4zu %3zu %10.0f %14.0f %12.0f %8.2f %6.1f%% %8.1f %8.1f %8.1f  %s\n",
@@ -581,7 +589,7 @@ main(int argc, char **argv)
                        median(rows[i].cpu_wps, rows[i].n));
     for (int i = n_main; i < nr; i++) {
         const row *r = &rows[i], *one = &rows[r->dim == 100 ? 0 : 2 * step];
-        char lab[64];
+        char lab[128];
         printf("  fast      dim %3zu: %-32s / 1 thread = %.2f (wall); per CPU-second %.2f\n",
                r->dim, row_label(r, lab, sizeof lab),
                median(r->wps, r->n) / median(one->wps, one->n),

@@ -26,6 +26,8 @@ help(FILE *out)
           "      --baseline=FILE     an earlier result on the same test list, for the\n"
           "                          'max drop' rules (skipped without one)\n"
           "      --verdict-out=FILE  write the verdict as JSON ('-': standard output)\n"
+          "      --junit-out=FILE    write the verdict as a JUnit XML report, one test case\n"
+          "                          per rule, for CI servers ('-': standard output)\n"
           "      --resamples=N       bootstrap resamples for intervals [default: 1000]\n"
           "      --seed=N            bootstrap random seed [default: 20261201]\n"
           "      --map=MAP           map file, to score SRC and TGT\n"
@@ -46,10 +48,11 @@ help(FILE *out)
           out);
 }
 
-enum { OPT_THRESHOLDS = 1, OPT_BASELINE, OPT_VERDICT, OPT_RESAMPLES, OPT_SEED, OPT_MAP, OPT_TEST };
+enum { OPT_THRESHOLDS = 1, OPT_BASELINE, OPT_VERDICT, OPT_RESAMPLES, OPT_SEED, OPT_MAP, OPT_TEST,
+       OPT_JUNIT };
 
 typedef struct args {
-    const char *thresholds, *baseline, *verdict, *map, *test;
+    const char *thresholds, *baseline, *verdict, *junit, *map, *test;
     ist_gate_opts gate;
     ac_common c;
 } args;
@@ -143,6 +146,7 @@ parse_args(int argc, char **argv, args *a)
         {"thresholds", required_argument, NULL, OPT_THRESHOLDS},
         {"baseline", required_argument, NULL, OPT_BASELINE},
         {"verdict-out", required_argument, NULL, OPT_VERDICT},
+        {"junit-out", required_argument, NULL, OPT_JUNIT},
         {"resamples", required_argument, NULL, OPT_RESAMPLES},
         {"seed", required_argument, NULL, OPT_SEED},
         {"map", required_argument, NULL, OPT_MAP},
@@ -160,6 +164,7 @@ parse_args(int argc, char **argv, args *a)
         case OPT_THRESHOLDS: a->thresholds = optarg; break;
         case OPT_BASELINE: a->baseline = optarg; break;
         case OPT_VERDICT: a->verdict = optarg; break;
+        case OPT_JUNIT: a->junit = optarg; break;
         case OPT_MAP: a->map = optarg; break;
         case OPT_TEST: a->test = optarg; break;
         case OPT_RESAMPLES:
@@ -208,6 +213,8 @@ report(const args *a, const ist_verdict *v)
     fflush(stdout);
     if (a->verdict && ist_verdict_write(v, a->verdict, &err) != IST_OK)
         return cli_report(CMD, &err);
+    if (a->junit && ist_verdict_write_junit(v, a->junit, &err) != IST_OK)
+        return cli_report(CMD, &err);
     return ok ? CLI_EXIT_OK : CLI_EXIT_GATE;
 }
 
@@ -228,8 +235,8 @@ run(int argc, char **argv)
         return rc;
     const char *ins[] = {a.thresholds, a.baseline, a.map, a.test, argv[optind],
                          a.map ? argv[optind + 1] : NULL};
-    const char *outs[] = {a.verdict, a.c.json_out};
-    if ((rc = cli_check_files(CMD, ins, 6, outs, 2)) != 0)
+    const char *outs[] = {a.verdict, a.c.json_out, a.junit};
+    if ((rc = cli_check_files(CMD, ins, 6, outs, 3)) != 0)
         return rc;
     if (ist_thresholds_read(a.thresholds, &rules, &err) != IST_OK)
         return cli_report(CMD, &err);

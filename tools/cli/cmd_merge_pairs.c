@@ -31,6 +31,9 @@ help(FILE *out)
           "                          written in a row still counts [default: undecided]\n"
           "      --skip-conflicts    leave conflicting pairs out and write the rest\n"
           "                          [default: write nothing and exit 1]\n"
+          "      --target-vectors=FILE  refuse a 'use WORD' whose WORD is not a word of\n"
+          "                          this target vector file [default: unchecked, with a\n"
+          "                          warning]\n"
           "  -h, --help              show this help and exit\n"
           "\n"
           "A pair already in the list is a duplicate: counted and skipped. A pair accepted in\n"
@@ -42,7 +45,7 @@ help(FILE *out)
           out);
 }
 
-enum { OPT_ONE_TARGET = 1, OPT_SKIP_CONFLICTS, OPT_ACCEPT_SAME };
+enum { OPT_ONE_TARGET = 1, OPT_SKIP_CONFLICTS, OPT_TARGET_VECTORS, OPT_ACCEPT_SAME };
 
 static void
 print_conflict(const char *msg, void *ctx)
@@ -70,10 +73,12 @@ run(int argc, char **argv)
         {"one-target", no_argument, NULL, OPT_ONE_TARGET},
         {"accept-same-spelling", no_argument, NULL, OPT_ACCEPT_SAME},
         {"skip-conflicts", no_argument, NULL, OPT_SKIP_CONFLICTS},
+        {"target-vectors", required_argument, NULL, OPT_TARGET_VECTORS},
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
-    const char *out = NULL;
+    const char *out = NULL, *tpath = NULL;
+    ist_store *tv = NULL;
     ist_merge_opts mo;
     ist_merge_summary sum;
     ist_error err;
@@ -87,6 +92,7 @@ run(int argc, char **argv)
         case OPT_ONE_TARGET: mo.one_target = true; break;
         case OPT_ACCEPT_SAME: mo.accept_same_spelling = true; break;
         case OPT_SKIP_CONFLICTS: mo.skip_conflicts = true; break;
+        case OPT_TARGET_VECTORS: tpath = optarg; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default: return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
         }
@@ -99,11 +105,17 @@ run(int argc, char **argv)
         return cli_usage_error(CMD, "-o: expected a file other than SEEDS");
     const char *seeds = argv[optind];
     if ((o = cli_check_files(CMD, (const char *const *)argv + optind, (size_t)(argc - optind),
-                             &out, 1)) != 0)
+                             &out, 1)) != 0 ||
+        (tpath && (o = cli_check_files(CMD, &tpath, 1, &out, 1)) != 0))
         return o;
+    if (tpath && ist_store_open(tpath, NULL, &tv, &err) != IST_OK)
+        return cli_report(CMD, &err);
+    mo.target_vectors = tv;
     const char *const *reviewed = (const char *const *)argv + optind + 1;
     size_t n = (size_t)(argc - optind - 1);
-    if (ist_propose_merge(seeds, reviewed, n, &mo, out, &sum, &err) != IST_OK) {
+    ist_status mr = ist_propose_merge(seeds, reviewed, n, &mo, out, &sum, &err);
+    ist_store_free(tv);
+    if (mr != IST_OK) {
         if (err.code != IST_ERR_INVALID || sum.conflicts == 0)
             return cli_report(CMD, &err);
         /* each conflict was printed as it was found */
@@ -113,6 +125,10 @@ run(int argc, char **argv)
         return CLI_EXIT_ERROR;
     }
     print_summary(&sum);
+    if (sum.unchecked > 0)
+        fprintf(stderr, "isthmus %s: warning: %zu 'use WORD' correction%s not checked against "
+                "a vocabulary; give --target-vectors=TGT to refuse words the vectors lack\n", CMD,
+                sum.unchecked, sum.unchecked == 1 ? " was" : "s were");
     cli_info("-> %s\n", out);
     return CLI_EXIT_OK;
 }

@@ -36,8 +36,10 @@ help(FILE *out)
           "      --passes=N          passes over the corpus; 'auto' = 16M / tokens, at most\n"
           "                          20, at least 20 below 4M tokens and 80M / tokens above\n"
           "                          (never under 5) [default: auto]\n"
-          "      --rate=X            start learning rate, decays linearly to 1e-4 of it\n"
-          "                          [default: 0.025]\n"
+          "      --rate=X            start learning rate, decays linearly to --rate-floor\n"
+          "                          times itself [default: 0.025]\n"
+          "      --rate-floor=F      the learning rate never falls below F times the start\n"
+          "                          rate [default: 1e-4]\n"
           "      --subsample=T       frequent-word threshold t: a word of frequency f is kept\n"
           "                          with probability min(1, sqrt(t/f)); 0 = off [default: 1e-4]\n"
           CLI_HELP_THREADS
@@ -177,6 +179,7 @@ parse(int argc, char **argv, train_args *a)
         {"numbers", required_argument, NULL, 'B'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'u'},
+        {"rate-floor", required_argument, NULL, 1011},
         {"method", required_argument, NULL, 1000},
         {"block-weights", required_argument, NULL, 1001},
         {"ppmi-dimension", required_argument, NULL, 1002},
@@ -255,6 +258,9 @@ parse(int argc, char **argv, train_args *a)
             break;
         case 'U': a->co.text.strict_utf8 = true; a->text_opts_given = true; break;
         case 'u': a->co.dedup_lines = true; a->text_opts_given = true; break;
+        case 1011:
+            ok = cli_parse_double(cmd, "--rate-floor", optarg, 1e-9, 1, &a->so.lr_floor);
+            break;
         case 1000: ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method); break;
         case 1001: ok = parse_weights(cmd, optarg, a->weights); break;
         case 1002:

@@ -12,6 +12,7 @@ extern const cli_command cmd_lookup;
 extern const cli_command cmd_prepare;
 extern const cli_command cmd_report;
 extern const cli_command cmd_train;
+extern const cli_command cmd_stack;
 extern const cli_command cmd_gate;
 extern const cli_command cmd_propose;
 extern const cli_command cmd_merge_pairs;

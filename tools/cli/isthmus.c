@@ -11,6 +11,7 @@ static const cli_command *const commands[] = {
     /* in the order of the job: text -> vectors -> map -> figures; then file tools */
     &cmd_prepare,
     &cmd_train,
+    &cmd_stack,
     &cmd_align,
     &cmd_score,
     &cmd_lookup,
