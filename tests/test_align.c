@@ -2,83 +2,12 @@
  * the synthetic rotation check. */
 #include "harness.h"
 #include "synth.h"
+#include "synth_space.h"
 
 #include <math.h>
 
 #include <isthmus/isthmus.h>
 #include <isthmus/testing.h>
-
-#include "json_int.h"
-
-/* ---- helpers ------------------------------------------------------------ */
-
-static ist_store *
-make_store(size_t rows, size_t dim, const char *prefix, const float *data)
-{
-    ist_store *s;
-    ist_error err;
-    char w[64];
-    assert_int_equal(ist_store_new(rows, dim, &s, &err), IST_OK);
-    for (size_t i = 0; i < rows; i++) {
-        memcpy(ist_store_row_mut(s, i), data + i * dim, dim * sizeof(float));
-        snprintf(w, sizeof w, "%s%zu", prefix, i);
-        assert_int_equal(ist_store_set_word(s, i, w, 1000000 - i, &err), IST_OK);
-    }
-    return s;
-}
-
-typedef struct synth {
-    size_t n, d;
-    double *rot;          /* source = target R^T + noise, so source R ~ target */
-    ist_store *src, *tgt;
-} synth;
-
-static void
-make_synth(synth *sy, size_t n, size_t d, double noise, uint64_t seed)
-{
-    float *t = malloc(n * d * sizeof *t), *x = malloc(n * d * sizeof *x);
-    uint64_t s = seed;
-    sy->n = n;
-    sy->d = d;
-    sy->rot = malloc(d * d * sizeof *sy->rot);
-    random_rotation(sy->rot, d, &s);
-    for (size_t i = 0; i < n * d; i++)
-        t[i] = (float)gauss(&s);
-    for (size_t i = 0; i < n; i++)
-        for (size_t a = 0; a < d; a++) {
-            double v = 0;
-            for (size_t b = 0; b < d; b++)
-                v += t[i * d + b] * sy->rot[a * d + b];   /* (t R^T)_a = sum_b t_b R_ab */
-            x[i * d + a] = (float)(v + noise * gauss(&s));
-        }
-    sy->src = make_store(n, d, "w", x);
-    sy->tgt = make_store(n, d, "w", t);
-    free(t);
-    free(x);
-}
-
-static void
-free_synth(synth *sy)
-{
-    ist_store_free(sy->src);
-    ist_store_free(sy->tgt);
-    free(sy->rot);
-}
-
-static ist_pairs *
-range_pairs(const synth *sy, size_t from, size_t to)
-{
-    ist_pairs *p;
-    ist_error err;
-    char w[32];
-    assert_int_equal(ist_pairs_new(&p, &err), IST_OK);
-    for (size_t i = from; i < to; i++) {
-        snprintf(w, sizeof w, "w%zu", i);
-        assert_int_equal(ist_pairs_add(p, w, w, &err), IST_OK);
-    }
-    assert_int_equal(ist_pairs_resolve(p, sy->src, sy->tgt, NULL, &err), IST_OK);
-    return p;
-}
 
 /* ---- synthetic rotation (closed-form fact: a rotated space is recovered) -- */
 
@@ -461,78 +390,6 @@ test_allocation_failures(void **state)
     harness_rmdir(dir);
 }
 
-/* The result file holds the figures and the identity of the test list. */
-static void
-test_result_json(void **state)
-{
-    (void)state;
-    synth sy;
-    ist_align_opts ao;
-    ist_eval_opts eo;
-    ist_map *map;
-    ist_matrix *xs, *zt;
-    ist_error err;
-    ist_result_run runs[1];
-    ist_result_info info;
-    char *dir = harness_tmpdir(), path[512];
-    ist_jv *root;
-
-    snprintf(path, sizeof path, "%s/r.json", dir);
-    make_synth(&sy, 800, 12, 0.01, 21);
-    ist_pairs *seeds = range_pairs(&sy, 0, 200), *test = range_pairs(&sy, 600, 700);
-    ist_align_opts_init(&ao);
-    ao.refine_rounds = 0;
-    assert_int_equal(ist_align_fit(sy.src, sy.tgt, seeds, &ao, &map, &err), IST_OK);
-    assert_int_equal(ist_map_apply(map, sy.src, sy.tgt, &xs, &zt, &err), IST_OK);
-    ist_eval_opts_init(&eo);
-    eo.band_edges[0] = 650;   /* ranks 1-650 and 651+: 50 test words in each */
-    eo.nedges = 1;
-    runs[0].label = "procrustes";
-    assert_int_equal(ist_eval_run(ist_matrix_cview(xs), ist_matrix_cview(zt), test, &eo,
-                                  &runs[0].m, &err), IST_OK);
-    assert_int_equal(runs[0].m.band[0].queries, 50);
-    assert_int_equal(runs[0].m.band[1].queries, 50);
-    memset(&info, 0, sizeof info);
-    info.command = "score";
-    info.source_fingerprint = ist_store_fingerprint(sy.src);
-    assert_int_equal(ist_pairs_checksum(test, &info.test_checksum, &err), IST_OK);
-    assert_int_equal(ist_pairs_sources_hash(test, &info.test_sources_hash, &err), IST_OK);
-    info.options_json = "{\"retrieval\":\"csls\"}";
-    assert_int_equal(ist_result_write(path, &info, runs, 1, &err), IST_OK);
-    assert_int_equal(ist_json_parse_file(path, &root, &err), IST_OK);
-    char hex[17];
-    snprintf(hex, sizeof hex, "%016llx", (unsigned long long)info.test_checksum);
-    assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(root, "test"), "checksum"), ""), hex);
-    snprintf(hex, sizeof hex, "%016llx", (unsigned long long)info.source_fingerprint);
-    assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(ist_jv_get(root, "inputs"), "source"),
-                                              "fingerprint"), ""), hex);
-    const ist_jv *run = ist_jv_at(ist_jv_get(root, "runs"), 0);
-    assert_string_equal(ist_jv_str(ist_jv_get(run, "retrieval"), ""), "csls");
-    assert_float_equal(ist_jv_num(ist_jv_get(ist_jv_get(run, "precision"), "p@1"), -1),
-                       runs[0].m.p[0], 1e-12);
-    assert_int_equal(ist_jv_len(ist_jv_get(run, "bands")), 2);
-    assert_int_equal(ist_jv_type(ist_jv_get(ist_jv_at(ist_jv_get(run, "bands"), 1), "rank_to")),
-                     IST_JNULL);
-    assert_string_equal(ist_jv_str(ist_jv_get(ist_jv_get(root, "options"), "retrieval"), ""),
-                        "csls");
-    const ist_jv *pq = ist_jv_get(run, "per_query");
-    assert_int_equal(ist_jv_len(pq), 100);
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "frequency_rank"), 0), 601);
-    /* rank: place of the first gold target in the top 10 (0: none), as in the run */
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "rank"), -1),
-                     runs[0].m.query_place[0] < 10 ? runs[0].m.query_place[0] + 1 : 0);
-    assert_int_equal(ist_jv_len(ist_jv_get(ist_jv_get(run, "ci"), "p@1")), 2);
-    ist_jv_free(root);
-    ist_metrics_release(&runs[0].m);
-    ist_matrix_free(xs);
-    ist_matrix_free(zt);
-    ist_map_free(map);
-    ist_pairs_free(seeds);
-    ist_pairs_free(test);
-    free_synth(&sy);
-    harness_rmdir(dir);
-}
-
 /* A stop request ends retrieval with IST_ERR_CANCELLED. */
 static void
 test_cancel(void **state)
@@ -601,7 +458,6 @@ main(void)
         cmocka_unit_test(test_map_file_round_trip),
         cmocka_unit_test(test_procrustes_input_checks),
         cmocka_unit_test(test_allocation_failures),
-        cmocka_unit_test(test_result_json),
         cmocka_unit_test(test_cancel),
         cmocka_unit_test(test_search_opts),
     };

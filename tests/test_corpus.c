@@ -459,7 +459,7 @@ read_all(const char *path, size_t *n)
 }
 
 /* Spilling the token stream to a temporary file writes the same prepared file, byte for byte,
- * as holding it in memory: two inputs (plain and gzip), repeated lines dropped, words pruned
+ * as holding it in memory, also when 3 threads segment the text (second variant): two inputs (plain and gzip), repeated lines dropped, words pruned
  * by count and by a vocabulary limit, and a stream of over half a million ids, so that it
  * crosses the boundaries of the spill's 256 Ki-id chunks. The temporary file leaves no trace. */
 static void
@@ -513,6 +513,7 @@ spilled_stream_same_file(void **state)
         print_message("# %zu ids in memory\n", n);
         assert_true(n > 2 * 262144);
         o.spill_dir = spill;
+        o.threads = variant == 1 ? 3 : 1;    /* segmenting threads: same bytes again */
         assert_int_equal(ist_corpus_build(paths, 2, &o, &d, &err), IST_OK);
         assert_null(ist_corpus_ids(d, &n));
         assert_int_equal(n, 0);
@@ -545,6 +546,81 @@ spilled_stream_same_file(void **state)
     harness_rmdir(dir);
 }
 
+/* Segmenting on several threads gives the same corpus as one thread: same stream, same
+ * vocabulary and counts, same statistics; an invalid byte in strict mode is reported at the
+ * same file, line and offset, and cancelling works. */
+static void
+threads_same_corpus(void **state)
+{
+    char *dir = harness_tmpdir(), *p = harness_path(dir, "t.txt");
+    uint64_t rng = 9;
+    size_t cap = (size_t)3 << 20, len = 0;
+    char *text = malloc(cap);
+    ist_error err;
+
+    (void)state;
+    for (int line = 0; line < 40000; line++) {
+        int words = (int)(harness_rand(&rng) % 9);
+        for (int w = 0; w < words; w++)
+            len += (size_t)snprintf(text + len, cap - len, "%s%s%u", w ? " " : "",
+                                    w % 3 ? "Caf\xc3\xa9" : "X", (unsigned)(harness_rand(&rng) % 700));
+        if (line == 31234)                 /* one invalid byte, deep into the file */
+            text[len++] = (char)0xff;
+        text[len++] = '\n';
+    }
+    harness_write(p, text, len);
+    free(text);
+    ist_corpus_opts o;
+    ist_corpus_opts_init(&o);
+    assert_int_equal(o.threads, 1);
+    o.min_count = 2;
+    o.dedup_lines = true;
+    ist_corpus *one = build_one(p, &o);
+    size_t n1, nk;
+    const uint32_t *a = ist_corpus_ids(one, &n1);
+    ist_corpus_stats s1, sk;
+    ist_corpus_stats_get(one, &s1);
+    assert_int_equal(s1.replaced_utf8, 1);
+    for (size_t t = 2; t <= 4; t++) {
+        o.threads = t;
+        ist_corpus *k = build_one(p, &o);
+        const uint32_t *b = ist_corpus_ids(k, &nk);
+        assert_int_equal(n1, nk);
+        assert_memory_equal(a, b, n1 * sizeof *a);
+        ist_corpus_stats_get(k, &sk);
+        assert_memory_equal(&s1, &sk, sizeof s1);
+        const ist_vocab *va = ist_corpus_vocab(one), *vb = ist_corpus_vocab(k);
+        assert_int_equal(ist_vocab_size(va), ist_vocab_size(vb));
+        for (uint32_t i = 0; i < ist_vocab_size(va); i++) {
+            assert_string_equal(ist_vocab_word(va, i), ist_vocab_word(vb, i));
+            assert_int_equal(ist_vocab_count(va, i), ist_vocab_count(vb, i));
+        }
+        ist_corpus_source x, y;
+        assert_int_equal(ist_corpus_source_get(one, 0, &x, NULL), IST_OK);
+        assert_int_equal(ist_corpus_source_get(k, 0, &y, NULL), IST_OK);
+        assert_int_equal(x.lines, y.lines);
+        assert_int_equal(x.replaced_utf8, y.replaced_utf8);
+        ist_corpus_free(k);
+    }
+    /* strict UTF-8: the same message on one thread and on three */
+    char m1[1024], m3[1024];
+    const char *paths[] = {p};
+    ist_corpus *c = NULL;
+    o.text.strict_utf8 = true;
+    o.threads = 1;
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_ERR_FORMAT);
+    ist_error_format(&err, m1, sizeof m1);
+    o.threads = 3;
+    assert_int_equal(ist_corpus_build(paths, 1, &o, &c, &err), IST_ERR_FORMAT);
+    assert_null(c);
+    ist_error_format(&err, m3, sizeof m3);
+    assert_string_equal(m1, m3);
+    assert_non_null(strstr(m1, ":31235"));
+    ist_corpus_free(one);
+    free(p);
+    harness_rmdir(dir);
+}
+
 #define CORPUS_TESTS                                   \
     cmocka_unit_test(counts_order_and_stream),         \
     cmocka_unit_test(dedup_drops_repeats),             \
@@ -553,6 +629,7 @@ spilled_stream_same_file(void **state)
     cmocka_unit_test(long_line_and_missing_file),      \
     cmocka_unit_test(save_open_round_trip),            \
     cmocka_unit_test(spilled_stream_same_file),        \
+    cmocka_unit_test(threads_same_corpus),             \
     cmocka_unit_test(damaged_file_rejected),           \
     cmocka_unit_test(progress_and_cancel)
 

@@ -217,11 +217,11 @@ worst_misses_and_histograms(void **state)
 
     /* the result JSON carries them under "diagnostics" */
     char *dir = harness_tmpdir(), *path = harness_path(dir, "r.json");
-    ist_result_info info;
-    memset(&info, 0, sizeof info);
-    info.command = "score";
-    info.diagnostics = dg;
-    assert_int_equal(ist_result_write(path, &info, NULL, 0, NULL), IST_OK);
+    ist_result res;
+    memset(&res, 0, sizeof res);
+    res.command = (char *)"score";
+    res.diagnostics = dg;
+    assert_int_equal(ist_result_write(&res, path, NULL), IST_OK);
     ist_jv *root = NULL;
     assert_int_equal(ist_json_parse_file(path, &root, NULL), IST_OK);
     const ist_jv *dj = ist_jv_get(root, "diagnostics");

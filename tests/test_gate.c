@@ -78,7 +78,7 @@ test_thresholds_errors(void **state)
         const char *msg;
     } cases[] = {
         {"# only a comment\n\n", 0, "expected at least one rule, found none"},
-        {"min coverage 0.8\nminimum coverage 0.8\n", 2, "expected 'min' or 'max'*found 'minimum'"},
+        {"min coverage 0.8\nminimum coverage 0.8\n", 2, "expected 'min', 'max' or 'refuse'*found 'minimum'"},
         {"min precison@1 csls 0.5\n", 1, "expected precision@1, precision@5, precision@10, "
                                          "coverage or drop, found 'precison@1'"},
         {"min precision@2 csls 0.5\n", 1, "*found 'precision@2'"},
@@ -280,54 +280,6 @@ test_metrics_ci(void **state)
     assert_true(ci.band_hi[1][0] - ci.band_lo[1][0] > ci.hi[0] - ci.lo[0]);  /* fewer queries */
 }
 
-static void
-test_result_ci_json(void **state)
-{
-    (void)state;
-    size_t rows[60];
-    uint8_t places[60];
-    ist_result_run run;
-    ist_result_info info;
-    ist_metrics_ci ci;
-    char *text;
-    ist_jv *root;
-    ist_error err;
-
-    memset(&run, 0, sizeof run);
-    memset(&info, 0, sizeof info);
-    run.label = "refined";
-    run.m.method = IST_RETRIEVAL_CSLS;
-    run.m.queries = run.m.sources = 60;
-    run.m.nbands = 2;
-    run.m.band[0] = (ist_band){.lo = 1, .hi = 30, .queries = 30};
-    run.m.band[1] = (ist_band){.lo = 31, .hi = 0, .queries = 30};
-    for (size_t i = 0; i < 60; i++) {
-        rows[i] = i;
-        places[i] = i % 4 == 0 ? IST_CI_MISS : (uint8_t)(i % 7);
-    }
-    run.m.query_row = rows;
-    run.m.query_place = places;
-    assert_int_equal(ist_result_render(&info, &run, 1, NULL, &text, &err), IST_OK);
-    assert_int_equal(ist_json_parse(text, strlen(text), "r", &root, &err), IST_OK);
-    assert_int_equal(ist_metrics_ci_compute(&run.m, NULL, &ci, &err), IST_OK);
-    const ist_jv *r = ist_jv_at(ist_jv_get(root, "runs"), 0);
-    const ist_jv *c = ist_jv_get(r, "ci");
-    /* the JSON holds the same intervals the tables print */
-    assert_true(ist_jv_num(ist_jv_at(ist_jv_get(c, "p@5"), 0), -1) == ci.lo[1]);
-    assert_true(ist_jv_num(ist_jv_at(ist_jv_get(c, "p@5"), 1), -1) == ci.hi[1]);
-    assert_int_equal((int)ist_jv_num(ist_jv_get(c, "resamples"), 0), 1000);
-    const ist_jv *bc = ist_jv_get(ist_jv_at(ist_jv_get(r, "bands"), 1), "ci");
-    assert_true(ist_jv_num(ist_jv_at(ist_jv_get(bc, "p@1"), 0), -1) == ci.band_lo[1][0]);
-    const ist_jv *pq = ist_jv_get(r, "per_query");
-    assert_int_equal(ist_jv_len(pq), 60);
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 0), "rank"), -1), 0);   /* miss */
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 5), "rank"), -1), 6);   /* place 5 */
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 5), "band"), -1), 0);
-    assert_int_equal((int)ist_jv_num(ist_jv_get(ist_jv_at(pq, 45), "band"), -1), 1);
-    ist_jv_free(root);
-    ist_result_free_text(text);
-}
-
 /* A synthetic result: one run (refined csls) with n queries w0..w{n-1}, the first hits
  * at place 1, the rest misses; checksum names the test list. */
 static char *
@@ -341,13 +293,14 @@ synthetic_text(size_t n, size_t hits, const char *checksum, bool per_query)
     ist_jw_obj_begin(&w, NULL);
     ist_jw_str(&w, "format", "isthmus result");
     ist_jw_obj_begin(&w, "test");
-    ist_jw_str(&w, "checksum", checksum);
-    ist_jw_str(&w, "source_words_hash", "00000000000000aa");
+    ist_jw_str(&w, "list_checksum", checksum);
     ist_jw_obj_end(&w);
     ist_jw_arr_begin(&w, "runs");
     ist_jw_obj_begin(&w, NULL);
     ist_jw_str(&w, "label", "refined");
     ist_jw_str(&w, "retrieval", "csls");
+    ist_jw_uint(&w, "sources", n + n / 9);
+    ist_jw_uint(&w, "queries", n);
     ist_jw_num(&w, "coverage", 0.9);
     ist_jw_obj_begin(&w, "precision");
     ist_jw_num(&w, "p@1", (double)hits / (double)n);
@@ -358,8 +311,11 @@ synthetic_text(size_t n, size_t hits, const char *checksum, bool per_query)
     ist_jw_obj_begin(&w, NULL);
     ist_jw_uint(&w, "rank_from", 1);
     ist_jw_null(&w, "rank_to");
+    ist_jw_uint(&w, "queries", n);
     ist_jw_obj_begin(&w, "precision");
     ist_jw_num(&w, "p@1", (double)hits / (double)n);
+    ist_jw_num(&w, "p@5", (double)hits / (double)n);
+    ist_jw_num(&w, "p@10", (double)hits / (double)n);
     ist_jw_obj_end(&w);
     ist_jw_obj_end(&w);
     ist_jw_arr_end(&w);
@@ -383,19 +339,20 @@ synthetic_text(size_t n, size_t hits, const char *checksum, bool per_query)
     return text;
 }
 
-static ist_gate_result *
+static ist_result *
 synthetic(size_t n, size_t hits, const char *checksum, bool per_query)
 {
     char *text = synthetic_text(n, hits, checksum, per_query);
-    ist_gate_result *r;
+    ist_result *r;
     ist_error err;
-    assert_int_equal(ist_gate_result_parse(text, strlen(text), "new.json", &r, &err), IST_OK);
+    if (ist_result_parse(text, strlen(text), "new.json", &r, &err) != IST_OK)
+        fail_msg("%s", err.msg);
     free(text);
     return r;
 }
 
 static ist_verdict *
-evaluate(const char *rules, const ist_gate_result *res, const ist_gate_result *base,
+evaluate(const char *rules, const ist_result *res, const ist_result *base,
          ist_status want, const char *msg_part)
 {
     ist_thresholds *t = parse_ok(rules);
@@ -415,11 +372,11 @@ static void
 test_verdict_logic(void **state)
 {
     (void)state;
-    ist_gate_result *res = synthetic(400, 300, "0000000000000001", true);    /* P@1 0.75 */
-    ist_gate_result *base = synthetic(400, 310, "0000000000000001", true);   /* 0.775 */
-    ist_gate_result *far = synthetic(400, 360, "0000000000000001", true);    /* 0.90 */
-    ist_gate_result *other = synthetic(400, 300, "0000000000000002", true);
-    ist_gate_result *bare = synthetic(400, 300, "0000000000000001", false);
+    ist_result *res = synthetic(400, 300, "0000000000000001", true);    /* P@1 0.75 */
+    ist_result *base = synthetic(400, 310, "0000000000000001", true);   /* 0.775 */
+    ist_result *far = synthetic(400, 360, "0000000000000001", true);    /* 0.90 */
+    ist_result *other = synthetic(400, 300, "0000000000000002", true);
+    ist_result *bare = synthetic(400, 300, "0000000000000001", false);
     static const char rules[] = "min precision@1 csls refined 0.75\n"    /* equal: pass */
                                 "min precision@1 csls 0.76\n"            /* fail */
                                 "max precision@5 csls 0.70\n"            /* 0.75 > 0.70: fail */
@@ -478,11 +435,11 @@ test_verdict_logic(void **state)
     evaluate("min precision@1 cosine 0.5\n", res, NULL, IST_ERR_INVALID, "no run");
     evaluate("min precision@1 csls band 1-5000 0.5\n", res, NULL, IST_ERR_INVALID,
              "no band 1-5000");
-    ist_gate_result_free(res);
-    ist_gate_result_free(base);
-    ist_gate_result_free(far);
-    ist_gate_result_free(other);
-    ist_gate_result_free(bare);
+    ist_result_free(res);
+    ist_result_free(base);
+    ist_result_free(far);
+    ist_result_free(other);
+    ist_result_free(bare);
 }
 
 static void
@@ -490,7 +447,7 @@ test_verdict_json(void **state)
 {
     (void)state;
     char *dir = harness_tmpdir(), *path = harness_path(dir, "verdict.json");
-    ist_gate_result *res = synthetic(100, 80, "0000000000000001", true);
+    ist_result *res = synthetic(100, 80, "0000000000000001", true);
     ist_verdict *v = evaluate("min precision@1 csls 0.9\nmax drop precision@1 csls 0.1\n", res,
                               NULL, IST_OK, NULL);
     ist_jv *root;
@@ -512,10 +469,10 @@ test_verdict_json(void **state)
     assert_int_equal(ist_jv_type(ist_jv_get(r1, "figure")), IST_JNULL);
     ist_jv_free(root);
     ist_verdict_free(v);
-    ist_gate_result_free(res);
+    ist_result_free(res);
     /* not a result */
-    ist_gate_result *r = NULL;
-    assert_int_equal(ist_gate_result_parse("{\"format\":\"x\"}", 14, "x.json", &r, &err),
+    ist_result *r = NULL;
+    assert_int_equal(ist_result_parse("{\"format\":\"x\"}", 14, "x.json", &r, &err),
                      IST_ERR_FORMAT);
     assert_null(r);
     free(path);
@@ -532,46 +489,25 @@ gate_once(void)
     static const char rules[] = "min precision@1 csls 0.5\nmin coverage 0.5\n"
                                 "max drop precision@1 csls 0.03\n";
     ist_thresholds *t = NULL;
-    ist_gate_result *a = NULL, *b = NULL;
+    ist_result *a = NULL, *b = NULL;
     ist_verdict *v = NULL;
-    /* a result rendered from figures, through the "ci" and "per_query" writers */
-    static size_t rows[40];
-    static uint8_t places[40];
-    ist_result_run run;
-    ist_result_info info;
-    char *text = NULL;
-    memset(&run, 0, sizeof run);
-    memset(&info, 0, sizeof info);
-    run.label = "refined";
-    run.m.method = IST_RETRIEVAL_CSLS;
-    run.m.queries = run.m.sources = 40;
-    run.m.nbands = 2;
-    run.m.band[0] = (ist_band){.lo = 1, .hi = 20, .queries = 20};
-    run.m.band[1] = (ist_band){.lo = 21, .hi = 0, .queries = 20};
-    for (size_t i = 0; i < 40; i++) {
-        rows[i] = i;
-        places[i] = i % 3 ? 0 : IST_CI_MISS;
-    }
-    run.m.query_row = rows;
-    run.m.query_place = places;
     ist_gate_opts go;
     ist_gate_opts_init(&go);
     go.ci.resamples = 50;       /* every failure point reruns the whole path: keep it short */
-    ist_status rc = ist_result_render(&info, &run, 1, &go.ci, &text, NULL);
-    ist_result_free_text(text);
+    ist_status rc = IST_OK;
     if (rc == IST_OK)
         rc = ist_thresholds_parse(rules, sizeof rules - 1, "r", &t, NULL);
     if (rc == IST_OK)
-        rc = ist_gate_result_parse(fault_new, strlen(fault_new), "new", &a, NULL);
+        rc = ist_result_parse(fault_new, strlen(fault_new), "new", &a, NULL);
     if (rc == IST_OK)
-        rc = ist_gate_result_parse(fault_old, strlen(fault_old), "old", &b, NULL);
+        rc = ist_result_parse(fault_old, strlen(fault_old), "old", &b, NULL);
     if (rc == IST_OK)
         rc = ist_gate_evaluate(t, a, b, &go, &v, NULL);
     if (rc == IST_OK)
         rc = ist_verdict_write(v, fault_out, NULL);
     ist_verdict_free(v);
-    ist_gate_result_free(a);
-    ist_gate_result_free(b);
+    ist_result_free(a);
+    ist_result_free(b);
     ist_thresholds_free(t);
     return rc;
 }
@@ -609,7 +545,7 @@ test_every_failed_allocation(void **state)
     cmocka_unit_test(test_thresholds_parse), cmocka_unit_test(test_thresholds_errors),   \
         cmocka_unit_test(test_thresholds_file), cmocka_unit_test(test_bootstrap_properties), \
         cmocka_unit_test(test_bootstrap_paired), cmocka_unit_test(test_metrics_ci),       \
-        cmocka_unit_test(test_result_ci_json), cmocka_unit_test(test_verdict_logic),      \
+        cmocka_unit_test(test_verdict_logic),      \
         cmocka_unit_test(test_verdict_json)
 
 int

@@ -9,6 +9,7 @@
 #include <isthmus/matrix.h>
 #include <isthmus/cancel.h>
 #include <isthmus/metrics.h>
+#include <isthmus/result.h>
 #include <isthmus/corpus.h>
 #include <isthmus/pairs.h>
 #include <isthmus/store.h>
@@ -320,10 +321,10 @@ write_kind(const objects *o, int kind, const char *path, ist_error *e)
     case W_MAP:
         return ist_map_save(o->map, path, e);
     default: {
-        ist_result_info info;
-        memset(&info, 0, sizeof info);
-        info.command = "score";
-        return ist_result_write(path, &info, NULL, 0, e);
+        ist_result res;
+        memset(&res, 0, sizeof res);
+        res.command = (char *)"score";
+        return ist_result_write(&res, path, e);
     }
     }
 }

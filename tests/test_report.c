@@ -29,16 +29,28 @@ put(const char *path, const char *text)
     harness_write(path, text, strlen(text));
 }
 
+/* Load the result at in and write its report, as the command does. */
+static ist_status
+report_file(const char *in, const char *v, const char *out, ist_error *err)
+{
+    ist_result *r = NULL;
+    ist_status rc = ist_result_load(in, &r, err);
+    if (rc == IST_OK)
+        rc = ist_report_write(r, v, out, err);
+    ist_result_free(r);
+    return rc;
+}
+
 static const char *const nasty =
     "{\"format\": \"isthmus result\", \"version\": 1, \"command\": \"score\",\n"
-    " \"inputs\": {\"source\": {\"path\": \"<en>.isv\", \"fingerprint\": \"00ff\"}},\n"
+    " \"inputs\": {\"source\": {\"path\": \"<en>.isv\", \"fingerprint\": \"00000000000000ff\"}},\n"
     " \"test\": {\"path\": \"a&b.pairs\"},\n"
-    " \"runs\": [{\"label\": \"refined\", \"retrieval\": \"csls\", \"queries\": 4,\n"
+    " \"runs\": [{\"label\": \"refined\", \"retrieval\": \"csls\", \"sources\": 4, \"queries\": 4,\n"
     "   \"coverage\": 1, \"precision\": {\"p@1\": 0.5, \"p@5\": 0.75, \"p@10\": 1},\n"
-    "   \"ci\": {\"p@1\": [0.25, 0.75]},\n"
+    "   \"ci\": {\"p@1\": [0.25, 0.75], \"p@5\": [0.5, 1], \"p@10\": [1, 1]},\n"
     "   \"bands\": [{\"rank_from\": 1, \"rank_to\": null, \"queries\": 4,\n"
     "     \"precision\": {\"p@1\": 0.5, \"p@5\": 0.75, \"p@10\": 1},\n"
-    "     \"ci\": {\"p@1\": [0.25, 0.75]}}]}],\n"
+    "     \"ci\": {\"p@1\": [0.25, 0.75], \"p@5\": [0.5, 1], \"p@10\": [1, 1]}}]}],\n"
     " \"diagnostics\": {\"worst_misses\": [{\"source\": \"<script>x</script>\",\n"
     "   \"gold\": [\"\\\"q\\\" & 'a'\"], \"ranked\": \"b<c\", \"score\": 0.5,\n"
     "   \"gold_rank\": 0}]}}\n";
@@ -50,7 +62,7 @@ escapes_input_text(void **state)
     char *dir = harness_tmpdir(), *in = harness_path(dir, "r.json"),
          *out = harness_path(dir, "r.html");
     put(in, nasty);
-    assert_int_equal(ist_report_write(in, NULL, out, NULL), IST_OK);
+    assert_int_equal(report_file(in, NULL, out, NULL), IST_OK);
     char *h = slurp(out);
     assert_null(strstr(h, "<script"));                      /* no script at all */
     assert_non_null(strstr(h, "&lt;script&gt;x&lt;/script&gt;"));
@@ -77,10 +89,12 @@ shows_a_verdict_and_tolerates_a_bare_result(void **state)
     char *dir = harness_tmpdir(), *in = harness_path(dir, "r.json"),
          *v = harness_path(dir, "v.json"), *out = harness_path(dir, "r.html");
     put(in, "{\"format\": \"isthmus result\"}");
-    put(v, "{\"overall\": \"fail\", \"rules\": [{\"rule\": \"min p@1 <csls>\", \"figure\": 0.5,"
+    put(v, "{\"format\": \"isthmus verdict\", \"version\": 1, \"verdict\": \"fail\", "
+           "\"rules_passed\": 1, \"rules_failed\": 1, \"rules_skipped\": 0, "
+           "\"rules\": [{\"rule\": \"min p@1 <csls>\", \"figure\": 0.5,"
            " \"bound\": 0.6, \"outcome\": \"fail\"}, {\"rule\": \"coverage\", \"figure\": 1,"
            " \"bound\": 0.9, \"outcome\": \"pass\"}]}");
-    assert_int_equal(ist_report_write(in, v, out, NULL), IST_OK);
+    assert_int_equal(report_file(in, v, out, NULL), IST_OK);
     char *h = slurp(out);
     assert_non_null(strstr(h, "Gate verdict"));
     assert_non_null(strstr(h, "min p@1 &lt;csls&gt;"));
@@ -88,7 +102,7 @@ shows_a_verdict_and_tolerates_a_bare_result(void **state)
     assert_non_null(strstr(h, "badge pass\">\xe2\x9c\x93 pass"));
     assert_non_null(strstr(h, "no diagnostics"));
     free(h);
-    assert_int_equal(ist_report_write(in, NULL, out, NULL), IST_OK);
+    assert_int_equal(report_file(in, NULL, out, NULL), IST_OK);
     h = slurp(out);
     assert_non_null(strstr(h, "No verdict file was given"));
     free(h);
@@ -107,15 +121,15 @@ bad_input_names_file_and_line(void **state)
     ist_error err;
 
     put(in, "{\"format\": \"isthmus result\",\n \"runs\": [1,\n}");
-    assert_int_equal(ist_report_write(in, NULL, out, &err), IST_ERR_FORMAT);
+    assert_int_equal(report_file(in, NULL, out, &err), IST_ERR_FORMAT);
     assert_int_equal(err.line, 3);
     assert_non_null(strstr(err.file, "r.json"));
     put(in, "{\"format\": \"something else\"}");
-    assert_int_equal(ist_report_write(in, NULL, out, &err), IST_ERR_FORMAT);
+    assert_int_equal(report_file(in, NULL, out, &err), IST_ERR_FORMAT);
     assert_non_null(strstr(err.msg, "isthmus result"));
-    assert_int_equal(ist_report_write(miss, NULL, out, &err), IST_ERR_IO);
+    assert_int_equal(report_file(miss, NULL, out, &err), IST_ERR_IO);
     put(in, "{\"format\": \"isthmus result\"}");
-    assert_int_equal(ist_report_write(in, miss, out, &err), IST_ERR_IO);
+    assert_int_equal(report_file(in, miss, out, &err), IST_ERR_IO);
     assert_int_equal(harness_count_entries(dir), 1);        /* only r.json: no output left */
     free(in);
     free(out);
@@ -132,11 +146,14 @@ report_survives_every_failed_allocation(void **state)
          *v = harness_path(dir, "v.json"), *out = harness_path(dir, "r.html");
     int k;
     put(in, nasty);
-    put(v, "{\"overall\": \"pass\", \"rules\": [{\"rule\": \"x\", \"figure\": 1, "
+    put(v, "{\"format\": \"isthmus verdict\", \"version\": 1, \"verdict\": \"pass\", "
+           "\"rules_passed\": 1, \"rules_failed\": 0, \"rules_skipped\": 0, "
+           "\"vectors\": {\"source\": \"00000000000000ff\"}, "
+           "\"rules\": [{\"rule\": \"x\", \"figure\": 1, "
            "\"bound\": 0, \"outcome\": \"pass\"}]}");
     for (k = 0; k < 100000; k++) {
         ist_testing_fail_alloc_after(k);
-        ist_status rc = ist_report_write(in, v, out, NULL);
+        ist_status rc = report_file(in, v, out, NULL);
         ist_testing_fail_alloc_after(-1);
         if (rc == IST_OK)
             break;

@@ -36,6 +36,9 @@ typedef struct ist_corpus_opts {
      * corpus is saved, so memory holds only the vocabulary (ist_corpus_ids then gives no
      * stream; ist_corpus_save writes the same bytes as from memory). */
     const char *spill_dir;
+    /* Threads that normalise and segment [default 1: all on the calling thread]; the reading
+     * thread keeps the counting in line order, so the result is the same for every value. */
+    size_t threads;
 } ist_corpus_opts;
 
 /** Fill o with the defaults above. */

@@ -1,14 +1,17 @@
 /* isthmus/gate.h - release gate: a thresholds file of rules, checked against a result
  * (and optionally a baseline result) to give a verdict per rule and overall.
  *
- * Owns the parsed rules (ist_thresholds), a loaded result (ist_gate_result) and the
- * verdict (ist_verdict). The thresholds file format is in docs/formats.md, section
+ * Owns the parsed rules (ist_thresholds) and the verdict (ist_verdict); the results it
+ * judges are typed records (isthmus/result.h). The thresholds file format is in docs/formats.md, section
  * "Thresholds file"; the verdict JSON in section "Verdict JSON". A drop rule compares
  * precision@k of the new result with a baseline scored on the same test list by a paired
  * bootstrap over the test words (Koehn 2004, "Statistical significance tests for machine
  * translation evaluation"): the rule fails only when the whole 95% interval of the change
  * lies below -max_drop. Intervals of single figures are percentile bootstrap intervals
- * (Efron & Tibshirani 1993), see metrics.h. */
+ * (Efron & Tibshirani 1993), see bootstrap.h. A verdict that passes may carry conditions:
+ * leakage (test source words that are also seeds, scored with the overlap allowed) and
+ * rules that could not be checked; the rules 'refuse leakage' and 'refuse unchecked' make
+ * either a failure. */
 #ifndef ISTHMUS_GATE_H
 #define ISTHMUS_GATE_H
 
@@ -16,6 +19,7 @@
 #include <stddef.h>
 #include <isthmus/error.h>
 #include <isthmus/metrics.h>
+#include <isthmus/result.h>
 
 #ifdef __cplusplus
 extern "C" {
@@ -26,7 +30,9 @@ typedef enum ist_gate_bound { IST_GATE_MIN, IST_GATE_MAX } ist_gate_bound;
 typedef enum ist_gate_figure {
     IST_GATE_PRECISION,          /* precision@k of one run, overall or in one band */
     IST_GATE_COVERAGE,           /* covered / distinct test source words */
-    IST_GATE_DROP                /* change of precision@k (new - baseline), paired bootstrap */
+    IST_GATE_DROP,               /* change of precision@k (new - baseline), paired bootstrap */
+    IST_GATE_LEAKAGE,            /* 'refuse leakage': fails when test words are also seeds */
+    IST_GATE_UNCHECKED           /* 'refuse unchecked': fails when another rule was skipped */
 } ist_gate_figure;
 
 typedef enum ist_gate_outcome { IST_GATE_PASS, IST_GATE_FAIL, IST_GATE_SKIP } ist_gate_outcome;
@@ -61,17 +67,6 @@ IST_API size_t ist_thresholds_count(const ist_thresholds *t);
 /** Rule i; borrowed until ist_thresholds_free(). */
 IST_API const ist_gate_rule *ist_thresholds_rule(const ist_thresholds *t, size_t i);
 
-typedef struct ist_gate_result ist_gate_result;
-
-/** Load a result JSON (docs/formats.md "Result JSON"). IST_ERR_FORMAT when it is not
- *  one. Release with ist_gate_result_free(). */
-IST_API ist_status ist_gate_result_load(const char *path, ist_gate_result **out,
-                                        ist_error *err);
-/** The same from text (as written by ist_result_render()); name is used in messages. */
-IST_API ist_status ist_gate_result_parse(const char *text, size_t len, const char *name,
-                                         ist_gate_result **out, ist_error *err);
-IST_API void ist_gate_result_free(ist_gate_result *r);               /* NULL: no-op */
-
 typedef struct ist_gate_opts {
     ist_ci_opts ci;              /* paired bootstrap, and intervals a result lacks */
 } ist_gate_opts;
@@ -93,12 +88,13 @@ typedef struct ist_gate_check {
 typedef struct ist_verdict ist_verdict;
 
 /** Check every rule against result (and baseline, may be NULL: drop rules are then
- *  skipped). IST_ERR_INVALID when a rule names a run or band the result does not hold,
- *  when the baseline was scored on a different test list (test.checksum or
- *  test.source_words_hash differ or are missing), or when a drop rule meets a run
- *  without per_query outcomes. Release *out with ist_verdict_free(). */
-IST_API ist_status ist_gate_evaluate(const ist_thresholds *rules, const ist_gate_result *result,
-                                     const ist_gate_result *baseline, const ist_gate_opts *opts,
+ *  skipped). A precision rule on a band that holds no test word is skipped too.
+ *  IST_ERR_INVALID when a rule names a run or band the result does not hold, when the
+ *  baseline was scored on a different test list (the list checksums differ, or one of
+ *  the two has none), or when a drop rule meets a run without per-query outcomes.
+ *  Release *out with ist_verdict_free(). */
+IST_API ist_status ist_gate_evaluate(const ist_thresholds *rules, const ist_result *result,
+                                     const ist_result *baseline, const ist_gate_opts *opts,
                                      ist_verdict **out, ist_error *err);
 IST_API void ist_verdict_free(ist_verdict *v);                       /* NULL: no-op */
 
@@ -107,6 +103,19 @@ IST_API size_t ist_verdict_count(const ist_verdict *v);
 IST_API const ist_gate_check *ist_verdict_check(const ist_verdict *v, size_t i);
 /** True when no rule failed (skipped rules do not fail). */
 IST_API bool ist_verdict_passed(const ist_verdict *v);
+/** The conditions of a verdict, whether it passed or not: "leakage: N test source words
+ *  are also seed source words" and "N rules not checked"; i from 0, NULL past the last.
+ *  Borrowed until ist_verdict_free(). */
+IST_API const char *ist_verdict_condition(const ist_verdict *v, size_t i);
+
+/** Load a verdict JSON written by ist_verdict_write() and check that it belongs to
+ *  result: its schema (format, version, verdict "pass" or "fail", a list of rules each
+ *  with an outcome pass, fail or skip, counts that agree with the rules) and its identity
+ *  (the test list checksum and the fingerprints of both vector files equal the result's).
+ *  IST_ERR_FORMAT naming the file and line otherwise. Nothing is kept: the report reads
+ *  the file again. */
+IST_API ist_status ist_verdict_check_file(const char *path, const ist_result *result,
+                                          ist_error *err);
 IST_API size_t ist_verdict_tally(const ist_verdict *v, ist_gate_outcome outcome);
 
 /** One line of text for check i (no newline): outcome, file:line, rule, figure with

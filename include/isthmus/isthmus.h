@@ -13,6 +13,8 @@
 #include <isthmus/pairs.h>
 #include <isthmus/align.h>
 #include <isthmus/metrics.h>
+#include <isthmus/bootstrap.h>
+#include <isthmus/result.h>
 #include <isthmus/gate.h>
 #include <isthmus/propose.h>
 #include <isthmus/text.h>
@@ -22,6 +24,7 @@
 #include <isthmus/sgns.h>
 #include <isthmus/ppmi.h>
 #include <isthmus/combine.h>
+#include <isthmus/cluster.h>
 
 #ifdef __cplusplus
 extern "C" {

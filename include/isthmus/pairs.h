@@ -31,6 +31,20 @@ typedef struct ist_pairs ist_pairs;   /* opaque, one owner */
  *  release with ist_pairs_free(). */
 IST_API ist_status ist_pairs_read(const char *path, ist_pairs **out, ist_error *err);
 
+/** The file a list was read from (borrowed), or NULL for a list made in memory or split
+ *  from another. */
+IST_API const char *ist_pairs_path(const ist_pairs *p);
+/** How to name the list to people (borrowed): its path, "held out from PATH" or "kept
+ *  as seeds from PATH" for the parts of ist_pairs_split(); NULL for a list made in
+ *  memory. */
+IST_API const char *ist_pairs_label(const ist_pairs *p);
+/** The checksum of the list as it came in: for a list read from a file, of every pair
+ *  as read, before any vocabulary was consulted (ist_pairs_checksum() of the unresolved
+ *  list); for a part of ist_pairs_split(), of the pairs it received, so the part saved
+ *  with ist_pairs_save() and read back has the same one. false (and *out 0) for a list
+ *  made in memory or changed by ist_pairs_add() since. */
+IST_API bool ist_pairs_list_checksum(const ist_pairs *p, uint64_t *out);
+
 /** An empty list to fill with ist_pairs_add(). */
 IST_API ist_status ist_pairs_new(ist_pairs **out, ist_error *err);
 /** Append a pair (words copied, not normalised). */

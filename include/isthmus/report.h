@@ -9,17 +9,18 @@
 #define ISTHMUS_REPORT_H
 
 #include <isthmus/error.h>
+#include <isthmus/result.h>
 
 #ifdef __cplusplus
 extern "C" {
 #endif
 
-/** Read the result JSON at result_path (docs/formats.md "Result JSON") and,
- *  when verdict_path is not NULL, the gate verdict JSON, and write the HTML
- *  report to out_path atomically ("-": standard output). A file that is not
- *  valid JSON or not of the expected kind is IST_ERR_FORMAT naming the file
- *  and line; on any failure no output file is left. */
-IST_API ist_status ist_report_write(const char *result_path, const char *verdict_path,
+/** Write the HTML report of a result (ist_result_load() or ist_evaluate()) and, when
+ *  verdict_path is not NULL, of the gate verdict JSON at that path, to out_path
+ *  atomically ("-": standard output). A verdict that is not valid JSON, not a verdict,
+ *  or made for another result (ist_verdict_check_file()) is IST_ERR_FORMAT naming the
+ *  file and line; on any failure no output file is left. */
+IST_API ist_status ist_report_write(const ist_result *result, const char *verdict_path,
                                     const char *out_path, ist_error *err);
 
 #ifdef __cplusplus

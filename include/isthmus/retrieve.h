@@ -7,6 +7,11 @@
  * threads (pthreads) take tiles from a shared counter. When more than one
  * thread is used the BLAS is told to use one thread per call.
  *
+ * In a job of several MPI ranks (isthmus/cluster.h) every call is collective:
+ * each rank scores whole blocks of target rows, planned as for the whole
+ * problem, and the ranks merge their k best lists exactly, so every rank
+ * returns the lists (and scores, bit for bit) that one process would.
+ *
  * CSLS, cross-domain similarity local scaling (Conneau et al. 2018, "Word
  * translation without parallel data", ICLR):
  *     CSLS(x, y) = 2 cos(x, y) - r_T(x) - r_S(y)

@@ -23,6 +23,11 @@
  * - SGNS factorises the shifted PMI matrix: at the optimum w . c = PMI(w, c) - log k
  *   (Levy & Goldberg 2014, "Neural Word Embedding as Implicit Matrix Factorization").
  * - Threads update the shared matrices without locks ("Hogwild", Recht et al. 2011).
+ * - Several MPI ranks (isthmus/cluster.h): data-parallel training with model averaging
+ *   (iterative parameter mixing, McDonald, Hall & Mann 2010; parallel SGD, Zinkevich,
+ *   Weimer, Smola & Li 2010). Each rank trains on its share of the stream (split on line
+ *   ends) from the same start; `exchanges` times per pass all ranks replace both matrices by
+ *   their mean. The learning rate follows the words done by all ranks together.
  * - The FAST kernel shares one set of k noise words across all contexts of a window, so that a
  *   window's updates become small dense matrix products (Ji et al. 2016, shared- and
  *   distributed-memory parallel SGNS, arXiv 1604.04661): with X the rows of the
@@ -54,6 +59,9 @@ typedef enum ist_sgns_kernel {
     IST_SGNS_REFERENCE       /* plain per-pair update loop */
 } ist_sgns_kernel;
 
+#define IST_SGNS_MERGE_CHANGES 0
+#define IST_SGNS_MERGE_MEAN 1
+
 /** What the progress callback sees. */
 typedef struct ist_sgns_progress {
     double fraction;         /* of all epochs, 0..1 */
@@ -73,6 +81,15 @@ typedef struct ist_sgns_opts {
     double lr_floor;         /* the rate never falls below lr0 * lr_floor [default 1e-4] */
     double subsample;        /* t in the discard formula; 0 = off [default 1e-4] */
     size_t threads;          /* worker threads [default 1] */
+    /* In a job of several MPI ranks (isthmus/cluster.h): each rank trains on its share
+     * of the stream and the ranks average both parameter matrices this many times per
+     * pass (model averaging; docs/cluster.md) [default 4]. Unused by one process. */
+    size_t exchanges;
+    /* How an exchange combines the ranks: IST_SGNS_MERGE_CHANGES adds up every rank's
+     * changes since the last exchange (the average change times the rank count), so that
+     * a word met by one rank moves as far as in one process; IST_SGNS_MERGE_MEAN replaces
+     * the vectors by their mean (plain model averaging) [default CHANGES]. */
+    int merge;
     uint64_t seed;           /* random seed [default 1] */
     ist_sgns_kernel kernel;  /* [default IST_SGNS_FAST] */
     bool keep_context;       /* also return the output (context) vectors [default false] */
@@ -92,6 +109,11 @@ typedef struct ist_sgns_result {
     double seconds;          /* wall-clock training time */
     double words_per_sec;    /* words_seen / seconds */
     double final_loss;       /* mean loss per pair over the last epoch */
+    unsigned ranks;          /* ranks that trained together (1: one process) */
+    uint64_t exchange_count; /* parameter averages done */
+    double exchange_seconds; /* wall-clock time spent averaging (this rank's) */
+    double wait_seconds;     /* time this rank waited for the others before exchanges */
+    uint64_t exchange_bytes; /* parameter bytes each rank sends in one exchange */
 } ist_sgns_result;
 
 /** Train skip-gram vectors.
@@ -103,7 +125,9 @@ typedef struct ist_sgns_result {
  *  Errors: IST_ERR_INVALID for options out of range, an empty stream, an id >= vocab_size or
  *  all counts zero; IST_ERR_NOMEM; IST_ERR_CANCELLED when ist_cancel_requested() or the
  *  progress callback asked to stop (nothing is returned then); IST_ERR_NUMERIC when the
- *  vectors diverged (NaN). Single-threaded runs are bit-for-bit reproducible for a seed. */
+ *  vectors diverged (NaN). Single-threaded runs are bit-for-bit reproducible for a seed.
+ *  In a job of several ranks the call is collective; every rank returns the same vectors,
+ *  and a rank that fails or is stopped makes all return its error, naming it. */
 IST_API ist_status ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts,
                                   size_t vocab_size, const ist_sgns_opts *o,
                                   ist_matrix **in_vectors, ist_matrix **ctx_vectors,
@@ -114,7 +138,8 @@ IST_API ist_status ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint6
  *   "corpus":{"sources":<sources_json>,"tokens":..,"types":..},
  *   "training":{"method":"skip-gram negative sampling","dimension":..,"context":..,
  *   "noise_samples":..,"noise_power":0.75,"passes":..,"rate":..,"subsample":..,"threads":..,
- *   "seed":..,"kernel":"fast"|"reference","simd":..,"keep_context":..},
+ *   "seed":..,"kernel":"fast"|"reference","simd":..,"keep_context":..
+ *   [,"ranks":..,"exchanges_per_pass":.. when trained by several ranks]},
  *  "result":{"words_seen":..,"words_trained":..,"pairs":..,"final_loss":..}}.
  *  text_json and sources_json are inserted as they are (valid JSON, or NULL for null);
  *  res may be NULL. *json is owned by the caller: release with ist_sgns_free(). */

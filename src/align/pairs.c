@@ -2,6 +2,7 @@
 #include <isthmus/pairs.h>
 
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -26,6 +27,10 @@ struct ist_pairs {
     char *pool;
     size_t used, pcap;
     bool resolved;
+    char *path;             /* the file read, or NULL */
+    char *label;            /* for people: the path or how the list was made */
+    bool has_list_ck;       /* list_ck describes the pairs as they came in */
+    uint64_t list_ck;
 };
 
 ist_status
@@ -42,6 +47,8 @@ ist_pairs_free(ist_pairs *p)
         return;
     ist_free(p->v);
     ist_free(p->pool);
+    ist_free(p->path);
+    ist_free(p->label);
     ist_free(p);
 }
 
@@ -90,6 +97,7 @@ push(ist_pairs *p, const char *s, size_t sl, const char *t, size_t tl, uint64_t 
 ist_status
 ist_pairs_add(ist_pairs *p, const char *src, const char *tgt, ist_error *err)
 {
+    p->has_list_ck = false;   /* no longer the list as it came in */
     return push(p, src, strlen(src), tgt, strlen(tgt), 0, err);
 }
 
@@ -180,6 +188,20 @@ parse_line(ist_pairs *p, const char *path, char *line, size_t len, uint64_t line
     return push(p, f[0], fl[0], f[1], fl[1], lineno, err);
 }
 
+/* Remember where the list came from and the checksum of its pairs as they are now (for a
+ * list just read: as read, before any vocabulary was consulted). */
+static ist_status
+record_origin(ist_pairs *p, const char *path, const char *label, ist_error *err)
+{
+    ist_status rc = ist_pairs_checksum(p, &p->list_ck, err);
+    if (rc != IST_OK)
+        return rc;
+    p->has_list_ck = true;
+    if ((path && !(p->path = ist_strdup(path))) || !(p->label = ist_strdup(label ? label : path)))
+        return ist_error_nomem(err);
+    return IST_OK;
+}
+
 ist_status
 ist_pairs_read(const char *path, ist_pairs **out, ist_error *err)
 {
@@ -202,12 +224,33 @@ ist_pairs_read(const char *path, ist_pairs **out, ist_error *err)
         rc = parse_line(p, path, line, len, ist_reader_lineno(r), err);
     }
     ist_reader_close(r);
+    if (rc == IST_OK)
+        rc = record_origin(p, path, NULL, err);
     if (rc != IST_OK) {
         ist_pairs_free(p);
         return rc;
     }
     *out = p;
     return IST_OK;
+}
+
+const char *
+ist_pairs_path(const ist_pairs *p)
+{
+    return p->path;
+}
+
+const char *
+ist_pairs_label(const ist_pairs *p)
+{
+    return p->label;
+}
+
+bool
+ist_pairs_list_checksum(const ist_pairs *p, uint64_t *out)
+{
+    *out = p->has_list_ck ? p->list_ck : 0;
+    return p->has_list_ck;
 }
 
 size_t
@@ -433,6 +476,30 @@ copy_pair(ist_pairs *dst, const ist_pairs *src, size_t i, ist_error *err)
     return rc;
 }
 
+/* The parts of a split: each records the checksum of the pairs it received, so a test
+ * part scored now and the same part saved and read back carry one list checksum. */
+static ist_status
+label_parts(const ist_pairs *whole, ist_pairs *seeds, ist_pairs *test, ist_error *err)
+{
+    const char *from = whole->label ? whole->label : "a list made in memory";
+    size_t n = strlen(from) + 32;
+    char *ls = ist_malloc(n), *lt = ist_malloc(n);
+    ist_status rc = IST_OK;
+
+    if (!ls || !lt)
+        rc = ist_error_nomem(err);
+    if (rc == IST_OK) {
+        snprintf(ls, n, "kept as seeds from %s", from);
+        snprintf(lt, n, "held out from %s", from);
+        rc = record_origin(seeds, NULL, ls, err);
+    }
+    if (rc == IST_OK)
+        rc = record_origin(test, NULL, lt, err);
+    ist_free(ls);
+    ist_free(lt);
+    return rc;
+}
+
 ist_status
 ist_pairs_split(const ist_pairs *p, double test_fraction, uint64_t seed, ist_pairs **seeds,
                 ist_pairs **test, ist_error *err)
@@ -483,6 +550,8 @@ ist_pairs_split(const ist_pairs *p, double test_fraction, uint64_t seed, ist_pai
         }
         rc = copy_pair(lo < nd && d[lo].idx ? b : a, p, i, err);
     }
+    if (rc == IST_OK)
+        rc = label_parts(p, a, b, err);
     if (rc != IST_OK)
         goto fail;
     ist_free(k);

@@ -444,6 +444,18 @@ push(parser *ps, ist_jv *parent, char *k, ist_jv *child)
     return IST_OK;
 }
 
+/* Refuse a member name the object already holds. */
+static ist_status
+unique_key(parser *ps, const ist_jv *obj, const char *k)
+{
+    for (size_t i = 0; i < obj->n; i++)
+        if (strcmp(obj->keys[i], k) == 0)
+            return ist_error_at(ps->err, IST_ERR_FORMAT, ps->path ? ps->path : "<json>",
+                                ps->line, "duplicate member \"%s\" (first on line %llu)", k,
+                                (unsigned long long)obj->items[i]->line);
+    return IST_OK;
+}
+
 static ist_status
 parse_container(parser *ps, ist_jv *v)
 {
@@ -475,6 +487,10 @@ parse_container(parser *ps, ist_jv *v)
                 return perr(ps, "':'");
             }
             ps->p++;
+        }
+        if (k && (rc = unique_key(ps, v, k)) != IST_OK) {
+            ist_free(k);
+            return rc;
         }
         rc = parse_value(ps, &child);
         if (rc == IST_OK)
@@ -715,4 +731,36 @@ uint64_t
 ist_jv_line(const ist_jv *v)
 {
     return v ? v->line : 0;
+}
+
+void
+ist_jw_value(ist_jw *w, const char *k, const ist_jv *v)
+{
+    switch (ist_jv_type(v)) {
+    case IST_JNULL: ist_jw_null(w, k); break;
+    case IST_JBOOL: ist_jw_bool(w, k, v->b); break;
+    case IST_JNUM: ist_jw_num(w, k, v->num); break;
+    case IST_JSTR: ist_jw_str(w, k, v->str); break;
+    case IST_JARR:
+        ist_jw_arr_begin(w, k);
+        for (size_t i = 0; i < v->n; i++)
+            ist_jw_value(w, NULL, v->items[i]);
+        ist_jw_arr_end(w);
+        break;
+    case IST_JOBJ:
+        ist_jw_obj_begin(w, k);
+        for (size_t i = 0; i < v->n; i++)
+            ist_jw_value(w, v->keys[i], v->items[i]);
+        ist_jw_obj_end(w);
+        break;
+    }
+}
+
+ist_status
+ist_json_text(const ist_jv *v, char **out, ist_error *err)
+{
+    ist_jw w;
+    ist_jw_init(&w, false);
+    ist_jw_value(&w, NULL, v);
+    return ist_jw_finish(&w, out, err);
 }

@@ -47,7 +47,8 @@ typedef struct ist_jv ist_jv;   /* a node; the tree is owned by its root */
 
 /* Parse text (len bytes, UTF-8). On a syntax error err names path (may be
  * NULL), line and what was expected. Depth is limited to 64; numbers must be
- * finite. Release the root with ist_jv_free(). */
+ * finite; an object naming one member twice is refused (readers differ on which
+ * value such a document means). Release the root with ist_jv_free(). */
 ist_status ist_json_parse(const char *text, size_t len, const char *path, ist_jv **out,
                           ist_error *err);
 /* Read and parse a whole file (plain or gzip). */
@@ -68,5 +69,9 @@ const char *ist_jv_str(const ist_jv *v, const char *dflt);   /* borrowed from th
 bool ist_jv_bool(const ist_jv *v, bool dflt);
 /* Line (1-based) where the value starts in the parsed text. */
 uint64_t ist_jv_line(const ist_jv *v);
+/* Write the value v under key into w (a subtree read back as it was). */
+void ist_jw_value(ist_jw *w, const char *key, const ist_jv *v);
+/* v as compact JSON text (NUL-terminated; release with ist_free). */
+ist_status ist_json_text(const ist_jv *v, char **out, ist_error *err);
 
 #endif

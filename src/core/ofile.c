@@ -18,6 +18,7 @@
 #include <isthmus/output.h>
 
 #include "alloc_int.h"
+#include "cluster_int.h"
 #include "error_int.h"
 
 #define OFILE_BUF (1u << 18)
@@ -78,6 +79,8 @@ ist_ofile_open(const char *path, bool gz, ist_ofile **out, ist_error *err)
     struct stat st;
 
     *out = NULL;
+    if (!ist_cluster_writes_files())
+        path = "/dev/null";   /* several ranks, one writer: rank 0 */
     f = ist_calloc(1, sizeof *f);
     if (!f)
         return ist_error_nomem(err);

@@ -14,6 +14,7 @@
 #include <isthmus/cancel.h>
 
 #include "alloc_int.h"
+#include "cluster_int.h"
 #include "error_int.h"
 
 /* 512 x 2048 floats = 4 MiB per thread: the tile a thread has just written is
@@ -37,6 +38,7 @@ typedef struct entry {
 typedef struct job {
     ist_cmatview q, t;
     size_t k, qb, tb, nqt, ntt;   /* tile sizes and tile counts */
+    size_t first, last;           /* this rank's tiles [first, last): whole target blocks */
     float scale;
     const float *qsub, *tsub;
     atomic_size_t next;
@@ -171,13 +173,13 @@ work(void *arg)
 {
     worker *w = arg;
     job *jb = w->jb;
-    size_t d = jb->q.cols, ntiles = jb->nqt * jb->ntt;
+    size_t d = jb->q.cols;
 
     for (;;) {
         if (atomic_load(&jb->stop))
             break;
-        size_t tile = atomic_fetch_add(&jb->next, 1);
-        if (tile >= ntiles)
+        size_t tile = jb->first + atomic_fetch_add(&jb->next, 1);
+        if (tile >= jb->last)
             break;
         if (ist_cancel_requested()) {
             atomic_store(&jb->stop, true);
@@ -254,7 +256,13 @@ plan_tiles(job *jb, const ist_retrieve_opts *o, unsigned *nthreads, ist_error *e
                              "retrieval: a memory budget of %zu bytes is too small", o->budget);
     jb->nqt = (m + jb->qb - 1) / jb->qb;
     jb->ntt = (n + jb->tb - 1) / jb->tb;
-    *nthreads = thread_count(o, jb->nqt * jb->ntt);
+    /* in a job of several ranks each takes whole target blocks, planned as for the whole
+     * problem, so every score is computed exactly as one process would */
+    size_t tt0, tt1;
+    ist_cluster_share(jb->ntt, &tt0, &tt1);
+    jb->first = tt0 * jb->nqt;
+    jb->last = tt1 * jb->nqt;
+    *nthreads = thread_count(o, jb->last - jb->first);
     return IST_OK;
 }
 
@@ -372,10 +380,15 @@ ist_retrieve_topk(ist_cmatview q, ist_cmatview t, size_t k, float scale, const f
     rc = alloc_workers(ws, nw, &jb, err);
     if (rc == IST_OK)
         rc = run_workers(ws, nw, err);
+    rc = ist_cluster_agree(rc, err);
     if (rc != IST_OK)
         goto fail;
     merge_into(tk, ws, nw, k);
     free_workers(ws, nw);
+    nw = 0;
+    rc = ist_cluster_merge_topk(tk->score, tk->index, tk->rows, k, err);
+    if (rc != IST_OK)
+        goto fail;
 done:
     *out = tk;
     return IST_OK;

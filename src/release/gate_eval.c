@@ -1,8 +1,9 @@
-/* gate_eval.c - checking rules against a result JSON and a baseline. The change of
+/* gate_eval.c - checking rules against a result and a baseline result. The change of
  * precision between two results is judged by a paired bootstrap over the test words
  * (Koehn 2004, "Statistical significance tests for machine translation evaluation"). */
 #include <isthmus/gate.h>
 
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -17,84 +18,19 @@ ist_gate_opts_init(ist_gate_opts *o)
     ist_ci_opts_init(&o->ci);
 }
 
-void
-ist_gate_result_free(ist_gate_result *r)
-{
-    if (!r)
-        return;
-    ist_jv_free(r->root);
-    ist_free(r->name);
-    ist_free(r);
-}
-
-static ist_status
-adopt(ist_jv *root, const char *name, ist_gate_result **out, ist_error *err)
-{
-    const char *fmt = ist_jv_str(ist_jv_get(root, "format"), NULL);
-    ist_gate_result *r;
-
-    if (!fmt || strcmp(fmt, "isthmus result") != 0 ||
-        ist_jv_type(ist_jv_get(root, "runs")) != IST_JARR) {
-        ist_status rc = ist_error_at(err, IST_ERR_FORMAT, name, 0,
-                                     "expected an isthmus result JSON (format \"isthmus "
-                                     "result\" with \"runs\"), found %s",
-                                     fmt ? fmt : "another document");
-        ist_jv_free(root);
-        return rc;
-    }
-    if (!(r = ist_calloc(1, sizeof *r)) || !(r->name = ist_strdup(name))) {
-        ist_free(r);
-        ist_jv_free(root);
-        return ist_error_nomem(err);
-    }
-    r->root = root;
-    *out = r;
-    return IST_OK;
-}
-
-ist_status
-ist_gate_result_load(const char *path, ist_gate_result **out, ist_error *err)
-{
-    ist_jv *root;
-    ist_status rc;
-
-    *out = NULL;
-    if ((rc = ist_json_parse_file(path, &root, err)) != IST_OK)
-        return rc;
-    return adopt(root, path, out, err);
-}
-
-ist_status
-ist_gate_result_parse(const char *text, size_t len, const char *name, ist_gate_result **out,
-                      ist_error *err)
-{
-    ist_jv *root;
-    ist_status rc;
-
-    *out = NULL;
-    if (!name)
-        name = "(result)";
-    if ((rc = ist_json_parse(text, len, name, &root, err)) != IST_OK)
-        return rc;
-    return adopt(root, name, out, err);
-}
-
 /* The last run matching the rule's retrieval and label. */
-static const ist_jv *
-find_run(const ist_gate_result *res, const ist_gate_rule *r, char *desc, size_t cap,
-         ist_error *err)
+static const ist_result_run *
+find_run(const ist_result *res, const ist_gate_rule *r, char *desc, size_t cap, ist_error *err)
 {
-    const ist_jv *runs = ist_jv_get(res->root, "runs"), *found = NULL;
-    for (size_t i = 0; i < ist_jv_len(runs); i++) {
-        const ist_jv *run = ist_jv_at(runs, i);
-        const char *ret = ist_jv_str(ist_jv_get(run, "retrieval"), "");
-        const char *label = ist_jv_str(ist_jv_get(run, "label"), "");
-        if (r->retrieval >= 0 && strcmp(ret, ist_retrieval_name((ist_retrieval)r->retrieval)))
+    const ist_result_run *found = NULL;
+    for (size_t i = 0; i < res->nruns; i++) {
+        const ist_result_run *run = &res->runs[i];
+        if (r->retrieval >= 0 && run->m.method != (ist_retrieval)r->retrieval)
             continue;
-        if (r->label && strcmp(label, r->label) != 0)
+        if (r->label && strcmp(run->label, r->label) != 0)
             continue;
         found = run;
-        snprintf(desc, cap, "%s %s", label, ret);
+        snprintf(desc, cap, "%s %s", run->label, ist_retrieval_name(run->m.method));
     }
     if (!found)
         ist_error_set(err, IST_ERR_INVALID, "%s: no run for rule '%s'%s%s%s%s", res->name,
@@ -104,19 +40,15 @@ find_run(const ist_gate_result *res, const ist_gate_rule *r, char *desc, size_t 
     return found;
 }
 
-static const ist_jv *
-find_band(const ist_gate_result *res, const ist_jv *run, const ist_gate_rule *r, size_t *index,
-          ist_error *err)
+static bool
+find_band(const ist_result *res, const ist_result_run *run, const ist_gate_rule *r,
+          size_t *index, ist_error *err)
 {
-    const ist_jv *bands = ist_jv_get(run, "bands");
-    for (size_t i = 0; i < ist_jv_len(bands); i++) {
-        const ist_jv *b = ist_jv_at(bands, i), *to = ist_jv_get(b, "rank_to");
-        double from = ist_jv_num(ist_jv_get(b, "rank_from"), -1);
-        bool open = !to || ist_jv_type(to) == IST_JNULL;
-        if (from == (double)r->band_from &&
-            (r->band_to == 0 ? open : !open && ist_jv_num(to, -1) == (double)r->band_to)) {
+    for (size_t i = 0; i < run->m.nbands; i++) {
+        const ist_band *b = &run->m.band[i];
+        if (b->lo == r->band_from && b->hi == r->band_to) {
             *index = i;
-            return b;
+            return true;
         }
     }
     char want[64];
@@ -126,110 +58,92 @@ find_band(const ist_gate_result *res, const ist_jv *run, const ist_gate_rule *r,
         snprintf(want, sizeof want, "%zu+", r->band_from);
     ist_error_set(err, IST_ERR_INVALID, "%s: rule '%s' (line %zu): the result has no band %s",
                   res->name, r->text, r->line, want);
-    return NULL;
+    return false;
 }
 
-/* An interval [lo, hi] stored as a two-number array. */
-static bool
-read_interval(const ist_jv *arr, double *lo, double *hi)
+static size_t
+k_index(size_t k)
 {
-    if (ist_jv_type(arr) != IST_JARR || ist_jv_len(arr) != 2 ||
-        ist_jv_type(ist_jv_at(arr, 0)) != IST_JNUM || ist_jv_type(ist_jv_at(arr, 1)) != IST_JNUM)
-        return false;
-    *lo = ist_jv_num(ist_jv_at(arr, 0), 0);
-    *hi = ist_jv_num(ist_jv_at(arr, 1), 0);
-    return true;
+    for (size_t j = 0; j < IST_METRICS_NK; j++)
+        if (ist_metrics_k(j) == k)
+            return j;
+    return 0;
 }
 
-/* The outcome places of a run's per_query entries (band: SIZE_MAX for all). *n 0 and
- * IST_OK when the run has none. */
+/* An interval the result lacks, drawn from the run's per-query outcomes (of one band, or
+ * all with band SIZE_MAX); has_interval stays false without them. */
 static ist_status
-read_places(const ist_gate_result *res, const ist_jv *run, size_t band, uint8_t **out,
-            size_t *n, ist_error *err)
+draw_interval(const ist_result_run *run, size_t band, const ist_gate_rule *r,
+              const ist_gate_opts *o, ist_gate_check *c, ist_error *err)
 {
-    const ist_jv *pq = ist_jv_get(run, "per_query");
-    size_t len = ist_jv_len(pq), m = 0;
+    double lo[IST_METRICS_NK], hi[IST_METRICS_NK];
+    size_t n = 0;
+    uint8_t *places;
+    ist_status rc;
 
-    *out = NULL;
-    *n = 0;
-    if (ist_jv_type(pq) != IST_JARR || len == 0)
+    if (run->nper_query == 0)
         return IST_OK;
-    if (!(*out = ist_malloc(len)))
+    if (!(places = ist_malloc(run->nper_query)))
         return ist_error_nomem(err);
-    for (size_t i = 0; i < len; i++) {
-        const ist_jv *q = ist_jv_at(pq, i);
-        double rank = ist_jv_num(ist_jv_get(q, "rank"), -1);
-        if (!(rank >= 0 && rank <= IST_CI_MISS) || rank != (double)(size_t)rank) {
-            ist_free(*out);
-            *out = NULL;
-            return ist_error_at(err, IST_ERR_FORMAT, res->name, ist_jv_line(q),
-                                "per_query: expected a rank from 0 to 10");
-        }
-        if (band != SIZE_MAX && ist_jv_num(ist_jv_get(q, "band"), -1) != (double)band)
-            continue;
-        (*out)[m++] = rank == 0 ? IST_CI_MISS : (uint8_t)(rank - 1);
+    for (size_t i = 0; i < run->nper_query; i++)
+        if (band == SIZE_MAX || run->query_band[i] == band)
+            places[n++] = run->m.query_place[i];
+    rc = n ? ist_ci_precision(places, n, &o->ci, lo, hi, err) : IST_OK;
+    if (rc == IST_OK && n) {
+        c->lo = lo[k_index(r->k)];
+        c->hi = hi[k_index(r->k)];
+        c->has_interval = true;
     }
-    *n = m;
-    return IST_OK;
+    ist_free(places);
+    return rc;
+}
+
+static void
+judge(const ist_gate_rule *r, ist_gate_check *c)
+{
+    bool ok = r->bound_kind == IST_GATE_MIN ? c->figure >= r->bound : c->figure <= r->bound;
+    c->outcome = ok ? IST_GATE_PASS : IST_GATE_FAIL;
 }
 
 static ist_status
-check_precision(const ist_gate_result *res, const ist_gate_rule *r, const ist_gate_opts *o,
+check_precision(const ist_result *res, const ist_gate_rule *r, const ist_gate_opts *o,
                 ist_gate_check *c, ist_error *err)
 {
-    const ist_jv *run = find_run(res, r, c->run, sizeof c->run, err), *obj;
-    size_t band = SIZE_MAX;
-    char key[16];
+    const ist_result_run *run = find_run(res, r, c->run, sizeof c->run, err);
+    size_t band = SIZE_MAX, j = k_index(r->k);
 
     if (!run)
         return IST_ERR_INVALID;
-    obj = run;
-    if (r->has_band && !(obj = find_band(res, run, r, &band, err)))
+    if (r->has_band && !find_band(res, run, r, &band, err))
         return IST_ERR_INVALID;
-    snprintf(key, sizeof key, "p@%zu", r->k);
-    const ist_jv *v = ist_jv_get(ist_jv_get(obj, "precision"), key);
-    if (ist_jv_type(v) != IST_JNUM)
-        return ist_error_at(err, IST_ERR_FORMAT, res->name, ist_jv_line(obj),
-                            "expected precision.%s in run %s", key, c->run);
-    c->figure = ist_jv_num(v, 0);
-    c->has_interval = read_interval(ist_jv_get(ist_jv_get(obj, "ci"), key), &c->lo, &c->hi);
-    if (!c->has_interval) {
-        uint8_t *places;
-        size_t n;
-        double lo[IST_METRICS_NK], hi[IST_METRICS_NK];
-        ist_status rc = read_places(res, run, band, &places, &n, err);
-        if (rc == IST_OK && n > 0 &&
-            (rc = ist_ci_precision(places, n, &o->ci, lo, hi, err)) == IST_OK) {
-            for (size_t j = 0; j < IST_METRICS_NK; j++)
-                if (ist_metrics_k(j) == r->k) {
-                    c->lo = lo[j];
-                    c->hi = hi[j];
-                    c->has_interval = true;
-                }
-        }
-        ist_free(places);
+    if (band != SIZE_MAX && run->m.band[band].queries == 0) {
+        c->outcome = IST_GATE_SKIP;
+        snprintf(c->note, sizeof c->note, "the band holds no test word");
+        return IST_OK;
+    }
+    c->figure = band == SIZE_MAX ? run->m.p[j] : run->m.band[band].p[j];
+    c->lo = band == SIZE_MAX ? run->ci.lo[j] : run->ci.band_lo[band][j];
+    c->hi = band == SIZE_MAX ? run->ci.hi[j] : run->ci.band_hi[band][j];
+    if ((band == SIZE_MAX ? run->has_ci : run->band_has_ci[band]) && !isnan(c->lo)) {
+        c->has_interval = true;
+    } else {
+        ist_status rc = draw_interval(run, band, r, o, c, err);
         if (rc != IST_OK)
             return rc;
     }
-    bool ok = r->bound_kind == IST_GATE_MIN ? c->figure >= r->bound : c->figure <= r->bound;
-    c->outcome = ok ? IST_GATE_PASS : IST_GATE_FAIL;
+    judge(r, c);
     return IST_OK;
 }
 
 static ist_status
-check_coverage(const ist_gate_result *res, const ist_gate_rule *r, ist_gate_check *c,
+check_coverage(const ist_result *res, const ist_gate_rule *r, ist_gate_check *c,
                ist_error *err)
 {
-    const ist_jv *run = find_run(res, r, c->run, sizeof c->run, err);
+    const ist_result_run *run = find_run(res, r, c->run, sizeof c->run, err);
     if (!run)
         return IST_ERR_INVALID;
-    const ist_jv *v = ist_jv_get(run, "coverage");
-    if (ist_jv_type(v) != IST_JNUM)
-        return ist_error_at(err, IST_ERR_FORMAT, res->name, ist_jv_line(run),
-                            "expected a coverage figure in run %s", c->run);
-    c->figure = ist_jv_num(v, 0);
-    bool ok = r->bound_kind == IST_GATE_MIN ? c->figure >= r->bound : c->figure <= r->bound;
-    c->outcome = ok ? IST_GATE_PASS : IST_GATE_FAIL;
+    c->figure = run->m.coverage;
+    judge(r, c);
     return IST_OK;
 }
 
@@ -247,27 +161,22 @@ cmp_entry(const void *a, const void *b)
     return c ? c : (int)x->side - (int)y->side;
 }
 
-/* Append run's per_query entries as side s; refuses a run without them. */
+/* Append run's per-query outcomes as side s; refuses a run without them. */
 static ist_status
-collect(const ist_gate_result *res, const ist_jv *run, const char *desc, uint8_t s,
+collect(const ist_result *res, const ist_result_run *run, const char *desc, uint8_t s,
         side_entry *e, size_t *n, ist_error *err)
 {
-    const ist_jv *pq = ist_jv_get(run, "per_query");
-    if (ist_jv_type(pq) != IST_JARR || ist_jv_len(pq) == 0)
+    if (run->nper_query == 0)
         return ist_error_set(err, IST_ERR_INVALID,
                              "%s: run %s has no per_query outcomes, so it cannot be compared "
                              "query by query; score it again with this version", res->name, desc);
-    for (size_t i = 0; i < ist_jv_len(pq); i++) {
-        const ist_jv *q = ist_jv_at(pq, i);
-        const char *w = ist_jv_str(ist_jv_get(q, "source"), NULL);
-        double rank = ist_jv_num(ist_jv_get(q, "rank"), -1);
+    for (size_t i = 0; i < run->nper_query; i++) {
+        const char *w = run->query_source ? run->query_source[i] : NULL;
         if (!w)
-            return ist_error_at(err, IST_ERR_FORMAT, res->name, ist_jv_line(q),
-                                "per_query: expected the source word of each query");
-        if (!(rank >= 0 && rank <= IST_CI_MISS) || rank != (double)(size_t)rank)
-            return ist_error_at(err, IST_ERR_FORMAT, res->name, ist_jv_line(q),
-                                "per_query: expected a rank from 0 to 10");
-        e[(*n)++] = (side_entry){w, rank == 0 ? IST_CI_MISS : (uint8_t)(rank - 1), s};
+            return ist_error_set(err, IST_ERR_INVALID,
+                                 "%s: run %s: per_query: expected the source word of each "
+                                 "query", res->name, desc);
+        e[(*n)++] = (side_entry){w, run->m.query_place[i], s};
     }
     return IST_OK;
 }
@@ -275,11 +184,11 @@ collect(const ist_gate_result *res, const ist_jv *run, const char *desc, uint8_t
 /* Pair the two runs' queries by source word (a word covered by one run only counts as
  * uncovered in the other) and run the paired bootstrap. */
 static ist_status
-paired(const ist_gate_result *res, const ist_jv *a, const char *adesc,
-       const ist_gate_result *base, const ist_jv *b, const char *bdesc, const ist_gate_rule *r,
-       const ist_gate_opts *o, ist_gate_check *c, ist_error *err)
+paired(const ist_result *res, const ist_result_run *a, const char *adesc,
+       const ist_result *base, const ist_result_run *b, const char *bdesc,
+       const ist_gate_rule *r, const ist_gate_opts *o, ist_gate_check *c, ist_error *err)
 {
-    size_t total = ist_jv_len(ist_jv_get(a, "per_query")) + ist_jv_len(ist_jv_get(b, "per_query"));
+    size_t total = a->nper_query + b->nper_query;
     side_entry *e = ist_malloc((total + 1) * sizeof *e);
     uint8_t *pa = ist_malloc(total + 1), *pb = ist_malloc(total + 1);
     size_t n = 0, m = 0;
@@ -326,11 +235,11 @@ done:
 }
 
 static ist_status
-check_drop(const ist_gate_result *res, const ist_gate_result *base, const ist_gate_rule *r,
+check_drop(const ist_result *res, const ist_result *base, const ist_gate_rule *r,
            const ist_gate_opts *o, ist_gate_check *c, ist_error *err)
 {
     char bdesc[48];
-    const ist_jv *a = find_run(res, r, c->run, sizeof c->run, err), *b;
+    const ist_result_run *a = find_run(res, r, c->run, sizeof c->run, err), *b;
 
     if (!a)
         return IST_ERR_INVALID;
@@ -344,36 +253,26 @@ check_drop(const ist_gate_result *res, const ist_gate_result *base, const ist_ga
     return paired(res, a, c->run, base, b, bdesc, r, o, c, err);
 }
 
-static const char *
-test_id(const ist_gate_result *r, const char *key)
-{
-    return ist_jv_str(ist_jv_get(ist_jv_get(r->root, "test"), key), NULL);
-}
-
-/* Refuse a baseline scored on another test list. */
+/* Refuse a baseline scored on another test list: the checksums of the two lists as read
+ * decide, whatever the vectors covered of them. */
 static ist_status
-same_test_list(const ist_gate_result *a, const ist_gate_result *b, ist_error *err)
+same_test_list(const ist_result *a, const ist_result *b, ist_error *err)
 {
-    static const char *const keys[] = {"list_checksum", "checksum", "source_words_hash"};
-    size_t i = 0, end = 1;
-    /* Scored from one list file: its pairs as read decide, whatever the vectors cover.
-     * Otherwise the kept pairs and their source words must agree. */
-    if (!test_id(a, keys[0]) || !test_id(b, keys[0])) {
-        i = 1;
-        end = 3;
-    }
-    for (; i < end; i++) {
-        const char *x = test_id(a, keys[i]), *y = test_id(b, keys[i]);
-        if (!x || !y)
-            return ist_error_set(err, IST_ERR_INVALID,
-                                 "cannot compare %s with baseline %s: %s has no test.%s, so "
-                                 "the two test lists cannot be shown to be the same",
-                                 a->name, b->name, !x ? a->name : b->name, keys[i]);
-        if (strcmp(x, y) != 0)
-            return ist_error_set(err, IST_ERR_INVALID,
-                                 "refusing to compare %s with baseline %s: they were scored on "
-                                 "different test lists (test.%s %s vs %s)",
-                                 a->name, b->name, keys[i], x, y);
+    const ist_result_list *x = &a->test.list, *y = &b->test.list;
+    char hx[17], hy[17];
+    if (!x->has_checksum || !y->has_checksum)
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "cannot compare %s with baseline %s: %s has no test.list_checksum, "
+                             "so the two test lists cannot be shown to be the same; score it "
+                             "again with this version", a->name, b->name,
+                             !x->has_checksum ? a->name : b->name);
+    if (x->checksum != y->checksum) {
+        ist_result_hex(x->checksum, hx);
+        ist_result_hex(y->checksum, hy);
+        return ist_error_set(err, IST_ERR_INVALID,
+                             "refusing to compare %s with baseline %s: they were scored on "
+                             "different test lists (test.list_checksum %s vs %s)",
+                             a->name, b->name, hx, hy);
     }
     return IST_OK;
 }
@@ -395,8 +294,8 @@ ist_verdict_free(ist_verdict *v)
     ist_free(v->rules_name);
     ist_free(v->result_name);
     ist_free(v->baseline_name);
-    ist_free(v->test_checksum);
-    ist_free(v->test_hash);
+    for (size_t i = 0; i < v->nconditions; i++)
+        ist_free(v->conditions[i]);
     for (size_t i = 0; v->rules && i < v->n; i++)
         ist_free((char *)v->rules[i].text);
     ist_free(v->rules);
@@ -405,7 +304,7 @@ ist_verdict_free(ist_verdict *v)
 }
 
 static ist_status
-new_verdict(const ist_thresholds *t, const ist_gate_result *res, const ist_gate_result *base,
+new_verdict(const ist_thresholds *t, const ist_result *res, const ist_result *base,
             const ist_gate_opts *o, ist_verdict **out, ist_error *err)
 {
     bool ok = true;
@@ -415,8 +314,14 @@ new_verdict(const ist_thresholds *t, const ist_gate_result *res, const ist_gate_
     v->rules_name = dup_or_null(t->name, &ok);
     v->result_name = dup_or_null(res->name, &ok);
     v->baseline_name = dup_or_null(base ? base->name : NULL, &ok);
-    v->test_checksum = dup_or_null(test_id(res, "checksum"), &ok);
-    v->test_hash = dup_or_null(test_id(res, "source_words_hash"), &ok);
+    v->has_list_ck = res->test.list.has_checksum;
+    v->list_ck = res->test.list.checksum;
+    v->has_kept = res->test.has_kept;
+    v->kept_ck = res->test.kept_checksum;
+    v->sources_hash = res->test.sources_hash;
+    v->has_fp = res->source.has_fingerprint && res->target.has_fingerprint;
+    v->source_fp = res->source.fingerprint;
+    v->target_fp = res->target.fingerprint;
     v->checks = ist_calloc(t->n + 1, sizeof *v->checks);
     v->rules = ist_calloc(t->n + 1, sizeof *v->rules);
     v->n = t->n;
@@ -434,10 +339,68 @@ new_verdict(const ist_thresholds *t, const ist_gate_result *res, const ist_gate_
     return IST_OK;
 }
 
+/* "N test source words are also seed source words", or of one word. */
+static void
+leak_text(char *buf, size_t cap, size_t n)
+{
+    snprintf(buf, cap, n == 1 ? "%zu test source word is also a seed source word"
+                              : "%zu test source words are also seed source words", n);
+}
+
+static ist_status
+add_condition(ist_verdict *v, const char *text, ist_error *err)
+{
+    if (!(v->conditions[v->nconditions] = ist_strdup(text)))
+        return ist_error_nomem(err);
+    v->nconditions++;
+    return IST_OK;
+}
+
+/* The conditions of the verdict, then the rules that refuse them. */
+static ist_status
+conditions(ist_verdict *v, const ist_result *res, ist_error *err)
+{
+    size_t skipped = 0, leak = res->test.has_overlap ? res->test.overlap : 0;
+    char leaked[96], buf[128];
+    ist_status rc = IST_OK;
+
+    for (size_t i = 0; i < v->n; i++)
+        skipped += v->checks[i].outcome == IST_GATE_SKIP;
+    leak_text(leaked, sizeof leaked, leak);
+    if (leak) {
+        snprintf(buf, sizeof buf, "leakage: %s", leaked);
+        rc = add_condition(v, buf, err);
+    }
+    if (rc == IST_OK && skipped) {
+        snprintf(buf, sizeof buf, "%zu rule%s not checked", skipped, skipped == 1 ? "" : "s");
+        rc = add_condition(v, buf, err);
+    }
+    for (size_t i = 0; rc == IST_OK && i < v->n; i++) {
+        const ist_gate_rule *r = &v->rules[i];
+        ist_gate_check *c = &v->checks[i];
+        if (r->figure == IST_GATE_LEAKAGE) {
+            c->figure = (double)leak;
+            c->outcome = leak ? IST_GATE_FAIL : IST_GATE_PASS;
+            snprintf(c->note, sizeof c->note, "%s", leaked);
+        } else if (r->figure == IST_GATE_UNCHECKED) {
+            c->figure = (double)skipped;
+            c->outcome = skipped ? IST_GATE_FAIL : IST_GATE_PASS;
+            snprintf(c->note, sizeof c->note, "%zu other rule%s not checked", skipped,
+                     skipped == 1 ? "" : "s");
+        }
+    }
+    return rc;
+}
+
+const char *
+ist_verdict_condition(const ist_verdict *v, size_t i)
+{
+    return i < v->nconditions ? v->conditions[i] : NULL;
+}
+
 ist_status
-ist_gate_evaluate(const ist_thresholds *t, const ist_gate_result *res,
-                  const ist_gate_result *base, const ist_gate_opts *opts, ist_verdict **out,
-                  ist_error *err)
+ist_gate_evaluate(const ist_thresholds *t, const ist_result *res, const ist_result *base,
+                  const ist_gate_opts *opts, ist_verdict **out, ist_error *err)
 {
     ist_gate_opts dflt;
     ist_verdict *v = NULL;
@@ -459,8 +422,12 @@ ist_gate_evaluate(const ist_thresholds *t, const ist_gate_result *res,
         case IST_GATE_PRECISION: rc = check_precision(res, r, opts, c, err); break;
         case IST_GATE_COVERAGE: rc = check_coverage(res, r, c, err); break;
         case IST_GATE_DROP: rc = check_drop(res, base, r, opts, c, err); break;
+        case IST_GATE_LEAKAGE:
+        case IST_GATE_UNCHECKED: break;   /* judged once the others are */
         }
     }
+    if (rc == IST_OK)
+        rc = conditions(v, res, err);
     if (rc != IST_OK) {
         ist_verdict_free(v);
         return rc;

@@ -13,14 +13,13 @@ struct ist_thresholds {
     size_t n, cap;
 };
 
-struct ist_gate_result {
-    char *name;
-    ist_jv *root;
-};
-
 struct ist_verdict {
     char *rules_name, *result_name, *baseline_name;
-    char *test_checksum, *test_hash;     /* of the result, or NULL */
+    const ist_result *result;    /* borrowed while evaluating */
+    bool has_list_ck, has_kept, has_fp;
+    uint64_t list_ck, kept_ck, sources_hash, source_fp, target_fp;
+    char *conditions[2];         /* leakage, unchecked rules; NULL when none */
+    size_t nconditions;
     ist_ci_opts ci;
     ist_gate_check *checks;
     ist_gate_rule *rules;        /* copies (texts owned), so the verdict outlives the rules */

@@ -151,7 +151,12 @@ ist_verdict_write_junit(const ist_verdict *v, const char *path, ist_error *err)
     property(&b, "thresholds", v->rules_name);
     property(&b, "result", v->result_name);
     property(&b, "baseline", v->baseline_name ? v->baseline_name : "(none)");
-    property(&b, "test.checksum", v->test_checksum);
+    char hex[32] = "(none)";
+    if (v->has_list_ck)
+        ist_result_hex(v->list_ck, hex);
+    property(&b, "test.list_checksum", hex);
+    for (size_t i = 0; i < v->nconditions; i++)
+        property(&b, "condition", v->conditions[i]);
     puts_raw(&b, "    </properties>\n");
     for (size_t i = 0; i < n; i++)
         write_case(&b, v, i, v->rules_name);

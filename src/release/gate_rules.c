@@ -186,6 +186,9 @@ check_rule(const ctx *c, const ist_gate_rule *r)
     return IST_OK;
 }
 
+static ist_status join_words(const ctx *c, char **w, size_t n, ist_gate_rule *r,
+                             bool *has_rule);
+
 /* Parse one line (modified in place). *has_rule false for blank and comment lines. */
 static ist_status
 parse_line(const ctx *c, char *line, ist_gate_rule *r, bool *has_rule)
@@ -208,12 +211,20 @@ parse_line(const ctx *c, char *line, ist_gate_rule *r, bool *has_rule)
     memset(r, 0, sizeof *r);
     r->line = c->line;
     r->retrieval = -1;
+    if (strcmp(w[0], "refuse") == 0) {
+        /* a condition of the verdict made a failure: at most 0 leaked or unchecked */
+        if (n < 2 || n > 2 || (strcmp(w[1], "leakage") != 0 && strcmp(w[1], "unchecked") != 0))
+            return bad(c, "'refuse leakage' or 'refuse unchecked'", n < 2 ? NULL : w[n - 1]);
+        r->figure = strcmp(w[1], "leakage") == 0 ? IST_GATE_LEAKAGE : IST_GATE_UNCHECKED;
+        r->bound_kind = IST_GATE_MAX;
+        return join_words(c, w, n, r, has_rule);
+    }
     if (strcmp(w[0], "min") == 0)
         r->bound_kind = IST_GATE_MIN;
     else if (strcmp(w[0], "max") == 0)
         r->bound_kind = IST_GATE_MAX;
     else
-        return bad(c, "'min' or 'max' at the start of a rule", w[0]);
+        return bad(c, "'min', 'max' or 'refuse' at the start of a rule", w[0]);
     if (n < 2)
         return bad(c, figure_help, NULL);
     if ((r->k = precision_k(w[1])) != 0) {
@@ -239,6 +250,13 @@ parse_line(const ctx *c, char *line, ist_gate_rule *r, bool *has_rule)
         return rc;
     if ((rc = check_rule(c, r)) != IST_OK)
         return rc;
+    return join_words(c, w, n, r, has_rule);
+}
+
+/* The rule's words, single-spaced, as its text. */
+static ist_status
+join_words(const ctx *c, char **w, size_t n, ist_gate_rule *r, bool *has_rule)
+{
     size_t len = 0;
     for (size_t i = 0; i < n; i++)
         len += strlen(w[i]) + 1;
@@ -313,7 +331,7 @@ ist_status
 ist_thresholds_parse(const char *text, size_t len, const char *name, ist_thresholds **out,
                      ist_error *err)
 {
-    ist_thresholds *t;
+    ist_thresholds *t = NULL;
     char buf[MAX_LINE + 1];
     size_t lineno = 0;
     ist_status rc;

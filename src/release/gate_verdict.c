@@ -50,6 +50,10 @@ figure_name(const ist_gate_rule *r, char *buf, size_t cap)
 {
     if (r->figure == IST_GATE_COVERAGE)
         return "coverage";
+    if (r->figure == IST_GATE_LEAKAGE)
+        return "leakage";
+    if (r->figure == IST_GATE_UNCHECKED)
+        return "unchecked rules";
     snprintf(buf, cap, "%sprecision@%zu", r->figure == IST_GATE_DROP ? "drop " : "", r->k);
     return buf;
 }
@@ -65,6 +69,8 @@ ist_verdict_line(const ist_verdict *v, size_t i, char *buf, size_t cap)
         snprintf(iv, sizeof iv, " [%.3f, %.3f]", c->lo, c->hi);
     if (c->outcome == IST_GATE_SKIP)
         snprintf(detail, sizeof detail, "not checked: %s", c->note);
+    else if (r->figure == IST_GATE_LEAKAGE || r->figure == IST_GATE_UNCHECKED)
+        snprintf(detail, sizeof detail, "%s", c->note);
     else if (r->figure == IST_GATE_DROP)
         snprintf(detail, sizeof detail,
                  "change %+.3f%s (%.3f vs baseline %.3f, %s); fails when the interval lies "
@@ -76,6 +82,18 @@ ist_verdict_line(const ist_verdict *v, size_t i, char *buf, size_t cap)
     snprintf(buf, cap, "%-4s  %s:%zu  %s: %s", c->outcome == IST_GATE_FAIL ? "FAIL"
                                                 : outcome_name(c->outcome),
              v->rules_name, r->line, r->text, detail);
+}
+
+static void
+hex_or_null(ist_jw *w, const char *key, bool has, uint64_t v)
+{
+    char b[17];
+    if (!has) {
+        ist_jw_null(w, key);
+        return;
+    }
+    ist_result_hex(v, b);
+    ist_jw_str(w, key, b);
 }
 
 static void
@@ -143,9 +161,18 @@ ist_verdict_write(const ist_verdict *v, const char *path, ist_error *err)
     ist_jw_str(&w, "thresholds", v->rules_name);
     ist_jw_str(&w, "result", v->result_name);
     ist_jw_str(&w, "baseline", v->baseline_name);
+    ist_jw_arr_begin(&w, "conditions");
+    for (size_t i = 0; i < v->nconditions; i++)
+        ist_jw_str(&w, NULL, v->conditions[i]);
+    ist_jw_arr_end(&w);
     ist_jw_obj_begin(&w, "test");
-    ist_jw_str(&w, "checksum", v->test_checksum);
-    ist_jw_str(&w, "source_words_hash", v->test_hash);
+    hex_or_null(&w, "checksum", v->has_kept, v->kept_ck);
+    hex_or_null(&w, "source_words_hash", v->has_kept, v->sources_hash);
+    hex_or_null(&w, "list_checksum", v->has_list_ck, v->list_ck);
+    ist_jw_obj_end(&w);
+    ist_jw_obj_begin(&w, "vectors");
+    hex_or_null(&w, "source", v->has_fp, v->source_fp);
+    hex_or_null(&w, "target", v->has_fp, v->target_fp);
     ist_jw_obj_end(&w);
     ist_jw_obj_begin(&w, "bootstrap");
     ist_jw_num(&w, "level", v->ci.level);
@@ -171,5 +198,114 @@ ist_verdict_write(const ist_verdict *v, const char *path, ist_error *err)
             ist_ofile_abort(f);
     }
     ist_free(text);
+    return rc;
+}
+
+/* ---- reading a verdict back: schema and identity ----------------------------------- */
+
+static ist_status
+vbad(const char *path, const ist_jv *at, const char *what, ist_error *err)
+{
+    return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(at), "not a verdict of this "
+                        "isthmus: %s", what);
+}
+
+static int
+outcome_of(const char *s)
+{
+    static const char *const names[] = {"pass", "fail", "skip"};
+    for (int i = 0; s && i < 3; i++)
+        if (strcmp(s, names[i]) == 0)
+            return i;
+    return -1;
+}
+
+static ist_status
+check_rules(const char *path, const ist_jv *root, ist_error *err)
+{
+    const ist_jv *rules = ist_jv_get(root, "rules");
+    size_t tally[3] = {0, 0, 0};
+    static const char *const counts[] = {"rules_passed", "rules_failed", "rules_skipped"};
+
+    if (ist_jv_type(rules) != IST_JARR)
+        return vbad(path, root, "expected \"rules\" to be an array", err);
+    for (size_t i = 0; i < ist_jv_len(rules); i++) {
+        const ist_jv *r = ist_jv_at(rules, i);
+        int o = outcome_of(ist_jv_str(ist_jv_get(r, "outcome"), NULL));
+        if (ist_jv_type(r) != IST_JOBJ || ist_jv_type(ist_jv_get(r, "rule")) != IST_JSTR || o < 0)
+            return vbad(path, r, "expected each rule to be an object with its \"rule\" text and "
+                                 "an \"outcome\" of pass, fail or skip", err);
+        tally[o]++;
+    }
+    for (int i = 0; i < 3; i++)
+        if (ist_jv_num(ist_jv_get(root, counts[i]), -1) != (double)tally[i])
+            return vbad(path, root, "the rule counts do not agree with the rules", err);
+    const char *verdict = ist_jv_str(ist_jv_get(root, "verdict"), NULL);
+    int o = outcome_of(verdict);
+    if (o < 0 || o == 2)
+        return vbad(path, root, "expected \"verdict\" to be \"pass\" or \"fail\"", err);
+    if ((o == 1) != (tally[1] > 0))
+        return vbad(path, root, "the verdict does not follow from the rules' outcomes", err);
+    const ist_jv *cond = ist_jv_get(root, "conditions");
+    for (size_t i = 0; i < ist_jv_len(cond); i++)
+        if (ist_jv_type(ist_jv_at(cond, i)) != IST_JSTR)
+            return vbad(path, cond, "expected \"conditions\" to be a list of texts", err);
+    if (cond && ist_jv_type(cond) != IST_JARR)
+        return vbad(path, cond, "expected \"conditions\" to be a list of texts", err);
+    return IST_OK;
+}
+
+/* One recorded identity against the result's. */
+static ist_status
+same_id(const char *path, const ist_jv *holder, const char *key, bool has, uint64_t want,
+        const char *what, ist_error *err)
+{
+    const char *got = ist_jv_str(ist_jv_get(holder, key), NULL);
+    char hex[17];
+    if (!has)
+        return IST_OK;   /* the result does not record it: nothing to compare */
+    ist_result_hex(want, hex);
+    if (!got)
+        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(holder),
+                            "the verdict does not record the %s, so it cannot be shown to "
+                            "belong to this result; run the gate again", what);
+    if (strcmp(got, hex) != 0)
+        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(ist_jv_get(holder, key)),
+                            "the verdict was made for another result: %s %s, the result's %s",
+                            what, got, hex);
+    return IST_OK;
+}
+
+ist_status
+ist_verdict_check_file(const char *path, const ist_result *res, ist_error *err)
+{
+    ist_jv *root = NULL;
+    ist_status rc = ist_json_parse_file(path, &root, err);
+
+    if (rc != IST_OK)
+        return rc;
+    const char *f = ist_jv_str(ist_jv_get(root, "format"), NULL);
+    if (ist_jv_type(root) != IST_JOBJ)
+        rc = ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(root),
+                          "expected a JSON object at the top level");
+    else if (!f || strcmp(f, "isthmus verdict") != 0)
+        rc = ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(root),
+                          "expected \"format\": \"isthmus verdict\", found %s%s%s",
+                          f ? "\"" : "", f ? f : "none", f ? "\"" : "");
+    else if (ist_jv_num(ist_jv_get(root, "version"), -1) != VERDICT_FORMAT_VERSION)
+        rc = vbad(path, root, "expected \"version\": 1", err);
+    if (rc == IST_OK)
+        rc = check_rules(path, root, err);
+    const ist_jv *test = ist_jv_get(root, "test"), *vec = ist_jv_get(root, "vectors");
+    if (rc == IST_OK)
+        rc = same_id(path, test ? test : root, "list_checksum", res->test.list.has_checksum,
+                     res->test.list.checksum, "test list checksum", err);
+    if (rc == IST_OK)
+        rc = same_id(path, vec ? vec : root, "source", res->source.has_fingerprint,
+                     res->source.fingerprint, "source vectors' fingerprint", err);
+    if (rc == IST_OK)
+        rc = same_id(path, vec ? vec : root, "target", res->target.has_fingerprint,
+                     res->target.fingerprint, "target vectors' fingerprint", err);
+    ist_jv_free(root);
     return rc;
 }

@@ -153,6 +153,25 @@ caution(rbuf *b)
               "of the language before they drive anything customer-facing or financial.</p>\n");
 }
 
+/* The conditions a pass carries (from the verdict, or the result's leakage alone). */
+static void
+conditions_note(rep *r)
+{
+    const ist_jv *cond = ist_jv_get(r->verdict, "conditions");
+    double leak = ist_jv_num(ist_jv_get(ist_jv_get(r->res, "test"), "overlap_with_seeds"), 0);
+    if (ist_jv_len(cond) == 0 && !(leak > 0))
+        return;
+    rb_put(&r->b, "<p class=\"caution\" role=\"note\"><strong>Conditions:</strong> ");
+    if (ist_jv_len(cond) == 0)
+        rb_printf(&r->b, "leakage: %.0f test source words are also seed source words, so the "
+                         "figures overstate how well the map translates", leak);
+    for (size_t i = 0; i < ist_jv_len(cond); i++) {
+        rb_put(&r->b, i ? "; " : "");
+        rb_esc(&r->b, ist_jv_str(ist_jv_at(cond, i), ""));
+    }
+    rb_put(&r->b, ".</p>\n");
+}
+
 static void
 headline(rep *r)
 {
@@ -166,6 +185,7 @@ headline(rep *r)
         return;
     }
     run_name(h, name, sizeof name);
+    conditions_note(r);
     rb_put(b, "<p class=\"headline\">Precision@1: <strong>");
     pct(b, ist_jv_num(ist_jv_get(ist_jv_get(h, "precision"), "p@1"), NAN));
     rb_put(b, "</strong> (");
@@ -420,18 +440,20 @@ render(rep *r)
 }
 
 ist_status
-ist_report_write(const char *result_path, const char *verdict_path, const char *out_path,
+ist_report_write(const ist_result *result, const char *verdict_path, const char *out_path,
                  ist_error *err)
 {
     ist_jv *res = NULL, *ver = NULL;
+    char *text = NULL;
     rep r;
     ist_status rc;
 
     memset(&r, 0, sizeof r);
-    if ((rc = ist_json_parse_file(result_path, &res, err)) != IST_OK ||
-        (rc = check_kind(res, result_path, "isthmus result", err)) != IST_OK)
+    if ((rc = ist_result_render(result, &text, err)) != IST_OK ||
+        (rc = ist_json_parse(text, strlen(text), result->name, &res, err)) != IST_OK)
         goto done;
-    if (verdict_path && ((rc = ist_json_parse_file(verdict_path, &ver, err)) != IST_OK ||
+    if (verdict_path && ((rc = ist_verdict_check_file(verdict_path, result, err)) != IST_OK ||
+                         (rc = ist_json_parse_file(verdict_path, &ver, err)) != IST_OK ||
                          (rc = check_kind(ver, verdict_path, NULL, err)) != IST_OK))
         goto done;
     r.res = res;
@@ -444,6 +466,7 @@ ist_report_write(const char *result_path, const char *verdict_path, const char *
     rc = ist_ofile_write_all(out_path, r.b.p, r.b.len, err);
 done:
     ist_free(r.b.p);
+    ist_result_free_text(text);
     ist_jv_free(res);
     ist_jv_free(ver);
     return rc;

@@ -14,6 +14,7 @@
 #include <isthmus/cancel.h>
 
 #include "alloc_int.h"
+#include "cluster_int.h"
 #include "error_int.h"
 #include "matrix_int.h"
 #include "sgns_int.h"
@@ -45,6 +46,8 @@ ist_sgns_opts_init(ist_sgns_opts *o)
     o->lr_floor = 1e-4;
     o->subsample = 1e-4;
     o->threads = 1;
+    o->exchanges = 4;
+    o->merge = IST_SGNS_MERGE_CHANGES;
     o->seed = 1;
     o->kernel = IST_SGNS_FAST;
 }
@@ -160,6 +163,8 @@ typedef struct shared {
     ist_sgns_kernel kernel;
     double lr0, lr_floor;
     uint64_t words_per_epoch, words_total;
+    uint64_t ranks;                  /* words done here count this many times (schedule) */
+    bool final_pass;                 /* the pass being run is the last one */
     float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
     atomic_int stop;
     pthread_mutex_t lock;            /* guards the counters below */
@@ -479,7 +484,7 @@ publish(worker *w, bool last_epoch)
     double lr;
 
     pthread_mutex_lock(&sh->lock);
-    sh->words_done += w->words;
+    sh->words_done += w->words * sh->ranks;
     sh->trained += w->trained;
     sh->pairs += w->pairs;
     sh->loss_sum += w->loss;
@@ -514,13 +519,14 @@ worker_main(void *arg)
 {
     worker *w = arg;
     shared *sh = w->sh;
-    float lr = (float)sh->lr0;
+    float lr = (float)current_lr(sh, sh->words_done);   /* lr0 at the start; a slice of
+                                                         * a rank's share goes on from there */
     uint64_t since = 0;
     uint32_t win = (uint32_t)sh->window;
 
     for (size_t e = 0; e < sh->epochs && !atomic_load_explicit(&sh->stop, memory_order_relaxed);
          e++) {
-        bool last = e + 1 == sh->epochs;
+        bool last = e + 1 == sh->epochs && sh->final_pass;
         size_t pos = w->begin, ahead = pos;
         while (pos < w->end) {
             size_t n = 0;
@@ -835,16 +841,24 @@ part_start(const uint32_t *ids, size_t n, size_t t, size_t T)
     return q < n && ids[q] == IST_CORPUS_EOL ? q + 1 : p;
 }
 
+/* The threads share [lo, hi) of the stream. */
+static void
+set_parts(shared *sh, worker *ws, size_t lo, size_t hi)
+{
+    for (size_t t = 0; t < sh->nthreads; t++) {
+        ws[t].begin = lo + part_start(sh->ids + lo, hi - lo, t, sh->nthreads);
+        ws[t].end = lo + part_start(sh->ids + lo, hi - lo, t + 1, sh->nthreads);
+    }
+}
+
 static ist_status
 run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_error *err)
 {
     double t0 = now_sec();
     ist_status rc = IST_OK;
 
-    for (size_t t = 0; t < sh->nthreads; t++) {
-        ws[t].begin = part_start(sh->ids, n_ids, t, sh->nthreads);
-        ws[t].end = part_start(sh->ids, n_ids, t + 1, sh->nthreads);
-    }
+    (void)n_ids;
+    sh->finished = 0;
     for (size_t t = 0; t < sh->nthreads; t++) {
         if (pthread_create(&ws[t].thread, NULL, worker_main, &ws[t]) != 0) {
             rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start training thread %zu",
@@ -907,6 +921,8 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->lr_floor = o->lr_floor;
     sh->words_per_epoch = words;
     sh->words_total = words * o->epochs;
+    sh->ranks = 1;
+    sh->final_pass = true;
     sig_tables(sh);
     long page = sysconf(_SC_PAGESIZE);
     sh->page = page > 0 ? (size_t)page : 4096;
@@ -914,6 +930,116 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     pthread_mutex_init(&sh->lock, NULL);
     pthread_mutex_init(&sh->merge_lock, NULL);
     pthread_cond_init(&sh->wake, NULL);
+}
+
+/* x holds the mean over n ranks: base + n (mean - base) is base plus every rank's change;
+ * it becomes the new base. */
+static void
+add_changes(float *x, float *base, size_t cells, float n)
+{
+    for (size_t i = 0; i < cells; i++) {
+        x[i] = base[i] + n * (x[i] - base[i]);
+        base[i] = x[i];
+    }
+}
+
+/* After an exchange the threads' copies of the hot rows start again from the averages. */
+static void
+hot_refresh(worker *ws, const shared *sh)
+{
+    size_t bytes = sh->stride * sizeof(float);
+    for (size_t t = 0; t < sh->nthreads && sh->n_hot; t++)
+        for (size_t s = 0; s < sh->n_hot; s++) {
+            size_t off = s * sh->stride, row = (size_t)sh->hot_ids[s] * sh->stride;
+            memcpy(ws[t].rep_in + off, sh->in + row, bytes);
+            memcpy(ws[t].rep_out + off, sh->out + row, bytes);
+            memcpy(ws[t].base_in + off, sh->in + row, bytes);
+            memcpy(ws[t].base_out + off, sh->out + row, bytes);
+        }
+}
+
+/* Several ranks: the rank's share of the stream in `exchanges` slices per pass, each slice
+ * run by the threads as a pass of its own, then both matrices averaged over the ranks. */
+static ist_status
+train_ranks(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t rows,
+            ist_sgns_result *res, ist_error *err)
+{
+    size_t n = ist_cluster_size(), r = ist_cluster_rank(), epochs = sh->epochs;
+    size_t lo = part_start(sh->ids, n_ids, r, n), hi = part_start(sh->ids, n_ids, r + 1, n);
+    size_t cells = rows * sh->stride, x = o->exchanges ? o->exchanges : 1;
+    uint64_t count = 0, sums[2];
+    double xsec = 0.0, wsec = 0.0, losses[2];
+    float *base = NULL;
+    ist_status rc = IST_OK;
+
+    if (o->merge == IST_SGNS_MERGE_CHANGES) {
+        /* both matrices as they were after the last exchange */
+        base = ist_aligned_alloc(2 * cells * sizeof *base);
+        rc = ist_cluster_agree(base ? IST_OK : ist_error_nomem(err), err);
+        if (rc != IST_OK) {
+            ist_aligned_free(base);
+            return rc;
+        }
+        memcpy(base, sh->in, cells * sizeof *base);
+        memcpy(base + cells, sh->out, cells * sizeof *base);
+    }
+    sh->ranks = n;
+    sh->epochs = 1;
+    for (size_t e = 0; e < epochs && rc == IST_OK; e++) {
+        for (size_t c = 0; c < x && rc == IST_OK; c++) {
+            uint64_t before = sh->words_done, mine;
+            set_parts(sh, ws, lo + part_start(sh->ids + lo, hi - lo, c, x),
+                      lo + part_start(sh->ids + lo, hi - lo, c + 1, x));
+            sh->final_pass = e + 1 == epochs;
+            rc = run_threads(sh, ws, o, n_ids, err);
+            double t = now_sec();
+            rc = ist_cluster_agree(rc, err);
+            wsec += now_sec() - t;
+            t = now_sec();
+            /* the schedule counted this rank's words n times; count every rank's once */
+            mine = (sh->words_done - before) / n;
+            if (rc == IST_OK)
+                rc = ist_cluster_sum_u64(&mine, 1, err);
+            sh->words_done = before + mine;
+            if (rc == IST_OK)
+                rc = ist_cluster_average(sh->in, cells, err);
+            if (rc == IST_OK)
+                rc = ist_cluster_average(sh->out, cells, err);
+            if (rc == IST_OK && base) {
+                add_changes(sh->in, base, cells, (float)n);
+                add_changes(sh->out, base + cells, cells, (float)n);
+            }
+            hot_refresh(ws, sh);
+            xsec += now_sec() - t;
+            count++;
+        }
+    }
+    sh->epochs = epochs;
+    ist_aligned_free(base);
+    sums[0] = sh->trained;
+    sums[1] = sh->pairs;
+    losses[0] = sh->last_epoch_loss;
+    losses[1] = (double)sh->last_epoch_n;
+    if (rc == IST_OK)
+        rc = ist_cluster_sum_u64(sums, 2, err);
+    if (rc == IST_OK)
+        rc = ist_cluster_sum_f64(losses, 2, err);
+    if (rc != IST_OK) {
+        if (rc != IST_ERR_CANCELLED)
+            ist_error_prefix(err, "training over %zu ranks", n);
+        return rc;
+    }
+    sh->trained = sums[0];
+    sh->pairs = sums[1];
+    sh->last_epoch_loss = losses[0];
+    sh->last_epoch_n = (uint64_t)losses[1];
+    if (res) {
+        res->exchange_count = count;
+        res->exchange_seconds = xsec;
+        res->wait_seconds = wsec;
+        res->exchange_bytes = 2 * (uint64_t)cells * sizeof(float);
+    }
+    return IST_OK;
 }
 
 ist_status
@@ -932,6 +1058,8 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
     *in_vectors = NULL;
     if (ctx_vectors)
         *ctx_vectors = NULL;
+    if (res)
+        memset(res, 0, sizeof *res);
     if ((rc = check_opts(o, n_ids, vocab_size, err)) != IST_OK)
         return rc;
     if (o->keep_context && !ctx_vectors)
@@ -956,12 +1084,19 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         goto fail_sync;
     for (size_t t = 0; t < o->threads; t++) {
         ws[t].sh = sh;
-        ws[t].rng = o->seed * 0x9e3779b97f4a7c15u + (uint64_t)t * 0xd1b54a32d192ed03u + 1;
+        ws[t].rng = o->seed * 0x9e3779b97f4a7c15u + (uint64_t)t * 0xd1b54a32d192ed03u + 1 +
+                    (uint64_t)ist_cluster_rank() * 0xa0761d6478bd642fu;
         if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK ||
             (rc = hot_copies(&ws[t], sh, err)) != IST_OK)
             goto fail_sync;
     }
-    if ((rc = run_threads(sh, ws, o, n_ids, err)) != IST_OK)
+    if (ist_cluster_size() > 1)
+        rc = train_ranks(sh, ws, o, n_ids, vocab_size, res, err);
+    else {
+        set_parts(sh, ws, 0, n_ids);
+        rc = run_threads(sh, ws, o, n_ids, err);
+    }
+    if (rc != IST_OK)
         goto fail_sync;
     if (!all_finite(in->data, vocab_size * in->stride)) {
         rc = ist_error_set(err, IST_ERR_NUMERIC, "training diverged (the vectors hold NaN or "
@@ -969,6 +1104,7 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         goto fail_sync;
     }
     if (res) {
+        res->ranks = ist_cluster_size();
         res->words_seen = sh->words_done;
         res->words_trained = sh->trained;
         res->pairs = sh->pairs;

@@ -47,6 +47,11 @@ ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
     ist_jw_str(&w, "kernel", o->kernel == IST_SGNS_REFERENCE ? "reference" : "fast");
     ist_jw_str(&w, "simd", ist_sgns_simd_name());
     ist_jw_bool(&w, "keep_context", o->keep_context);
+    if (res && res->ranks > 1) {
+        ist_jw_uint(&w, "ranks", res->ranks);
+        ist_jw_uint(&w, "exchanges_per_pass", o->exchanges);
+        ist_jw_str(&w, "merge", o->merge == IST_SGNS_MERGE_MEAN ? "mean" : "changes");
+    }
     ist_jw_obj_end(&w);
     if (res) {
         ist_jw_obj_begin(&w, "result");

@@ -14,7 +14,9 @@ A case file holds blocks:
 Usage: run_cases.py ISTHMUS_BINARY FIXTURE_DIR CASE_FILE...
 """
 import fnmatch
+import filecmp
 import os
+import re
 import shutil
 import subprocess
 import sys
@@ -64,6 +66,42 @@ def match_in_order(patterns, lines):
     return None
 
 
+RESULTS_LOADED = [0]
+
+
+def load_results(work, fixtures):
+    """Every result file isthmus wrote in this case loads back (ISTHMUS_RESULT_LOADER);
+    the fixtures copied in, and files a case damages on purpose (named bad-*), are not
+    counted."""
+    loader = os.environ.get("ISTHMUS_RESULT_LOADER")
+    if not loader:
+        return []
+    found = []
+    for root, _, names in os.walk(work):
+        for n in names:
+            path = os.path.join(root, n)
+            try:
+                with open(path, "rb") as f:
+                    head = f.read(64)
+            except OSError:
+                continue
+            if n.startswith("bad-"):
+                continue
+            fixture = os.path.join(fixtures, n)
+            if root == work and os.path.isfile(fixture) and filecmp.cmp(path, fixture, False):
+                continue
+            if re.match(rb'\{\s*"format": "isthmus result",\s*"version"', head):
+                found.append(path)
+    if not found:
+        return []
+    RESULTS_LOADED[0] += len(found)
+    p = subprocess.run([loader] + found, capture_output=True, timeout=120)
+    if p.returncode != 0:
+        return ["a result file it wrote does not load back: " +
+                p.stderr.decode("utf-8", "replace").strip()]
+    return []
+
+
 def run_case(case, binary, fixtures):
     work = tempfile.mkdtemp(prefix="isthmus-cli-")
     try:
@@ -100,6 +138,7 @@ def run_case(case, binary, fixtures):
         for a in case["present"]:
             if not os.path.exists(os.path.join(work, a)):
                 problems.append(f"{a} is missing")
+        problems += load_results(work, fixtures)
         return problems, out, err
     finally:
         shutil.rmtree(work, ignore_errors=True)
@@ -128,6 +167,8 @@ def main():
                 print(f"#   stderr: {l}")
         else:
             print(f"ok {i} - {c['name']}")
+    if os.environ.get("ISTHMUS_RESULT_LOADER"):
+        print(f"# result files written by the cases and loaded back: {RESULTS_LOADED[0]}")
     print(f"# cli: {len(cases) - failed} passed, {failed} failed")
     return 1 if failed else 0
 

@@ -18,7 +18,7 @@ int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
     ist_thresholds *t = NULL, *fixed = NULL;
-    ist_gate_result *r = NULL;
+    ist_result *r = NULL;
     ist_error e;
 
     if (ist_thresholds_parse((const char *)data, size, "fuzz.thresholds", &t, &e) == IST_OK) {
@@ -31,7 +31,7 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     }
     if (ist_thresholds_parse(rules_text, sizeof rules_text - 1, "rules", &fixed, &e) != IST_OK)
         abort();
-    if (ist_gate_result_parse((const char *)data, size, "fuzz.json", &r, &e) == IST_OK) {
+    if (ist_result_parse((const char *)data, size, "fuzz.json", &r, &e) == IST_OK) {
         ist_gate_opts o;
         ist_verdict *v = NULL;
         ist_gate_opts_init(&o);
@@ -46,7 +46,7 @@ LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         } else if (v != NULL || e.msg[0] == '\0') {
             abort();
         }
-        ist_gate_result_free(r);
+        ist_result_free(r);
     } else if (r != NULL || e.msg[0] == '\0') {
         abort();
     }

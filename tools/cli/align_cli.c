@@ -1,4 +1,5 @@
-/* align_cli.c - option handling and tables shared by align, score and lookup. */
+/* align_cli.c - option handling, evaluation and tables shared by the commands that
+ * read two vector files. */
 #include "align_cli.h"
 
 #include <stdlib.h>
@@ -216,36 +217,6 @@ ac_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test,
     return CLI_EXIT_ERROR;
 }
 
-int
-ac_score(const char *cmd, const char *label, const ac_common *c, const ist_map *map,
-         const ist_store *s, const ist_store *t, const ist_pairs *test, ist_result_run *runs,
-         size_t *nruns)
-{
-    ist_matrix *xs = NULL, *zt = NULL;
-    ist_error err;
-    int rc = 0;
-
-    if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK)
-        return cli_report(cmd, &err);
-    for (int m = 0; m < 2; m++) {
-        if (!(c->methods & (m ? AC_CSLS : AC_COSINE)))
-            continue;
-        ist_eval_opts eo = c->eval;
-        eo.search = c->search;
-        eo.method = m ? IST_RETRIEVAL_CSLS : IST_RETRIEVAL_COSINE;
-        ist_result_run *r = &runs[(*nruns)++];
-        r->label = label;
-        if (ist_eval_run(ist_matrix_cview(xs), ist_matrix_cview(zt), test, &eo, &r->m, &err) !=
-            IST_OK) {
-            rc = cli_report(cmd, &err);
-            break;
-        }
-    }
-    ist_matrix_free(xs);
-    ist_matrix_free(zt);
-    return rc;
-}
-
 static void
 band_name(const ist_band *b, char *buf, size_t cap)
 {
@@ -268,110 +239,104 @@ print_interval_row(const char *label, const ist_metrics *m, const char *band, co
     printf("\n");
 }
 
-/* The 95% bootstrap intervals of every figure (the same ones the result JSON holds). */
+/* The bootstrap intervals of every figure (the same ones the result records). */
 static void
-print_intervals(const ist_result_run *runs, size_t n)
+print_intervals(const ist_result *res)
 {
-    ist_ci_opts o;
-    ist_error err;
+    const ist_result_run *first = NULL;
 
-    ist_ci_opts_init(&o);
-    printf("\n95%% intervals (percentile bootstrap, %zu resamples of the queries, seed %llu)\n",
-           o.resamples, (unsigned long long)o.seed);
+    for (size_t i = 0; i < res->nruns && !first; i++)
+        if (res->runs[i].has_ci)
+            first = &res->runs[i];
+    if (!first)
+        return;
+    printf("\n%.0f%% intervals (percentile bootstrap, %zu resamples of the queries, seed %llu)\n",
+           100 * first->ci_opts.level, first->ci_opts.resamples,
+           (unsigned long long)first->ci_opts.seed);
     printf("%-12s %-9s %-14s %-20s %-20s %s\n", "map", "retrieval", "frequency rank", "  P@1",
            "  P@5", "  P@10");
-    for (size_t i = 0; i < n; i++) {
-        const ist_metrics *m = &runs[i].m;
-        ist_metrics_ci ci;
-        if (ist_metrics_ci_compute(m, &o, &ci, &err) != IST_OK)
+    for (size_t i = 0; i < res->nruns; i++) {
+        const ist_result_run *run = &res->runs[i];
+        const ist_metrics *m = &run->m;
+        if (!run->has_ci)
             continue;   /* no per-query outcomes kept */
-        print_interval_row(runs[i].label, m, "all", m->p, ci.lo, ci.hi);
+        print_interval_row(run->label, m, "all", m->p, run->ci.lo, run->ci.hi);
         for (size_t b = 0; b < m->nbands; b++) {
             char name[48];
-            if (m->band[b].queries == 0)
+            if (m->band[b].queries == 0 || !run->band_has_ci[b])
                 continue;
             band_name(&m->band[b], name, sizeof name);
-            print_interval_row(runs[i].label, m, name, m->band[b].p, ci.band_lo[b], ci.band_hi[b]);
+            print_interval_row(run->label, m, name, m->band[b].p, run->ci.band_lo[b],
+                               run->ci.band_hi[b]);
         }
     }
 }
 
 void
-ac_print_runs(const ist_result_run *runs, size_t n)
+ac_print_runs(const ist_result *res)
 {
     printf("\n%-12s %-9s %8s %9s %7s %7s %7s\n", "map", "retrieval", "queries", "coverage",
            "P@1", "P@5", "P@10");
-    for (size_t i = 0; i < n; i++) {
-        const ist_metrics *m = &runs[i].m;
-        printf("%-12s %-9s %8zu %8.1f%% %7.1f %7.1f %7.1f\n", runs[i].label,
+    for (size_t i = 0; i < res->nruns; i++) {
+        const ist_metrics *m = &res->runs[i].m;
+        printf("%-12s %-9s %8zu %8.1f%% %7.1f %7.1f %7.1f\n", res->runs[i].label,
                ist_retrieval_name(m->method), m->queries, 100 * m->coverage, 100 * m->p[0],
                100 * m->p[1], 100 * m->p[2]);
     }
     printf("\n%-12s %-9s %-14s %8s %7s %7s %7s\n", "map", "retrieval", "frequency rank",
            "queries", "P@1", "P@5", "P@10");
-    for (size_t i = 0; i < n; i++) {
-        const ist_metrics *m = &runs[i].m;
+    for (size_t i = 0; i < res->nruns; i++) {
+        const ist_metrics *m = &res->runs[i].m;
         for (size_t b = 0; b < m->nbands; b++) {
             char name[48];
             band_name(&m->band[b], name, sizeof name);
             if (m->band[b].queries == 0)
                 continue;   /* the JSON result lists every band */
-            printf("%-12s %-9s %-14s %8zu %7.1f %7.1f %7.1f\n", runs[i].label,
-                   ist_retrieval_name(m->method), name, m->band[b].queries, 100 * m->band[b].p[0],
-                   100 * m->band[b].p[1], 100 * m->band[b].p[2]);
+            printf("%-12s %-9s %-14s %8zu %7.1f %7.1f %7.1f\n", res->runs[i].label,
+                   ist_retrieval_name(m->method), name, m->band[b].queries,
+                   100 * m->band[b].p[0], 100 * m->band[b].p[1], 100 * m->band[b].p[2]);
         }
     }
-    print_intervals(runs, n);
+    print_intervals(res);
     printf("(precision in percent over covered queries; a query is right at k when any of\n"
            " its gold targets is among its k best targets)\n");
 }
 
 void
-ac_options_json(const ac_common *c, const char *extra, char *buf, size_t cap)
+ac_evaluate_opts(const ac_common *c, ist_evaluate_opts *o)
 {
-    size_t at = (size_t)snprintf(buf, cap,
-                                 "{\"rank_by\":\"%s\",\"csls_k\":%zu,"
-                                 "\"memory_bytes\":%zu,\"threads\":%u,\"allow_overlap\":%s,"
-                                 "\"bands\":[",
-                                 c->methods == AC_BOTH   ? "both"
-                                 : c->methods == AC_CSLS ? "csls"
-                                                         : "cosine",
-                                 c->search.csls_k, c->search.retrieve.budget,
-                                 c->search.retrieve.threads, c->allow_overlap ? "true" : "false");
-    for (size_t i = 0; i < c->eval.nedges && at < cap; i++)
-        at += (size_t)snprintf(buf + at, cap - at, "%s%zu", i ? "," : "", c->eval.band_edges[i]);
-    if (at < cap)
-        snprintf(buf + at, cap - at, "]%s%s}", extra ? "," : "", extra ? extra : "");
+    ist_evaluate_opts_init(o);
+    o->eval = c->eval;
+    o->eval.search = c->search;
+    o->methods = (c->methods & AC_COSINE ? IST_RESULT_COSINE : 0u) |
+                 (c->methods & AC_CSLS ? IST_RESULT_CSLS : 0u);
+    o->allow_overlap = c->allow_overlap;
+    o->diagnostics = c->diagnostics && c->json_out;
+    o->diag = c->diag;
 }
 
 int
-ac_diagnose(const char *cmd, const ac_common *c, const ist_map *map, const ist_store *s,
-            const ist_store *t, const ist_pairs *test, ist_diag **out)
+ac_evaluate(const char *cmd, const ist_map *map, const ist_store *s, const ist_store *t,
+            const ist_pairs *test, const ist_pairs_coverage *cov, const ist_evaluate_opts *o,
+            ist_result **out)
 {
-    ist_matrix *xs = NULL, *zt = NULL;
-    ist_diag_opts o = c->diag;
     ist_error err;
-    int rc = 0;
-
-    *out = NULL;
-    if (!c->diagnostics || !c->json_out)
-        return 0;
-    o.search = c->search;
     double t0 = cli_now();
-    if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK ||
-        ist_diag_run(ist_matrix_cview(xs), ist_matrix_cview(zt), t, test, &o, out, &err) !=
-            IST_OK)
-        rc = cli_report(cmd, &err);
-    ist_matrix_free(xs);
-    ist_matrix_free(zt);
-    if (rc == 0) {
+
+    if (ist_evaluate(map, s, t, test, cov, o, out, &err) != IST_OK)
+        return cli_report(cmd, &err);
+    if ((*out)->nruns)
+        ac_print_runs(*out);
+    const ist_diag *d = (*out)->diagnostics;
+    if (d) {
         printf("\n%-10s hubness skewness (k=10, %zu queries): cosine %.2f, csls %.2f", "diagnose",
-               ist_diag_queries(*out), ist_diag_skewness(*out, IST_RETRIEVAL_COSINE),
-               ist_diag_skewness(*out, IST_RETRIEVAL_CSLS));
-        if (ist_diag_isometry(*out) >= 0)
-            printf("; isometry %.4g", ist_diag_isometry(*out));
+               ist_diag_queries(d), ist_diag_skewness(d, IST_RETRIEVAL_COSINE),
+               ist_diag_skewness(d, IST_RETRIEVAL_CSLS));
+        if (ist_diag_isometry(d) >= 0)
+            printf("; isometry %.4g", ist_diag_isometry(d));
         printf("\n");
-        cli_info("diagnostics in %.1f s\n", cli_now() - t0);
     }
-    return rc;
+    if (test)
+        cli_info("scored%s in %.1f s\n", d ? " and diagnosed" : "", cli_now() - t0);
+    return 0;
 }

@@ -1,5 +1,6 @@
-/* align_cli.h - what align, score and lookup share: retrieval options, opening
- * two vector files, printing coverage and precision tables. */
+/* align_cli.h - what the commands that read two vector files share (align, score,
+ * gate, lookup, propose): retrieval options, opening the files, reading pair lists,
+ * evaluating a map and printing its tables. */
 #ifndef ISTHMUS_ALIGN_CLI_H
 #define ISTHMUS_ALIGN_CLI_H
 
@@ -76,20 +77,17 @@ void ac_print_coverage(const char *what, const char *path, const ist_pairs_cover
 int ac_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test, bool allow,
                      size_t *shared);
 
-/* Score the test list with each method; runs[] gets one entry per method. */
-int ac_score(const char *cmd, const char *label, const ac_common *c, const ist_map *map,
-             const ist_store *s, const ist_store *t, const ist_pairs *test,
-             ist_result_run *runs, size_t *nruns);
-void ac_print_runs(const ist_result_run *runs, size_t n);
+/* Print the precision tables and intervals of a result's runs. */
+void ac_print_runs(const ist_result *res);
 
-/* Diagnostics of a map on a test list (test may be NULL) for the JSON result,
- * when c->diagnostics and c->json_out; *out stays NULL otherwise. Prints a
- * summary line. Returns 0 or the exit status after printing the error. */
-int ac_diagnose(const char *cmd, const ac_common *c, const ist_map *map, const ist_store *s,
-                const ist_store *t, const ist_pairs *test, ist_diag **out);
+/* The evaluation options the shared options ask for (diagnostics only with a JSON
+ * output, where they are recorded). */
+void ac_evaluate_opts(const ac_common *c, ist_evaluate_opts *o);
 
-/* The shared options as a JSON object text into buf; extra (may be NULL) holds
- * more members, already JSON ("\"key\":value,..."). */
-void ac_options_json(const ac_common *c, const char *extra, char *buf, size_t cap);
+/* ist_evaluate(), then print the runs and a diagnostics summary line. Returns 0 or the
+ * exit status after printing the error. */
+int ac_evaluate(const char *cmd, const ist_map *map, const ist_store *s, const ist_store *t,
+                const ist_pairs *test, const ist_pairs_coverage *cov, const ist_evaluate_opts *o,
+                ist_result **out);
 
 #endif

@@ -248,80 +248,45 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
     return 0;
 }
 
+/* Score the map on the test list (before and after refinement) and write the result;
+ * xs, zt: the final map applied already (for --mapped-out), or NULL. */
 static int
 evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
-         const ist_pairs *seeds, ist_pairs *test, const ist_pairs_coverage *tcov,
-         ist_result_run *runs, size_t *nrun_out)
+         const ist_pairs *test, const ist_pairs_coverage *tcov, const ist_matrix *xs,
+         const ist_matrix *zt)
 {
-    size_t nruns = 0, shared = 0;
-    ist_map *seed_only = NULL;
+    ist_result_fit fit = {a->normalise, a->rounds, a->rvocab, a->keep_seeds, a->ident,
+                          a->ident_marked, a->ident_min, a->hold_out, a->split_seed};
+    char label[512];
+    ist_evaluate_opts eo;
+    ist_result *res = NULL;
     ist_error err;
     int rc;
 
-    if (test && ist_pairs_overlap(seeds, test, NULL, 0, &shared, &err) != IST_OK)
-        return cli_report(CMD, &err);
-    if (test) {
-        if (ist_map_seed_only(map, &seed_only, &err) != IST_OK)
-            return cli_report(CMD, &err);
-        rc = ac_score(CMD, "procrustes", &a->c, seed_only, s, t, test, runs, &nruns);
-        ist_map_free(seed_only);
-        if (rc == 0 && ist_map_rounds(map) > 0)
-            rc = ac_score(CMD, "refined", &a->c, map, s, t, test, runs, &nruns);
-        *nrun_out = nruns;
-        if (rc != 0)
-            return rc;
-        ac_print_runs(runs, nruns);
-    }
-    if (!a->c.json_out)
+    if (!test && !a->c.json_out)
         return 0;
-    ist_diag *diag = NULL;
-    if (test && (rc = ac_diagnose(CMD, &a->c, map, s, t, test, &diag)) != 0)
+    ac_evaluate_opts(&a->c, &eo);
+    eo.command = CMD;
+    /* without refinement rounds the final map is the seed fit, labelled procrustes */
+    eo.stages = ist_map_rounds(map) > 0 ? IST_STAGE_SEED | IST_STAGE_FINAL : IST_STAGE_FINAL;
+    eo.record_stages = false;
+    eo.source_path = a->src;
+    eo.target_path = a->tgt;
+    eo.map_path = a->out;
+    eo.seeds_path = a->seeds;
+    if (a->ident) {
+        snprintf(label, sizeof label, "%s%sidentical strings", a->seeds ? a->seeds : "",
+                 a->seeds ? " and " : "");
+        eo.seeds_label = label;
+    }
+    eo.fit = &fit;
+    eo.final_xs = xs;
+    eo.final_zt = zt;
+    if ((rc = ac_evaluate(CMD, map, s, t, test, test ? tcov : NULL, &eo, &res)) != 0)
         return rc;
-    ist_result_info info;
-    char opts[2048], extra[1024], *mj = NULL;
-    memset(&info, 0, sizeof info);
-    snprintf(extra, sizeof extra,
-             "\"standardise\":\"%s\",\"refine_rounds\":%zu,\"refine_vocab\":%zu,"
-             "\"spelt_alike\":%s,\"spelt_alike_min_freq\":%" PRIu64 ",\"spelt_alike_codes_only\":%s,"
-             "\"hold_out\":%g,\"split_seed\":%" PRIu64 ",\"refine_keep_seeds\":%s",
-             a->normalise, a->rounds, a->rvocab, a->ident ? "true" : "false", a->ident_min,
-             a->ident_marked ? "true" : "false", a->hold_out, a->split_seed,
-             a->keep_seeds ? "true" : "false");
-    ac_options_json(&a->c, extra, opts, sizeof opts);
-    if (ist_map_describe(map, &mj, &err) != IST_OK) {
-        ist_diag_free(diag);
-        return cli_report(CMD, &err);
-    }
-    info.command = CMD;
-    info.source_path = a->src;
-    info.target_path = a->tgt;
-    info.source_fingerprint = ist_map_source_fingerprint(map);
-    info.target_fingerprint = ist_map_target_fingerprint(map);
-    info.map_path = a->out;
-    info.seeds_path = a->seeds ? a->seeds : "(identical strings)";
-    info.seeds_checksum = ist_map_seed_checksum(map);
-    if (test) {
-        info.test_path = a->test ? a->test : "(held out from the seeds)";
-        if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
-            ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
-            ist_map_free_text(mj);
-            ist_diag_free(diag);
-            return cli_report(CMD, &err);
-        }
-        info.test_sources = nruns ? runs[0].m.queries : 0;
-        info.test_coverage = *tcov;
-    }
-    info.overlap = shared;
-    info.overlap_allowed = a->c.allow_overlap;
-    info.options_json = opts;
-    info.map_json = mj;
-    info.source = s;
-    info.diagnostics = diag;
-    rc = ist_result_write(a->c.json_out, &info, runs, nruns, &err) == IST_OK
-             ? 0
-             : cli_report(CMD, &err);
-    ist_map_free_text(mj);
-    ist_diag_free(diag);
+    if (a->c.json_out && ist_result_write(res, a->c.json_out, &err) != IST_OK)
+        rc = cli_report(CMD, &err);
+    ist_result_free(res);
     return rc;
 }
 
@@ -332,8 +297,7 @@ run(int argc, char **argv)
     ist_store *s = NULL, *t = NULL;
     ist_pairs *seeds = NULL, *test = NULL;
     ist_pairs_coverage tcov;
-    ist_result_run runs[4];
-    size_t nruns = 0;
+    ist_matrix *xs = NULL, *zt = NULL;
     ist_align_opts ao;
     ist_map *map = NULL;
     ist_error err;
@@ -389,19 +353,17 @@ run(int argc, char **argv)
         goto done;
     }
     if (a.mapped) {
-        ist_matrix *xs = NULL;
-        if (ist_map_apply(map, s, t, &xs, NULL, &err) != IST_OK ||
+        /* applied once: the evaluation below scores these same rows */
+        if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK ||
             ist_map_save_mapped(map, s, xs, a.mapped, &err) != IST_OK) {
-            ist_matrix_free(xs);
             rc = cli_report(CMD, &err);
             goto done;
         }
-        ist_matrix_free(xs);
     }
-    rc = evaluate(&a, map, s, t, seeds, test, &tcov, runs, &nruns);
+    rc = evaluate(&a, map, s, t, test, &tcov, xs, zt);
 done:
-    for (size_t i = 0; i < nruns; i++)
-        ist_metrics_release(&runs[i].m);
+    ist_matrix_free(xs);
+    ist_matrix_free(zt);
     ist_map_free(map);
     ist_pairs_free(seeds);
     ist_pairs_free(test);

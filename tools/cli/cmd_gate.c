@@ -57,50 +57,16 @@ typedef struct args {
     ac_common c;
 } args;
 
-static int
-fill_info(const args *a, char **argv, const ist_map *map, const ist_pairs *test,
-          const ist_pairs_coverage *cov, size_t shared, const ist_store *src,
-          ist_result_info *info, char *opts, size_t cap, char **mj)
-{
-    ist_error err;
-
-    memset(info, 0, sizeof *info);
-    ac_options_json(&a->c, "\"stage\":\"final\"", opts, cap);
-    if (ist_map_describe(map, mj, &err) != IST_OK)
-        return cli_report(CMD, &err);
-    info->command = "score";
-    info->map_path = a->map;
-    info->source_path = argv[0];
-    info->target_path = argv[1];
-    info->test_path = a->test;
-    info->source_fingerprint = ist_map_source_fingerprint(map);
-    info->target_fingerprint = ist_map_target_fingerprint(map);
-    info->seeds_checksum = ist_map_seed_checksum(map);
-    if (ist_pairs_checksum(test, &info->test_checksum, &err) != IST_OK ||
-        ist_pairs_sources_hash(test, &info->test_sources_hash, &err) != IST_OK)
-        return cli_report(CMD, &err);
-    info->test_sources = cov->sources_kept;
-    info->test_coverage = *cov;
-    info->overlap = shared;
-    info->overlap_allowed = a->c.allow_overlap;
-    info->options_json = opts;
-    info->map_json = *mj;
-    info->source = src;
-    return 0;
-}
-
 /* Score SRC and TGT with the map on the test list, as 'score' does, into *out. */
 static int
-compute(const args *a, char **argv, ist_gate_result **out)
+compute(const args *a, char **argv, ist_result **out)
 {
     ist_store *s = NULL, *t = NULL;
     ist_map *map = NULL;
     ist_pairs *test = NULL;
     ist_pairs_coverage cov;
-    ist_result_run runs[2];
-    ist_result_info info;
-    size_t nruns = 0, shared = 0;
-    char opts[2048], *mj = NULL, *text = NULL;
+    ist_evaluate_opts eo;
+    size_t shared = 0;
     ist_error err;
     int rc;
 
@@ -113,25 +79,20 @@ compute(const args *a, char **argv, ist_gate_result **out)
         goto done;
     }
     if ((rc = ac_read_pairs(CMD, "test", a->test, s, t, &test, &cov)) != 0 ||
-        (rc = ac_check_overlap(CMD, ist_map_seeds(map), test, a->c.allow_overlap, &shared)) != 0 ||
-        (rc = ac_score(CMD, ist_map_rounds(map) ? "refined" : "procrustes", &a->c, map, s, t,
-                       test, runs, &nruns)) != 0)
+        (rc = ac_check_overlap(CMD, ist_map_seeds(map), test, a->c.allow_overlap, &shared)) != 0)
         goto done;
-    ac_print_runs(runs, nruns);
-    if ((rc = fill_info(a, argv, map, test, &cov, shared, s, &info, opts, sizeof opts, &mj)) != 0)
+    ac_evaluate_opts(&a->c, &eo);
+    eo.command = "score";
+    eo.name = "(scored now)";
+    eo.ci = a->gate.ci;
+    eo.source_path = argv[0];
+    eo.target_path = argv[1];
+    eo.map_path = a->map;
+    if ((rc = ac_evaluate(CMD, map, s, t, test, &cov, &eo, out)) != 0)
         goto done;
-    if (a->c.json_out && ist_result_write(a->c.json_out, &info, runs, nruns, &err) != IST_OK) {
-        rc = cli_report(CMD, &err);
-        goto done;
-    }
-    if (ist_result_render(&info, runs, nruns, &a->gate.ci, &text, &err) != IST_OK ||
-        ist_gate_result_parse(text, strlen(text), "(scored now)", out, &err) != IST_OK)
+    if (a->c.json_out && ist_result_write(*out, a->c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);
 done:
-    for (size_t i = 0; i < nruns; i++)
-        ist_metrics_release(&runs[i].m);
-    ist_result_free_text(text);
-    ist_map_free_text(mj);
     ist_map_free(map);
     ist_pairs_free(test);
     ist_store_free(s);
@@ -207,9 +168,14 @@ report(const args *a, const ist_verdict *v)
         printf("%s\n", line);
     }
     bool ok = ist_verdict_passed(v);
-    printf("gate: %s (%zu rules: %zu passed, %zu failed, %zu not checked)\n",
-           ok ? "PASS" : "FAIL", ist_verdict_count(v), ist_verdict_tally(v, IST_GATE_PASS),
+    const char *cond = ist_verdict_condition(v, 0);
+    printf("gate: %s%s (%zu rules: %zu passed, %zu failed, %zu not checked", ok ? "PASS" : "FAIL",
+           ok && cond ? " with conditions" : "", ist_verdict_count(v),
+           ist_verdict_tally(v, IST_GATE_PASS),
            ist_verdict_tally(v, IST_GATE_FAIL), ist_verdict_tally(v, IST_GATE_SKIP));
+    printf(")\n");
+    for (size_t i = 0; (cond = ist_verdict_condition(v, i)) != NULL; i++)
+        printf("gate: condition: %s\n", cond);
     fflush(stdout);
     if (a->verdict && ist_verdict_write(v, a->verdict, &err) != IST_OK)
         return cli_report(CMD, &err);
@@ -222,7 +188,7 @@ static int
 run(int argc, char **argv)
 {
     ist_thresholds *rules = NULL;
-    ist_gate_result *res = NULL, *base = NULL;
+    ist_result *res = NULL, *base = NULL;
     ist_verdict *v = NULL;
     ist_error err;
     args a;
@@ -240,13 +206,13 @@ run(int argc, char **argv)
         return rc;
     if (ist_thresholds_read(a.thresholds, &rules, &err) != IST_OK)
         return cli_report(CMD, &err);
-    if (a.baseline && ist_gate_result_load(a.baseline, &base, &err) != IST_OK) {
+    if (a.baseline && ist_result_load(a.baseline, &base, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }
     if (a.map)
         rc = compute(&a, argv + optind, &res);
-    else if (ist_gate_result_load(argv[optind], &res, &err) != IST_OK)
+    else if (ist_result_load(argv[optind], &res, &err) != IST_OK)
         rc = cli_report(CMD, &err);
     if (rc != 0)
         goto done;
@@ -257,8 +223,8 @@ run(int argc, char **argv)
     rc = report(&a, v);
 done:
     ist_verdict_free(v);
-    ist_gate_result_free(res);
-    ist_gate_result_free(base);
+    ist_result_free(res);
+    ist_result_free(base);
     ist_thresholds_free(rules);
     return rc;
 }

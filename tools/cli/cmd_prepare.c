@@ -32,6 +32,8 @@ help(FILE *out)
           "      --strict-utf8       stop at invalid UTF-8 with file, line and byte offset\n"
           "                          [default: replace it with U+FFFD and count it]\n"
           "      --dedup-lines       drop exact repeats of a normalised line [default: kept]\n"
+          CLI_HELP_THREADS
+          "                          (they normalise and segment; the output is the same)\n"
           "  -h, --help              show this help and exit\n"
           "\n"
           "A summary goes to standard output: lines, duplicates removed, tokens, word types\n"
@@ -111,10 +113,12 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
         {"mask-digits", no_argument, NULL, 'D'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'd'},
+        {"threads", required_argument, NULL, 't'},
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
     int c;
+    unsigned threads = 0;
 
     while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
         switch (c) {
@@ -139,10 +143,15 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
         case 'D': o->text.mask_digits = true; break;
         case 'U': o->text.strict_utf8 = true; break;
         case 'd': o->dedup_lines = true; break;
+        case 't':
+            if (!cli_parse_threads("prepare", optarg, &threads))
+                return CLI_EXIT_USAGE;
+            break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default: return cli_usage_error("prepare", "unknown option '%s'", argv[optind - 1]);
         }
     }
+    o->threads = threads ? threads : cli_processors();
     if (!*out)
         return cli_usage_error("prepare", "expected --output OUT");
     if (strcmp(*out, "-") == 0)

@@ -61,8 +61,13 @@ run(int argc, char **argv)
     const char *ins[] = {argv[optind], verdict};
     if ((c = cli_check_files(CMD, ins, 2, &out, 1)) != 0)
         return c;
-    if (ist_report_write(argv[optind], verdict, out, &err) != IST_OK)
+    ist_result *res = NULL;
+    if (ist_result_load(argv[optind], &res, &err) != IST_OK ||
+        ist_report_write(res, verdict, out, &err) != IST_OK) {
+        ist_result_free(res);
         return cli_report(CMD, &err);
+    }
+    ist_result_free(res);
     if (strcmp(out, "-") != 0)
         cli_info("report written to %s\n", out);
     return CLI_EXIT_OK;

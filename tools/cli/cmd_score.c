@@ -38,50 +38,6 @@ help(FILE *out)
 enum { OPT_MAP = 1, OPT_TEST, OPT_STAGE };
 
 static int
-write_json(const ac_common *c, const ist_store *src, char **argv, const char *mpath,
-           const char *tpath, const ist_map *map,
-           const ist_pairs *test, const ist_pairs_coverage *cov, size_t shared,
-           const ist_result_run *runs, size_t nruns, const char *stage, const ist_diag *diag)
-{
-    ist_result_info info;
-    char opts[2048], extra[128], *mj = NULL;
-    ist_error err;
-    int rc;
-
-    memset(&info, 0, sizeof info);
-    snprintf(extra, sizeof extra, "\"stage\":\"%s\"", stage);
-    ac_options_json(c, extra, opts, sizeof opts);
-    if (ist_map_describe(map, &mj, &err) != IST_OK)
-        return cli_report(CMD, &err);
-    info.command = CMD;
-    info.map_path = mpath;
-    info.source_path = argv[0];
-    info.target_path = argv[1];
-    info.test_path = tpath;
-    info.source_fingerprint = ist_map_source_fingerprint(map);
-    info.target_fingerprint = ist_map_target_fingerprint(map);
-    info.seeds_checksum = ist_map_seed_checksum(map);
-    if (ist_pairs_checksum(test, &info.test_checksum, &err) != IST_OK ||
-        ist_pairs_sources_hash(test, &info.test_sources_hash, &err) != IST_OK) {
-        ist_map_free_text(mj);
-        return cli_report(CMD, &err);
-    }
-    info.test_sources = cov->sources_kept;
-    info.test_coverage = *cov;
-    info.overlap = shared;
-    info.overlap_allowed = c->allow_overlap;
-    info.options_json = opts;
-    info.map_json = mj;
-    info.source = src;
-    info.diagnostics = diag;
-    rc = ist_result_write(c->json_out, &info, runs, nruns, &err) == IST_OK
-             ? 0
-             : cli_report(CMD, &err);
-    ist_map_free_text(mj);
-    return rc;
-}
-
-static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
@@ -98,12 +54,12 @@ run(int argc, char **argv)
     static const char *const stages[] = {"final", "seed", "both", NULL};
     const char *mpath = NULL, *tpath = NULL;
     ist_store *s = NULL, *t = NULL;
-    ist_map *map = NULL, *seed_only = NULL;
-    ist_diag *diag = NULL;
+    ist_map *map = NULL;
     ist_pairs *test = NULL;
     ist_pairs_coverage cov;
-    ist_result_run runs[4];
-    size_t nruns = 0, shared = 0;
+    ist_result *res = NULL;
+    ist_evaluate_opts eo;
+    size_t shared = 0;
     ist_error err;
     ac_common c;
     int rc, stage = 0;
@@ -147,29 +103,19 @@ run(int argc, char **argv)
         goto done;
     if ((rc = ac_check_overlap(CMD, ist_map_seeds(map), test, c.allow_overlap, &shared)) != 0)
         goto done;
-    if (stage != 0) {
-        if (ist_map_seed_only(map, &seed_only, &err) != IST_OK) {
-            rc = cli_report(CMD, &err);
-            goto done;
-        }
-        if ((rc = ac_score(CMD, "procrustes", &c, seed_only, s, t, test, runs, &nruns)) != 0)
-            goto done;
-    }
-    if (stage != 1 &&
-        (rc = ac_score(CMD, ist_map_rounds(map) ? "refined" : "procrustes", &c, map, s, t, test,
-                       runs, &nruns)) != 0)
+    ac_evaluate_opts(&c, &eo);
+    eo.command = CMD;
+    eo.stages = stage == 0 ? IST_STAGE_FINAL : stage == 1 ? IST_STAGE_SEED
+                                                           : IST_STAGE_SEED | IST_STAGE_FINAL;
+    eo.source_path = argv[optind];
+    eo.target_path = argv[optind + 1];
+    eo.map_path = mpath;
+    if ((rc = ac_evaluate(CMD, map, s, t, test, &cov, &eo, &res)) != 0)
         goto done;
-    ac_print_runs(runs, nruns);
-    if ((rc = ac_diagnose(CMD, &c, stage == 1 ? seed_only : map, s, t, test, &diag)) != 0)
-        goto done;
-    if (c.json_out)
-        rc = write_json(&c, s, argv + optind, mpath, tpath, map, test, &cov, shared, runs, nruns,
-                        stages[stage], diag);
+    if (c.json_out && ist_result_write(res, c.json_out, &err) != IST_OK)
+        rc = cli_report(CMD, &err);
 done:
-    ist_diag_free(diag);
-    for (size_t i = 0; i < nruns; i++)
-        ist_metrics_release(&runs[i].m);
-    ist_map_free(seed_only);
+    ist_result_free(res);
     ist_map_free(map);
     ist_pairs_free(test);
     ist_store_free(s);

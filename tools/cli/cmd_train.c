@@ -46,6 +46,11 @@ help(FILE *out)
           CLI_HELP_THREADS
           "                          (only 1 gives bit-identical reruns)\n"
           "      --seed=N            random seed [default: 1]\n"
+          "      --exchanges=N       under mpirun: times per pass the ranks average their\n"
+          "                          vectors, 1..1000 (docs/cluster.md) [default: 4]\n"
+          "      --merge=HOW         under mpirun: changes (add up every rank's changes since\n"
+          "                          the last exchange) or mean (average the vectors)\n"
+          "                          [default: changes]\n"
           "      --kernel=K          fast (shared noise words per window, vector kernels) or\n"
           "                          reference (plain per-pair loop) [default: fast]\n"
           "      --keep-context=FILE also write the output (context) vectors to FILE\n"
@@ -166,6 +171,8 @@ parse(int argc, char **argv, train_args *a)
         {"subsample", required_argument, NULL, 's'},
         {"threads", required_argument, NULL, 't'},
         {"seed", required_argument, NULL, 'S'},
+        {"exchanges", required_argument, NULL, 'X'},
+        {"merge", required_argument, NULL, 'G'},
         {"kernel", required_argument, NULL, 'k'},
         {"keep-context", required_argument, NULL, 'K'},
         {"text-copy", required_argument, NULL, 'T'},
@@ -194,6 +201,7 @@ parse(int argc, char **argv, train_args *a)
         {NULL, 0, NULL, 0},
     };
     static const char *const kernels[] = {"fast", "reference", NULL};
+    static const char *const merges[] = {"changes", "mean", NULL};
     static const char *const methods[] = {"skip-gram", "ppmi", "skip-gram+ppmi", NULL};
     static const char *const weightings[] = {"linear", "flat", NULL};
     const char *cmd = "train";
@@ -226,6 +234,11 @@ parse(int argc, char **argv, train_args *a)
             ok = cli_parse_threads(cmd, optarg, &threads);
             break;
         case 'S': ok = cli_parse_u64(cmd, "--seed", optarg, 0, UINT64_MAX, &a->so.seed); break;
+        case 'X': ok = cli_parse_size(cmd, "--exchanges", optarg, 1, 1000, &a->so.exchanges); break;
+        case 'G':
+            ok = cli_parse_choice(cmd, "--merge", optarg, merges, &k);
+            a->so.merge = k == 1 ? IST_SGNS_MERGE_MEAN : IST_SGNS_MERGE_CHANGES;
+            break;
         case 'k':
             ok = cli_parse_choice(cmd, "--kernel", optarg, kernels, &k);
             a->so.kernel = k == 1 ? IST_SGNS_REFERENCE : IST_SGNS_FAST;
@@ -544,6 +557,14 @@ run(int argc, char **argv)
         cli_info("isthmus train: %zu x %zu %s vectors in %.2f s -> %s\n", types, dim,
                  a.method == METHOD_PPMI ? "PPMI" : "combined (skip-gram + PPMI)",
                  cli_now() - t0, a.out);
+    if (res.ranks > 1)
+        cli_info("isthmus train: %u ranks, %llu exchanges of %.1f MB per rank, %.2f s "
+                 "exchanging (%.1f ms each), %.2f s waiting for other ranks\n", res.ranks,
+                 (unsigned long long)res.exchange_count, (double)res.exchange_bytes / 1e6,
+                 res.exchange_seconds,
+                 res.exchange_count ? 1e3 * res.exchange_seconds / (double)res.exchange_count
+                                    : 0.0,
+                 res.wait_seconds);
     return CLI_EXIT_OK;
 }
 

@@ -1,8 +1,10 @@
 /* isthmus.c - the isthmus program: global options, then a subcommand. */
+#include <fcntl.h>
 #include <getopt.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cli.h"
 #include "commands.h"
@@ -60,8 +62,8 @@ find_command(const char *name)
     return NULL;
 }
 
-int
-main(int argc, char **argv)
+static int
+dispatch(int argc, char **argv)
 {
     static const struct option opts[] = {
         {"quiet", no_argument, NULL, 'q'},
@@ -116,4 +118,66 @@ main(int argc, char **argv)
     optind = 0;   /* reset getopt for the subcommand (GNU: 0 re-initialises) */
     opterr = 0;
     return cli_finish(cmd->name, cmd->run(argc, argv));
+}
+
+/* In a job of several ranks (mpirun) only rank 0 speaks: the others print their
+ * data nowhere, show no progress and hold their diagnostics back. A rank that
+ * failed alone (rank 0 succeeded, or is stuck waiting for it) passes its own on. */
+static FILE *held;
+static int real_stderr = -1;
+
+static void
+hold_back_output(void)
+{
+    int null = open("/dev/null", O_WRONLY);
+
+    cli_g.verbosity = -1;
+    cli_g.progress = CLI_PROGRESS_NEVER;
+    fflush(stdout);
+    if (null >= 0) {
+        dup2(null, STDOUT_FILENO);
+        close(null);
+    }
+    held = tmpfile();
+    real_stderr = dup(STDERR_FILENO);
+    if (held && real_stderr >= 0)
+        dup2(fileno(held), STDERR_FILENO);
+}
+
+static void
+pass_on_held(void)
+{
+    char line[1024];
+
+    if (!held || real_stderr < 0)
+        return;
+    fflush(stderr);
+    rewind(held);
+    while (fgets(line, sizeof line, held))
+        dprintf(real_stderr, "rank %u of %u: %s", ist_cluster_rank(), ist_cluster_size(), line);
+}
+
+int
+main(int argc, char **argv)
+{
+    char buf[1024];
+    ist_error err;
+    int rc, first;
+
+    if (ist_cluster_init(&argc, &argv, &err) != IST_OK) {
+        fprintf(stderr, "isthmus: %s\n", ist_error_format(&err, buf, sizeof buf));
+        return CLI_EXIT_ERROR;
+    }
+    if (ist_cluster_rank() > 0)
+        hold_back_output();
+    rc = dispatch(argc, argv);
+    fflush(stdout);
+    if (!ist_cluster_finish(rc, 10.0, &first)) {
+        pass_on_held();
+        ist_cluster_abort(rc ? rc : CLI_EXIT_ERROR);
+    }
+    if (rc != 0 && first == 0)
+        pass_on_held();
+    ist_cluster_finalize();
+    return rc;
 }

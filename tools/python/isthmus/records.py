@@ -128,15 +128,16 @@ def read_result(path):
     """A result JSON written by 'isthmus score' or 'isthmus align --json-out'."""
     d = _load_json(path, "an isthmus result JSON")
     fmt = d.get("format") if isinstance(d, dict) else None
-    if fmt != "isthmus result" or not isinstance(d.get("runs"), list):
-        raise FormatError('expected an isthmus result JSON (format "isthmus result" with '
-                          '"runs"), found %s' % (fmt if isinstance(fmt, str)
-                                                 else "another document"), path)
+    if fmt != "isthmus result":
+        raise FormatError('expected "format": "isthmus result", found %s'
+                          % ('"%s"' % fmt if isinstance(fmt, str) else "none"), path, line=1)
+    if not isinstance(d.get("runs", []), list):
+        raise FormatError('runs: expected an array', path)
     if d.get("version", 1) != 1:
         raise FormatError("result version %s, this reader knows version 1" % d.get("version"),
                           path)
     return Result(path, d.get("command"), d.get("inputs", {}), d.get("test", {}),
-                  d.get("options", {}), d.get("map", {}), [_run(r) for r in d["runs"]],
+                  d.get("options", {}), d.get("map", {}), [_run(r) for r in d.get("runs", [])],
                   d.get("diagnostics"), d)
 
 

@@ -1,8 +1,8 @@
-/* result_ci.c - bootstrap confidence intervals of precision@k and per-query outcomes
- * in the result JSON. Percentile bootstrap: Efron & Tibshirani 1993, "An Introduction
- * to the Bootstrap", ch. 13; paired resampling of two runs on one list: Koehn 2004,
- * "Statistical significance tests for machine translation evaluation". */
-#include <isthmus/metrics.h>
+/* bootstrap.c - confidence intervals of precision@k. Percentile bootstrap: Efron &
+ * Tibshirani 1993, "An Introduction to the Bootstrap", ch. 13; paired resampling of two
+ * runs on one list: Koehn 2004, "Statistical significance tests for machine translation
+ * evaluation". */
+#include <isthmus/bootstrap.h>
 
 #include <math.h>
 #include <stdio.h>
@@ -13,7 +13,6 @@
 
 #include "alloc_int.h"
 #include "error_int.h"
-#include "result_ci_int.h"
 
 void
 ist_ci_opts_init(ist_ci_opts *o)
@@ -240,88 +239,4 @@ ist_metrics_ci_compute(const ist_metrics *m, const ist_ci_opts *opts, ist_metric
         rc = band_ci(m, b, opts, buf, out->band_lo[b], out->band_hi[b], err);
     ist_free(buf);
     return rc;
-}
-
-static void
-write_ci(ist_jw *w, const ist_ci_opts *opts, const double *lo, const double *hi)
-{
-    ist_ci_opts d;
-    if (!opts) {
-        ist_ci_opts_init(&d);
-        opts = &d;
-    }
-    ist_jw_obj_begin(w, "ci");
-    ist_jw_num(w, "level", opts->level);
-    ist_jw_uint(w, "resamples", opts->resamples);
-    ist_jw_uint(w, "seed", opts->seed);
-    for (size_t j = 0; j < IST_METRICS_NK; j++) {
-        char key[16];
-        snprintf(key, sizeof key, "p@%zu", ist_metrics_k(j));
-        ist_jw_arr_begin(w, key);
-        ist_jw_num(w, NULL, lo[j]);
-        ist_jw_num(w, NULL, hi[j]);
-        ist_jw_arr_end(w);
-    }
-    ist_jw_obj_end(w);
-}
-
-static void
-write_one(ist_jw *w, const ist_metrics *m, size_t b, const ist_ci_opts *ci)
-{
-    double lo[IST_METRICS_NK], hi[IST_METRICS_NK];
-    uint8_t *buf;
-
-    if (!m->query_row || !m->query_place)
-        return;
-    if (!(buf = ist_malloc(m->queries + 1))) {
-        w->failed = true;
-        return;
-    }
-    if (band_ci(m, b, ci, buf, lo, hi, NULL) != IST_OK)
-        w->failed = true;
-    else
-        write_ci(w, ci, lo, hi);
-    ist_free(buf);
-}
-
-void
-ist_result_ci_band(ist_jw *w, const ist_metrics *m, size_t b, const ist_ci_opts *ci)
-{
-    write_one(w, m, b, ci);
-}
-
-void
-ist_result_ci_run(ist_jw *w, const ist_metrics *m, const ist_store *src, const ist_ci_opts *ci)
-{
-    if (!m->query_row || !m->query_place)
-        return;
-    write_one(w, m, SIZE_MAX, ci);
-    ist_jw_arr_begin(w, "per_query");
-    for (size_t i = 0; i < m->queries; i++) {
-        size_t row = m->query_row[i], place = m->query_place[i];
-        ist_jw_obj_begin(w, NULL);
-        if (src && row < ist_store_rows(src))
-            ist_jw_str(w, "source", ist_store_word(src, row));
-        ist_jw_uint(w, "rank", place < IST_CI_MISS ? place + 1 : 0);
-        ist_jw_uint(w, "band", ist_metrics_band_of(m, row + 1));
-        ist_jw_uint(w, "frequency_rank", row + 1);
-        ist_jw_obj_end(w);
-    }
-    ist_jw_arr_end(w);
-}
-
-void
-ist_result_ci_test(ist_jw *w, const ist_result_info *info)
-{
-    ist_pairs *p = NULL;
-    uint64_t sum;
-    char hex[17];
-
-    if (!info->test_path || ist_pairs_read(info->test_path, &p, NULL) != IST_OK)
-        return;
-    if (ist_pairs_checksum(p, &sum, NULL) == IST_OK) {
-        snprintf(hex, sizeof hex, "%016llx", (unsigned long long)sum);
-        ist_jw_str(w, "list_checksum", hex);
-    }
-    ist_pairs_free(p);
 }

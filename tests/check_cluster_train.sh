@@ -1,0 +1,78 @@
+#!/bin/sh
+# TAP test: data-parallel training as a job of 2 MPI ranks (docs/cluster.md).
+#   check_cluster_train.sh ISTHMUS MPIRUN SOURCE-ROOT WORK-DIR BUILT-WITH-MPI(yes|no)
+# Rank 0 writes one vector file whose provenance records the rank count and the exchange
+# interval; the summary counts the exchanges (passes x exchanges per pass); a rank stopped
+# on its own (SIGINT to rank 1 only) stops the whole job with a message naming that rank,
+# and no vector file or temporary file is left. Skipped (TAP plan 1..0) without MPI.
+set -u
+isthmus=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
+mpirun=$2
+src=$3
+work=$4
+if [ "${5:-no}" != yes ] || [ -z "$mpirun" ]; then
+    echo "1..0 # SKIP isthmus built without MPI, or no mpirun"
+    exit 0
+fi
+export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
+export OMPI_MCA_btl=self,vader OMPI_MCA_oob_tcp_if_include=lo OMPI_MCA_btl_tcp_if_include=lo
+export OMPI_MCA_btl_vader_single_copy_mechanism=none OMPI_MCA_mpi_yield_when_idle=1
+export OMPI_MCA_hwloc_base_binding_policy=none OMPI_MCA_rmaps_base_oversubscribe=1
+# Open MPI's own start-up allocations are never freed (they would fail a LeakSanitizer run);
+# leaks are checked on the single-process runs, not inside mpirun
+mpi() {
+    ASAN_OPTIONS="${ASAN_OPTIONS:-}:detect_leaks=0" "$mpirun" "$@"
+}
+rm -rf "$work"
+mkdir -p "$work" && cd "$work" || exit 1
+n=0 failed=0
+check() {   # description, command...
+    desc=$1; shift
+    n=$((n + 1))
+    if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
+        echo "not ok $n - $desc"; failed=$((failed + 1)); fi
+}
+echo "1..8"
+gzip -dc "$src/data-samples/tillwick-en.txt.gz" | head -c 300000 > en.txt
+"$isthmus" -q prepare -o en.prep en.txt >/dev/null 2>&1 || exit 1
+mpi -np 2 "$isthmus" train --dimension=16 --passes=3 --exchanges=5 --threads=1 \
+    --seed=7 -o two.isv en.prep >train.out 2>train.err
+trc=$?
+check "2 ranks: training succeeds (exit $trc) and writes the vectors" \
+    sh -c "test $trc -eq 0 && test -s two.isv"
+
+check "... the summary names 2 ranks and 15 exchanges (3 passes x 5)" \
+    grep -q '2 ranks, 15 exchanges' train.err
+"$isthmus" inspect two.isv >inspect.out 2>&1
+check "... the provenance records the ranks, the exchanges per pass and the merge" \
+    grep -q '"ranks":2,"exchanges_per_pass":5,"merge":"changes"' inspect.out
+check "... a whole file: its checksums hold" grep -q 'checksums: *intact' inspect.out
+check "... only rank 0 spoke: one summary line" \
+    sh -c 'test "$(grep -c "words seen" train.err)" -eq 1'
+# a long job, then SIGINT to rank 1 alone once both ranks train
+mpi -np 2 "$isthmus" train --dimension=16 --passes=200 --exchanges=2 --threads=1 \
+    -o stopped.isv en.prep >stop.out 2>stop.err &
+job=$!
+victim=
+for i in $(seq 1 200); do
+    # rank 1 of this job: our program writing stopped.isv in this directory
+    for p in $(pgrep -f "train .*-o stopped.isv" 2>/dev/null); do
+        [ "$(readlink /proc/$p/cwd 2>/dev/null)" = "$(pwd -P)" ] || continue
+        [ "$(readlink /proc/$p/exe 2>/dev/null)" = "$(readlink -f "$isthmus")" ] || continue
+        if tr '\0' '\n' < /proc/$p/environ 2>/dev/null | grep -qx 'OMPI_COMM_WORLD_RANK=1'; then
+            victim=$p
+        fi
+    done
+    [ -n "$victim" ] && break
+    sleep 0.1
+done
+sleep 2
+[ -n "$victim" ] && kill -INT "$victim"
+wait $job
+rc=$?
+check "a rank stopped alone: the job stops with the status of a stop, 130 ($rc)" test $rc -eq 130
+check "... the message names rank 1" grep -q 'rank 1 of 2' stop.err
+check "... no vector file and no temporary file left" \
+    sh -c 'test ! -e stopped.isv && ! ls -a | grep -q "\.tmp-"'
+echo "# cluster-train: $((n - failed)) passed, $failed failed"
+[ $failed -eq 0 ]
