@@ -553,10 +553,16 @@ run(int argc, char **argv)
                  "%.0f words/s; %zu x %zu vectors -> %s\n", (unsigned long long)res.words_seen,
                  (unsigned long long)res.words_trained, res.seconds, res.words_per_sec, types,
                  dim, a.out);
-    else
+    else {
+        if (a.method == METHOD_BOTH)
+            cli_info("isthmus train: skip-gram block: %llu words seen (%llu trained after "
+                     "subsampling) in %.2f s, %.0f words/s\n",
+                     (unsigned long long)res.words_seen, (unsigned long long)res.words_trained,
+                     res.seconds, res.words_per_sec);
         cli_info("isthmus train: %zu x %zu %s vectors in %.2f s -> %s\n", types, dim,
                  a.method == METHOD_PPMI ? "PPMI" : "combined (skip-gram + PPMI)",
                  cli_now() - t0, a.out);
+    }
     if (res.ranks > 1)
         cli_info("isthmus train: %u ranks, %llu exchanges of %.1f MB per rank, %.2f s "
                  "exchanging (%.1f ms each), %.2f s waiting for other ranks\n", res.ranks,
