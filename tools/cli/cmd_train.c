@@ -100,6 +100,7 @@ typedef struct train_args {
     ist_sgns_opts so;
     ist_ppmi_opts po;
     int method;
+    bool method_given;
     double weights[2];
     ist_corpus_opts co;
     bool passes_auto, text_opts_given;
@@ -267,7 +268,10 @@ parse(int argc, char **argv, train_args *a)
         case 1011:
             ok = cli_parse_double(cmd, "--rate-floor", optarg, 1e-9, 1, &a->so.lr_floor);
             break;
-        case 1000: ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method); break;
+        case 1000:
+            ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method);
+            a->method_given = true;
+            break;
         case 1001: ok = parse_weights(cmd, optarg, a->weights); break;
         case 1002:
             ok = cli_parse_size(cmd, "--ppmi-dimension", optarg, 1, 10000, &a->po.dim);
@@ -304,6 +308,13 @@ parse(int argc, char **argv, train_args *a)
     a->so.threads = threads ? threads : cli_processors();
     if (!a->out)
         return cli_usage_error(cmd, "expected --output OUT");
+    /* the PPMI trainer does not run across ranks: under mpirun the default is skip-gram */
+    if (ist_cluster_size() > 1 && a->method != METHOD_SGNS) {
+        if (a->method_given)
+            return cli_usage_error(cmd, "under mpirun only --method=skip-gram is trained across "
+                                        "ranks");
+        a->method = METHOD_SGNS;
+    }
     if (a->ctx_out && a->method != METHOD_SGNS)
         return cli_usage_error(cmd, "--keep-context needs --method=skip-gram (PPMI and combined "
                                     "vectors have no context vectors)");
