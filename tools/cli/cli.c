@@ -3,6 +3,7 @@
 
 #include <errno.h>
 #include <fcntl.h>
+#include <poll.h>
 #include <math.h>
 #include <signal.h>
 #include <stdarg.h>
@@ -166,6 +167,9 @@ cli_install_signals(void)
     sigemptyset(&sa.sa_mask);
     sigaction(SIGINT, &sa, NULL);
     sigaction(SIGTERM, &sa, NULL);
+    /* a reader that stops early (| head) must not kill the run before its files are moved
+     * into place: writes to it fail with EPIPE instead, and cli_finish() takes that calmly */
+    signal(SIGPIPE, SIG_IGN);
 }
 
 bool
@@ -359,12 +363,23 @@ finish_group(const char *cmd, int rc)
     return rc;
 }
 
+/* Standard output is a pipe whose reader has gone. */
+static bool
+reader_gone(int e)
+{
+    struct pollfd p = {STDOUT_FILENO, POLLOUT, 0};
+    return e == EPIPE || (poll(&p, 1, 0) == 1 && (p.revents & POLLERR));
+}
+
 int
 cli_finish(const char *cmd, int rc)
 {
     errno = 0;
     if (fflush(stdout) != 0 || ferror(stdout)) {
         int e = errno;
+        if (reader_gone(e))   /* the reader took what it wanted (| head): not a failure */
+            return rc == CLI_EXIT_OK || rc == CLI_EXIT_GATE ? finish_group(cmd, rc)
+                                                           : (ist_output_discard(), rc);
         size_t n = ist_output_waiting();
         cli_progress_done();
         fprintf(stderr, "isthmus %s: standard output: cannot write%s%s%s\n", cmd,
