@@ -210,10 +210,10 @@ check(not ver.passed and [c.outcome for c in ver.rules] == printed == ["pass", "
 # --- JUnit report, read back with the standard library's XML parser ---------------------
 import xml.etree.ElementTree as ET  # noqa: E402
 run("gate", "--thresholds=syn.thresholds", "--junit-out=gate.xml", "result.json", ok=(3,))
-root = ET.parse("gate.xml").getroot()
-suites = root.findall("testsuite")
+xroot = ET.parse("gate.xml").getroot()
+suites = xroot.findall("testsuite")
 cases_xml = suites[0].findall("testcase") if len(suites) == 1 else []
-check(root.tag == "testsuites" and len(suites) == 1 and len(cases_xml) == len(ver.rules),
+check(xroot.tag == "testsuites" and len(suites) == 1 and len(cases_xml) == len(ver.rules),
       "the JUnit report parses: one testsuite, one testcase per rule (%d)" % len(cases_xml))
 kinds = []
 for c in cases_xml:
@@ -225,11 +225,31 @@ check(kinds == [c.outcome for c in ver.rules] and names_ok,
       "each testcase has the rule's line and words, failure/skipped as the verdict says", kinds)
 tally = [int(suites[0].get(k)) for k in ("tests", "failures", "skipped", "errors")]
 check(tally == [len(ver.rules), ver.rules_failed, ver.rules_skipped, 0] and
-      root.get("failures") == suites[0].get("failures"),
+      xroot.get("failures") == suites[0].get("failures"),
       "the testsuite counts agree with the verdict %s" % tally)
 fail = [c for c in cases_xml if c.find("failure") is not None][0].find("failure")
 check("0.999" in fail.get("message") and "%.3f" % ver.rules[2].figure in fail.get("message"),
       "the failure message gives the figure and the bound", fail.get("message"))
+
+# --- the pipeline step of docs/ci.md, as printed there ---------------------------------
+doc = open(os.path.join(root, "docs", "ci.md"), encoding="utf-8").read()
+step = re.search(r"```sh\n(.*?)```", doc, re.S).group(1)
+ci = os.path.join(work, "ci")
+os.makedirs(os.path.join(ci, "release"))
+for a, b in (("syn.thresholds", "release/shop.thresholds"), ("result.json",
+             "release/baseline.json"), ("test.pairs", "release/test.pairs"),
+             ("syn.map", "shop.map"), ("src.isv", "en.isv"), ("tgt.isv", "es.isv")):
+    shutil.copy(os.path.join(work, a), os.path.join(ci, b))
+p = subprocess.run(["sh", "-c", step], cwd=ci, capture_output=True, text=True,
+                   env=dict(os.environ, ISTHMUS=isthmus_exe))
+made = sorted(os.listdir(os.path.join(ci, "gate-out"))) if os.path.isdir(
+    os.path.join(ci, "gate-out")) else []
+xml_cases = len(ET.parse(os.path.join(ci, "gate-out", "gate.xml")).findall(".//testcase")) \
+    if "gate.xml" in made else 0
+check(p.returncode == 3 and "gate failed" in p.stdout and made == [
+      "gate.xml", "report.html", "result.json", "verdict.json"] and xml_cases == 4,
+      "the CI step of docs/ci.md runs as printed: exit 3 on a failed rule, with its four files",
+      "exit %d\n%s\n%s\n%s" % (p.returncode, p.stdout[-500:], p.stderr[-500:], made))
 
 # --- candidates -----------------------------------------------------------------------
 run("propose", "src.isv", "tgt.isv", "--map=syn.map", "--exclude=test.pairs",
