@@ -2,8 +2,11 @@
 #include "harness.h"
 
 #include <errno.h>
+#include <stdlib.h>
+#include <unistd.h>
 
 #include <isthmus/error.h>
+#include <isthmus/filekind.h>
 
 #include "error_int.h"
 
@@ -62,6 +65,59 @@ format_truncates_safely(void **state)
     assert_int_equal(strlen(small), 7);
 }
 
+#define CLASSIFY(lit) ist_file_classify((const unsigned char *)(lit), sizeof(lit) - 1)
+
+/* The project's own signatures, its JSON kinds and binary bytes are told apart
+ * from the first bytes alone. */
+static void
+file_kinds_by_first_bytes(void **state)
+{
+    (void)state;
+    assert_int_equal(CLASSIFY("ISTHMUSV\x01\0\0\0"), IST_FILE_VECTORS);
+    assert_int_equal(CLASSIFY("ISTHMUSM\x01\0\0\0"), IST_FILE_MAP);
+    assert_int_equal(CLASSIFY("ISTPREP\x1a\x01\0"), IST_FILE_PREPARED);
+    assert_int_equal(CLASSIFY("ISTHMUSQ\0\0"), IST_FILE_OWN_BINARY);
+    assert_int_equal(CLASSIFY("{\n  \"format\": \"isthmus result\",\n"), IST_FILE_RESULT);
+    assert_int_equal(CLASSIFY("{\"format\":\"isthmus verdict\"}"), IST_FILE_VERDICT);
+    assert_int_equal(CLASSIFY("{\"format\":\"isthmus resultant\"}"), IST_FILE_JSON);
+    assert_int_equal(CLASSIFY("{\"runs\": []}"), IST_FILE_JSON);
+    assert_int_equal(CLASSIFY("# isthmus candidate list: ...\n"), IST_FILE_CANDIDATES);
+    assert_int_equal(CLASSIFY("kettle\thervidor\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY("caf\xc3\xa9 caf\xc3\xa9\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY("\xef\xbb\xbfkettle\thervidor\n"), IST_FILE_TEXT);
+    /* binary: at least 8 bytes that text never holds, and at least 1 in 20 */
+    assert_int_equal(CLASSIFY("ab\0\0\0\0\0\0\0\0cd"), IST_FILE_BINARY);
+    assert_int_equal(CLASSIFY("\x01\x02\x03\x04\xff\xfe\xfd\x80 text"), IST_FILE_BINARY);
+    /* a stray NUL or a Latin-1 word stays text, for the reader to name its line */
+    assert_int_equal(CLASSIFY("kettle\ttetera\n\0up taza\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY("uno one\ncaf\xe9 coffee\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY(""), IST_FILE_UNKNOWN);
+}
+
+/* ist_file_expect names what it found, who reads it, and what was wanted. */
+static void
+file_expect_names_kind_and_reader(void **state)
+{
+    char path[] = "/tmp/isthmus-kind-XXXXXX";
+    ist_error e;
+    int fd;
+
+    (void)state;
+    fd = mkstemp(path);
+    assert_true(fd >= 0);
+    assert_int_equal(write(fd, "ISTHMUSM\x01\0\0\0rest", 15), 15);
+    close(fd);
+    assert_int_equal(ist_file_expect(path, IST_FILE_ANY_TEXT, 1, "a pair list", &e),
+                     IST_ERR_FORMAT);
+    assert_string_equal(e.file, path);
+    assert_non_null(strstr(e.msg, "this is a map file (written by 'isthmus align'; read with "
+                                  "--map by score, lookup, propose and gate), not a pair list"));
+    assert_int_equal(ist_file_expect(path, IST_FILE_BIT(IST_FILE_MAP), 0, "a map", &e), IST_OK);
+    unlink(path);
+    /* a missing file is left to the reader to report */
+    assert_int_equal(ist_file_expect(path, IST_FILE_ANY_TEXT, 1, "a pair list", &e), IST_OK);
+}
+
 int
 main(void)
 {
@@ -70,6 +126,8 @@ main(void)
         cmocka_unit_test(prefix_keeps_cause),
         cmocka_unit_test(null_record_is_fine),
         cmocka_unit_test(format_truncates_safely),
+        cmocka_unit_test(file_kinds_by_first_bytes),
+        cmocka_unit_test(file_expect_names_kind_and_reader),
     };
     HARNESS_RUN("error", tests);
 }

@@ -397,9 +397,9 @@ one_thread_bits_unchanged(void **state)
             continue;
         }
         o.kernel = k == 2 ? IST_SGNS_REFERENCE : IST_SGNS_FAST;
-        setenv("ISTHMUS_SIMD", sets[k], 1);
+        o.simd = sets[k];
         ist_matrix *ctx = NULL, *m = train(&c, &o, &ctx);
-        unsetenv("ISTHMUS_SIMD");
+        o.simd = NULL;
         uint64_t h = matrix_fnv(m) ^ (matrix_fnv(ctx) * 31u);
         printf("# one thread, %s kernel, %s set: checksum %016llx\n",
                k == 2 ? "reference" : "fast", sets[k], (unsigned long long)h);
@@ -444,13 +444,12 @@ portable_matches_simd(void **state)
     o.dim = 64;
     o.epochs = 1;
     o.subsample = 0;
-    unsetenv("ISTHMUS_SIMD");
-    const char *best = ist_sgns_simd_name();
+    const char *best = ist_sgns_simd_name(NULL);
     ist_matrix *a = train(&c, &o, NULL);
-    setenv("ISTHMUS_SIMD", "portable", 1);
-    assert_string_equal(ist_sgns_simd_name(), "portable");
+    o.simd = "portable";
+    assert_string_equal(ist_sgns_simd_name(o.simd), "portable");
     ist_matrix *b = train(&c, &o, NULL);
-    unsetenv("ISTHMUS_SIMD");
+    o.simd = NULL;
     double cs = mean_cosine(a, b);
     printf("# portable vs %s: mean cosine of corresponding vectors %.8f\n", best, cs);
     if (strcmp(best, "portable") == 0) {
@@ -481,10 +480,9 @@ fast_equals_reference_quality(void **state)
     const char *names[3] = {"fast", "reference", "fast-portable"};
     for (int k = 0; k < 3; k++) {
         o.kernel = k == 1 ? IST_SGNS_REFERENCE : IST_SGNS_FAST;
-        if (k == 2)
-            setenv("ISTHMUS_SIMD", "portable", 1);
+        o.simd = k == 2 ? "portable" : NULL;
         ist_matrix *m = train(&c, &o, NULL);
-        unsetenv("ISTHMUS_SIMD");
+        o.simd = NULL;
         acc[k] = nn_accuracy(m, 40, 10);
         printf("# planted clusters, %s kernel: nearest-neighbour accuracy %.3f\n", names[k],
                acc[k]);

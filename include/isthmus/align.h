@@ -56,6 +56,9 @@ typedef struct ist_align_opts {
     size_t refine_vocab;          /* N most frequent words of each side [5000] */
     bool refine_keep_seeds;       /* refit on induced pairs plus the seed pairs [false] */
     double min_gain;              /* a round must raise the mean CSLS by more [1e-4] */
+    size_t min_seed_pairs;        /* refuse fewer kept seed pairs; 0 = the dimension [0]:
+                                     fewer pairs than dimensions leave the rotation
+                                     undetermined outside the span of the seeds */
     ist_search_opts search;       /* CSLS k, tile memory and threads */
     ist_align_round_fn on_round;  /* called after each round; may be NULL */
     void *ctx;

@@ -3,6 +3,7 @@
 #define ISTHMUS_ISTHMUS_H
 
 #include <isthmus/error.h>
+#include <isthmus/filekind.h>
 #include <isthmus/cancel.h>
 #include <isthmus/output.h>
 #include <isthmus/matrix.h>

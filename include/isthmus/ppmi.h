@@ -34,16 +34,12 @@
 #include <stdbool.h>
 #include <stddef.h>
 #include <stdint.h>
+#include <isthmus/corpus.h>            /* IST_CORPUS_EOL */
 #include <isthmus/error.h>
 #include <isthmus/matrix.h>
 
 #ifdef __cplusplus
 extern "C" {
-#endif
-
-#ifndef IST_CORPUS_EOL
-/** Line separator in a token-id stream: windows never cross it. */
-#define IST_CORPUS_EOL UINT32_MAX
 #endif
 
 typedef enum ist_ppmi_weighting {

@@ -42,16 +42,12 @@
 #include <stdbool.h>
 #include <stddef.h>
 #include <stdint.h>
+#include <isthmus/corpus.h>            /* IST_CORPUS_EOL */
 #include <isthmus/error.h>
 #include <isthmus/matrix.h>
 
 #ifdef __cplusplus
 extern "C" {
-#endif
-
-#ifndef IST_CORPUS_EOL
-/** Line separator in a token-id stream: windows never cross it. */
-#define IST_CORPUS_EOL UINT32_MAX
 #endif
 
 typedef enum ist_sgns_kernel {
@@ -92,6 +88,9 @@ typedef struct ist_sgns_opts {
     int merge;
     uint64_t seed;           /* random seed [default 1] */
     ist_sgns_kernel kernel;  /* [default IST_SGNS_FAST] */
+    const char *simd;        /* instruction set of the FAST kernel: "portable", "avx2" or
+                                "avx512" (one the CPU lacks falls back to the best it has);
+                                NULL: the best this CPU has [default NULL] */
     bool keep_context;       /* also return the output (context) vectors [default false] */
     /* Called from the calling thread about every 0.25 s; return non-zero to cancel
      * (ist_sgns_train then returns IST_ERR_CANCELLED). May be NULL. */
@@ -158,9 +157,10 @@ IST_API void ist_sgns_free(void *p);
 IST_API size_t ist_sgns_auto_passes(uint64_t tokens);
 
 /** Name of the vector instruction set the FAST kernel uses on this machine ("avx512",
- *  "avx2", "portable"). The environment variable ISTHMUS_SIMD=portable|avx2|avx512 forces
- *  one (a set the CPU lacks falls back to the best it has). */
-IST_API const char *ist_sgns_simd_name(void);
+ *  "avx2", "portable") when ist_sgns_opts.simd is request (NULL: the best it has). The
+ *  library reads no environment variable; the isthmus program sets the option from
+ *  ISTHMUS_SIMD. */
+IST_API const char *ist_sgns_simd_name(const char *request);
 
 #ifdef __cplusplus
 }

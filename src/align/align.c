@@ -278,6 +278,15 @@ ist_align_fit(const ist_store *src, const ist_store *tgt, const ist_pairs *seeds
     m->neighbourhood = opts->search.csls_k;
     if ((rc = seed_rows(seeds, &arow, &brow, &n, err)) != IST_OK)
         goto fail;
+    size_t need = opts->min_seed_pairs ? opts->min_seed_pairs : m->dim;
+    if (n < need) {
+        rc = ist_error_set(err, IST_ERR_INVALID,
+                           "align: %zu seed pair%s kept, fewer than the minimum of %zu (%s): "
+                           "the fit would be undetermined",
+                           n, n == 1 ? "" : "s", need,
+                           opts->min_seed_pairs ? "asked for" : "the vector dimension");
+        goto fail;
+    }
     m->seed_n = n;
     if ((rc = copy_seed_words(seeds, &m->seeds, err)) != IST_OK)
         goto fail;

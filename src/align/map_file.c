@@ -1,5 +1,6 @@
 /* map_file.c - the map file (docs/formats.md, "Map file") and mapped vector files. */
 #include <isthmus/align.h>
+#include <isthmus/filekind.h>
 
 #include <errno.h>
 #include <inttypes.h>
@@ -413,10 +414,16 @@ parse_map(const unsigned char *p, size_t len, const char *path, ist_map *m, ist_
     ist_jv *meta = NULL;
     ist_status rc;
 
-    if (len < MAP_HEADER + 8 || memcmp(p, MAP_MAGIC, 8) != 0)
+    if (len < MAP_HEADER + 8 || memcmp(p, MAP_MAGIC, 8) != 0) {
+        ist_file_kind k = ist_file_classify(p, len < 8192 ? len : 8192);
+        if (k == IST_FILE_VECTORS || k == IST_FILE_PREPARED || k == IST_FILE_RESULT ||
+            k == IST_FILE_VERDICT || k == IST_FILE_CANDIDATES)
+            return ist_error_at(err, IST_ERR_FORMAT, path, 0, "this is %s (%s), not a map file",
+                                ist_file_kind_name(k), ist_file_kind_use(k));
         return ist_error_at(err, IST_ERR_FORMAT, path, 0,
                             "expected an isthmus map file (magic %s), found other bytes",
                             MAP_MAGIC);
+    }
     uint32_t ver = (uint32_t)get_u64(p + 8) & 0xffffffffu;
     uint32_t dim = (uint32_t)(get_u64(p + 8) >> 32);
     uint64_t ml = get_u64(p + 16);

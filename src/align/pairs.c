@@ -1,5 +1,6 @@
 /* pairs.c - bilingual word lists: parse, resolve against two stores, split, overlap. */
 #include <isthmus/pairs.h>
+#include <isthmus/filekind.h>
 
 #include <math.h>
 #include <stdio.h>
@@ -211,6 +212,9 @@ ist_pairs_read(const char *path, ist_pairs **out, ist_error *err)
     bool eof = false;
 
     *out = NULL;
+    if ((rc = ist_file_expect(path, IST_FILE_ANY_TEXT, 1, "a pair list",
+                              err)) != IST_OK)
+        return rc;
     rc = ist_reader_open(path, PAIRS_MAX_LINE, &r, err);
     if (rc != IST_OK)
         return rc;
@@ -383,7 +387,7 @@ normalise_side(ist_pairs *p, const ist_store *s, bool source, bool *exact, ist_e
     ist_status rc = ist_pairs_norm_open(s, &nz, exact, err);
 
     for (size_t i = 0; rc == IST_OK && i < p->n && !*exact; i++) {
-        size_t off = source ? p->v[i].s_off : p->v[i].t_off, len, noff;
+        size_t off = source ? p->v[i].s_off : p->v[i].t_off, len, noff = 0;
         const char *w;
         rc = ist_pairs_norm_word(nz, p->pool + off, strlen(p->pool + off), &w, &len, err);
         if (rc != IST_OK) {

@@ -1,6 +1,7 @@
 /* result_load.c - read a result JSON back into the typed record, checking every member
  * it holds: type, range and consistency (docs/formats.md, "Result JSON"). */
 #include <isthmus/result.h>
+#include <isthmus/filekind.h>
 
 #include <math.h>
 #include <stdarg.h>
@@ -584,7 +585,10 @@ ist_result_load(const char *path, ist_result **out, ist_error *err)
     ist_status rc;
 
     *out = NULL;
-    if ((rc = ist_json_parse_file(path, &root, err)) != IST_OK)
+    if ((rc = ist_file_expect(path, IST_FILE_BIT(IST_FILE_RESULT) | IST_FILE_BIT(IST_FILE_JSON) |
+                                        IST_FILE_BIT(IST_FILE_VERDICT) | IST_FILE_ANY_TEXT,
+                              1, "a result file", err)) != IST_OK ||
+        (rc = ist_json_parse_file(path, &root, err)) != IST_OK)
         return rc;
     rc = from_tree(root, path, out, err);
     ist_jv_free(root);

@@ -1,5 +1,6 @@
 /* gate_rules.c - the thresholds file: one rule a line (docs/formats.md "Thresholds file"). */
 #include <isthmus/gate.h>
+#include <isthmus/filekind.h>
 
 #include <errno.h>
 #include <stdio.h>
@@ -372,6 +373,9 @@ ist_thresholds_read(const char *path, ist_thresholds **out, ist_error *err)
     bool eof = false;
 
     *out = NULL;
+    if ((rc = ist_file_expect(path, IST_FILE_ANY_TEXT, 1, "a thresholds file",
+                              err)) != IST_OK)
+        return rc;
     if ((rc = new_thresholds(path, &t, err)) != IST_OK)
         return rc;
     if ((rc = ist_reader_open(path, MAX_LINE, &rd, err)) != IST_OK)

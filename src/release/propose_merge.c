@@ -1,6 +1,7 @@
 /* propose_merge.c - reviewed candidate lists back into a pair file: decisions,
  * duplicates, conflicts, and the new file with the seed lines first. */
 #include <isthmus/propose.h>
+#include <isthmus/filekind.h>
 
 #include <stdarg.h>
 #include <stdio.h>
@@ -436,8 +437,11 @@ static ist_status
 read_reviewed(merger *m, size_t file, ist_error *err)
 {
     const char *path = m->files[file];
-    ist_reader *r;
-    ist_status rc = ist_reader_open(path, MAX_LINE, &r, err);
+    ist_reader *r = NULL;
+    ist_status rc = ist_file_expect(path, IST_FILE_BIT(IST_FILE_CANDIDATES) | IST_FILE_ANY_TEXT, 1,
+                                    "a reviewed candidate list", err);
+    if (rc == IST_OK)
+        rc = ist_reader_open(path, MAX_LINE, &r, err);
     bool header = false, eof;
     char *line, *f[MAX_FIELDS];
     size_t len;

@@ -1,5 +1,6 @@
 /* store.c - the word-vector table: accessors, building, format dispatch. */
 #include <isthmus/store.h>
+#include <isthmus/filekind.h>
 
 #include <errno.h>
 #include <fcntl.h>
@@ -392,6 +393,10 @@ ist_store_open(const char *path, const ist_store_opts *opts, ist_store **out, is
         return rc;
     }
     close(fd);
+    if ((rc = ist_file_expect(path, IST_FILE_ANY_TEXT | IST_FILE_BIT(IST_FILE_OWN_BINARY), 1,
+                              "a vector file",
+                              err)) != IST_OK)
+        return rc;
     if (got >= 7 && memcmp(magic, IST_NATIVE_MAGIC, 7) == 0)
         return ist_error_at_offset(err, IST_ERR_FORMAT, path, 0,
                                    "not a native vector file this build knows: magic '%.8s', "

@@ -2,6 +2,7 @@
  * an optional first line "rows dim". Plain or gzip. */
 #include <isthmus/store.h>
 
+#include <stdio.h>
 #include <string.h>
 
 #include <isthmus/cancel.h>
@@ -199,6 +200,29 @@ parse_row(text_ctx *c, char *line, size_t len, ist_error *err)
     return IST_OK;
 }
 
+/* Are most fields after the first not numbers (as in raw text)? */
+static bool
+mostly_words(const char *line, size_t len)
+{
+    const char *p = line, *end = line + len;
+    size_t fields = 0, numbers = 0;
+    float v;
+
+    while (p < end) {
+        while (p < end && is_sep(*p))
+            p++;
+        if (p == end)
+            break;
+        const char *q;
+        bool num = ist_parse_float(p, &q, &v) != IST_FPARSE_NOT_NUMBER && (q == end || is_sep(*q));
+        while (p < end && !is_sep(*p))
+            p++;
+        if (fields++ > 0)
+            numbers += num;
+    }
+    return fields > 1 && numbers * 2 < fields - 1;
+}
+
 ist_status
 ist_store_open_text(const char *path, const ist_store_opts *o, ist_store **out, ist_error *err)
 {
@@ -286,6 +310,13 @@ ist_store_open_text(const char *path, const ist_store_opts *o, ist_store **out, 
             goto fail;
         }
         rc = parse_row(&c, line, len, err);
+        if (rc == IST_ERR_FORMAT && c.s->rows == 0 && mostly_words(line, len)) {
+            /* the first row is mostly words, not numbers: not a vector table at all */
+            size_t at = strlen(err->msg);
+            snprintf(err->msg + at, sizeof err->msg - at,
+                     "; this does not look like a vector table ('WORD x1 x2 ...' a line): raw "
+                     "text is read by 'isthmus prepare' and 'isthmus train'");
+        }
         if (rc != IST_OK)
             goto fail;
         if (o->max_rows && c.s->rows == o->max_rows)

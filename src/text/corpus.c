@@ -5,6 +5,7 @@
  * the id stream goes to an unnamed temporary file there instead and is
  * renumbered while it is saved (corpus_file.c). */
 #include <isthmus/corpus.h>
+#include <isthmus/filekind.h>
 
 #include <errno.h>
 #include <fcntl.h>
@@ -604,7 +605,7 @@ pool_start(build *b, size_t workers, pool **out, ist_error *err)
         pl->args[k].pl = pl;
         pl->args[k].k = k;
         if (pthread_create(&pl->th[k], NULL, segment_worker, &pl->args[k]) != 0)
-            rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start segmenting thread %zu",
+            rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start segmenting thread %zu",
                                k + 1);
         else
             pl->started++;
@@ -737,6 +738,10 @@ read_file(build *b, const char *path, ist_error *err)
     char hex[9];
     ist_status rc;
 
+    rc = ist_file_expect(path, IST_FILE_ANY_TEXT | IST_FILE_BIT(IST_FILE_JSON), 1,
+                         "raw text", err);
+    if (rc != IST_OK)
+        return rc;
     rc = crc_open(&cf, path, err);
     if (rc != IST_OK)
         return rc;

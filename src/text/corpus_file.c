@@ -2,6 +2,7 @@
  * stream memory-mapped. Layout (little-endian) in docs/formats.md, section
  * "Prepared corpus"; a CRC-32 over everything before the trailer guards it. */
 #include <isthmus/corpus.h>
+#include <isthmus/filekind.h>
 
 #include <errno.h>
 #include <fcntl.h>
@@ -388,6 +389,9 @@ ist_corpus_open(const char *path, ist_corpus **out, ist_error *err)
     *out = NULL;
     if (!little_endian())
         return ist_error_set(err, IST_ERR_INVALID, "prepared corpora need a little-endian host");
+    if ((rc = ist_file_expect(path, IST_FILE_BIT(IST_FILE_PREPARED) | IST_FILE_BIT(IST_FILE_UNKNOWN),
+                              0, "a prepared corpus", err)) != IST_OK)
+        return rc;
     fd = open(path, O_RDONLY | O_CLOEXEC);
     if (fd < 0)
         return ist_error_sys(err, IST_ERR_IO, path, "cannot open for reading");

@@ -334,7 +334,7 @@ count_pairs(const uint32_t *ids, size_t n_ids, size_t vocab, const ist_ppmi_opts
     }
     for (size_t t = 0; t < T && rc == IST_OK; t++) {
         if (pthread_create(&cs[t].thread, NULL, counter_main, &cs[t]) != 0)
-            rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start counting thread %zu",
+            rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start counting thread %zu",
                                t + 1);
         else
             cs[t].started = true;
@@ -548,7 +548,7 @@ spmm(const csr *m, bool transpose, const double *x, double *y, size_t l, size_t 
     size_t started = 0;
     for (; started < T; started++)
         if (pthread_create(&js[started].thread, NULL, spmm_main, &js[started]) != 0) {
-            rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start thread %zu",
+            rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start thread %zu",
                                started + 1);
             atomic_store(&stop, 1);
             break;

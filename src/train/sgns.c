@@ -861,7 +861,7 @@ run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_er
     sh->finished = 0;
     for (size_t t = 0; t < sh->nthreads; t++) {
         if (pthread_create(&ws[t].thread, NULL, worker_main, &ws[t]) != 0) {
-            rc = ist_error_sys(err, IST_ERR_INTERNAL, NULL, "cannot start training thread %zu",
+            rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start training thread %zu",
                                t + 1);
             pthread_mutex_lock(&sh->lock);
             sh->finished += sh->nthreads - t;     /* the ones never started */
@@ -915,7 +915,7 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->in = in->data;
     sh->out = out->data;
     sh->keep = keep;
-    sh->simd = ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"));
+    sh->simd = ist_sgns_simd_pick(o->simd);
     sh->kernel = o->kernel;
     sh->lr0 = o->lr0;
     sh->lr_floor = o->lr_floor;

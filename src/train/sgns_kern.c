@@ -143,7 +143,7 @@ ist_sgns_simd_pick(const char *name)
 }
 
 const char *
-ist_sgns_simd_name(void)
+ist_sgns_simd_name(const char *request)
 {
-    return ist_sgns_simd_pick(getenv("ISTHMUS_SIMD"))->name;
+    return ist_sgns_simd_pick(request)->name;
 }

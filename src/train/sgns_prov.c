@@ -45,7 +45,7 @@ ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
     ist_jw_uint(&w, "threads", o->threads);
     ist_jw_uint(&w, "seed", o->seed);
     ist_jw_str(&w, "kernel", o->kernel == IST_SGNS_REFERENCE ? "reference" : "fast");
-    ist_jw_str(&w, "simd", ist_sgns_simd_name());
+    ist_jw_str(&w, "simd", ist_sgns_simd_name(o->simd));
     ist_jw_bool(&w, "keep_context", o->keep_context);
     if (res && res->ranks > 1) {
         ist_jw_uint(&w, "ranks", res->ranks);

@@ -70,6 +70,7 @@ inst = sorted(os.listdir(os.path.join(inc, "isthmus"))) if os.path.isdir(
     os.path.join(inc, "isthmus")) else []
 check(inst == headers, "every public header is installed under include/isthmus (%d)"
       % len(headers), "installed %s\nsource %s" % (inst, headers))
+check("testing.h" not in inst, "the test-only header testing.h is not installed", str(inst))
 major = version.split(".")[0]
 so = os.path.join(lib, "libisthmus.so")
 check(os.path.islink(so) and os.readlink(so) == "libisthmus.so." + major and

@@ -498,7 +498,7 @@ main(int argc, char **argv)
     printf("OPENBLAS_CORETYPE=%s OPENBLAS_L2_SIZE=%s; OpenBLAS core %s; config %s\n",
            ct ? ct : "(unset)", l2 ? l2 : "(unset)", openblas_get_corename(),
            openblas_get_config());
-    printf("fast-path kernels: %s\n", ist_sgns_simd_name());
+    printf("fast-path kernels: %s\n", ist_sgns_simd_name(getenv("ISTHMUS_SIMD")));
     double c1, c2, g1 = gemm_rate(1, &c1), g2 = gemm_rate(2, &c2);
     printf("cblas_sgemm 1536^3: %.1f GFLOP/s on 1 thread, %.1f on 2 threads (wall); "
            "%.1f and %.1f GFLOP per CPU-second\n", g1 * 1e-9, g2 * 1e-9, c1 * 1e-9, c2 * 1e-9);

@@ -159,6 +159,23 @@ ac_print_coverage(const char *what, const char *path, const ist_pairs_coverage *
                                                   : "target");
 }
 
+void
+ac_swap_hint(const char *cmd, const char *path, const ist_store *s, const ist_store *t,
+             size_t kept)
+{
+    ist_pairs *again = NULL;
+    ist_pairs_coverage sw;
+    ist_error err;
+
+    memset(&sw, 0, sizeof sw);
+    if (ist_pairs_read(path, &again, &err) == IST_OK &&
+        ist_pairs_resolve(again, t, s, &sw, &err) == IST_OK && sw.kept > 2 * kept)
+        fprintf(stderr, "isthmus %s: with the sides swapped %zu pairs would be kept: did you "
+                "swap SRC and TGT? (SRC is the language on the left of %s)\n", cmd, sw.kept,
+                path);
+    ist_pairs_free(again);
+}
+
 int
 ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_store *s,
               const ist_store *t, ist_pairs **out, ist_pairs_coverage *cov)
@@ -182,6 +199,8 @@ ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
             fprintf(stderr, "isthmus %s: %s: none of its %zu pairs has both words in the vectors "
                     "(%zu source, %zu target and %zu both words missing)\n", cmd, path,
                     cov->read, cov->missing_source, cov->missing_target, cov->missing_both);
+        if (cov->read)
+            ac_swap_hint(cmd, path, s, t, 0);
         ist_pairs_free(*out);
         *out = NULL;
         return CLI_EXIT_ERROR;

@@ -70,6 +70,10 @@ int ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store 
 /* Read a pair list and resolve it; prints its coverage line. */
 int ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_store *s,
                   const ist_store *t, ist_pairs **out, ist_pairs_coverage *cov);
+/* When the pair list at path keeps far more pairs with s and t exchanged than the
+ * `kept` it keeps now, say "did you swap SRC and TGT?" on stderr. */
+void ac_swap_hint(const char *cmd, const char *path, const ist_store *s, const ist_store *t,
+                  size_t kept);
 void ac_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c);
 
 /* Refuse (exit 1) when test source words are also seed source words, unless

@@ -463,8 +463,3 @@ cli_info(const char *fmt, ...)
     va_end(ap);
 }
 
-void
-cli_help_common(FILE *out)
-{
-    fputs("  -h, --help              show this help and exit\n", out);
-}

@@ -103,6 +103,5 @@ void cli_info(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 double cli_now(void);
 
 /* Help helpers: the standard option lines every command prints. */
-void cli_help_common(FILE *out);
 
 #endif

@@ -27,6 +27,8 @@ help(FILE *out)
           "      --spelt-alike-codes-only\n"
           "                          ...and only those holding a digit or a capital letter\n"
           "                          (names, codes, sizes)\n"
+          "      --min-seeds=N       refuse to fit on fewer kept seed pairs [default: the\n"
+          "                          dimension: fewer pairs leave the map undetermined]\n"
           "      --hold-out=FRACTION hold out this share of the --seeds source words as a test\n"
           "                          list (split by source word) [default: 0]\n"
           "      --split-seed=N      seed of the hold-out split [default: 1]\n"
@@ -70,6 +72,7 @@ enum {
     OPT_RVOCAB,
     OPT_MAPPED,
     OPT_KEEP_SEEDS,
+    OPT_MIN_SEEDS,
 };
 
 typedef struct args {
@@ -77,7 +80,7 @@ typedef struct args {
     bool ident, ident_marked, keep_seeds;
     uint64_t ident_min, split_seed;
     double hold_out;
-    size_t rounds, rvocab;
+    size_t rounds, rvocab, min_seeds;
     ac_common c;
 } args;
 
@@ -115,6 +118,7 @@ parse(int argc, char **argv, args *a)
         {"refine-vocab", required_argument, NULL, OPT_RVOCAB},
         {"mapped-out", required_argument, NULL, OPT_MAPPED},
         {"refine-keep-seeds", no_argument, NULL, OPT_KEEP_SEEDS},
+        {"min-seeds", required_argument, NULL, OPT_MIN_SEEDS},
         AC_OPTS_SEARCH,
         AC_OPTS_RANK,
         AC_OPTS_SCORING,
@@ -161,6 +165,10 @@ parse(int argc, char **argv, args *a)
             break;
         case OPT_MAPPED: a->mapped = optarg; break;
         case OPT_KEEP_SEEDS: a->keep_seeds = true; break;
+        case OPT_MIN_SEEDS:
+            if (!cli_parse_size(CMD, "--min-seeds", optarg, 1, 100000000, &a->min_seeds))
+                return CLI_EXIT_USAGE;
+            break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (c >= 1000) {
@@ -185,6 +193,24 @@ parse(int argc, char **argv, args *a)
     if (a->write_test && a->hold_out <= 0)
         return cli_usage_error(CMD, "--write-test needs --hold-out");
     return CLI_GO_ON;
+}
+
+/* Too few seed pairs survive: refuse, and when the list matches far better with
+ * the sides swapped, say so. Returns 0 to go on. */
+static int
+check_seed_count(const args *a, const ist_store *s, const ist_store *t, const ist_pairs *seeds)
+{
+    size_t kept = 0, need = a->min_seeds ? a->min_seeds : ist_store_dim(s);
+    for (size_t i = 0; i < ist_pairs_count(seeds); i++)
+        kept += ist_pairs_source_row(seeds, i) >= 0 && ist_pairs_target_row(seeds, i) >= 0;
+    if (kept >= need)
+        return 0;
+    fprintf(stderr, "isthmus %s: %zu seed pair%s kept, fewer than the minimum of %zu (%s); "
+            "a map fitted on so few is undetermined\n", CMD, kept, kept == 1 ? "" : "s", need,
+            a->min_seeds ? "--min-seeds" : "the dimension of the vectors");
+    if (a->seeds)
+        ac_swap_hint(CMD, a->seeds, s, t, kept);
+    return CLI_EXIT_ERROR;
 }
 
 /* The seed list: the file's kept pairs, the identical strings, or both. */
@@ -323,6 +349,8 @@ run(int argc, char **argv)
         return rc;
     if ((rc = build_seeds(&a, s, t, &seeds, &test, &tcov)) != 0)
         goto done;
+    if ((rc = check_seed_count(&a, s, t, seeds)) != 0)
+        goto done;
     if (a.test && (rc = ac_read_pairs(CMD, "test", a.test, s, t, &test, &tcov)) != 0)
         goto done;
     if (test) {
@@ -335,6 +363,7 @@ run(int argc, char **argv)
     ao.refine_rounds = a.rounds;
     ao.refine_vocab = a.rvocab;
     ao.refine_keep_seeds = a.keep_seeds;
+    ao.min_seed_pairs = a.min_seeds;
     ao.search = a.c.search;
     ao.on_round = on_round;
     double t0 = cli_now();

@@ -210,6 +210,7 @@ parse(int argc, char **argv, train_args *a)
     unsigned threads = 0;
 
     ist_sgns_opts_init(&a->so);
+    a->so.simd = getenv("ISTHMUS_SIMD");   /* the kernels' instruction set, for checks */
     ist_corpus_opts_init(&a->co);
     ist_ppmi_opts_init(&a->po);
     a->weights[0] = a->weights[1] = 1.0;
@@ -333,17 +334,13 @@ parse(int argc, char **argv, train_args *a)
     return CLI_GO_ON;
 }
 
-/* A prepared corpus starts with these bytes (written by ist_corpus_save). */
+/* Is path a prepared corpus (told by its signature)? */
 static bool
 is_prepared(const char *path)
 {
-    static const char magic[8] = "ISTPREP\x1a";
-    char head[8];
-    FILE *f = fopen(path, "rb");
-    bool yes = f && fread(head, 1, 8, f) == 8 && memcmp(head, magic, 8) == 0;
-    if (f)
-        fclose(f);
-    return yes;
+    ist_file_kind k;
+    ist_error err;
+    return ist_file_sniff(path, &k, NULL, &err) == IST_OK && k == IST_FILE_PREPARED;
 }
 
 /* Copy the trained rows into a store named by the vocabulary and save it. */
@@ -414,7 +411,7 @@ train_sgns(train_args *a, const ist_corpus *corpus, const uint64_t *counts, ist_
              "%s kernel (%s)\n", (unsigned long long)ist_vocab_total(v), types, a->so.epochs,
              a->so.epochs == 1 ? "" : "es", a->so.dim, a->so.threads,
              a->so.threads == 1 ? "" : "s",
-             a->so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name());
+             a->so.kernel == IST_SGNS_FAST ? "fast" : "reference", ist_sgns_simd_name(a->so.simd));
     ist_status rc = ist_sgns_train(ids, n_ids, counts, types, &a->so, m,
                                    a->so.keep_context ? ctx : NULL, res, err);
     cli_progress_done();
