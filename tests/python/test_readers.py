@@ -133,7 +133,8 @@ check(v["té"].tolist() == src[7].tolist() and "té" in v and "nope" not in v,
       "words look up their rows")
 
 run("prepare", "--min-freq=1", "-o", "tiny.prep", os.path.join(root, "data-samples", "tiny-en.txt"))
-run("train", "--dimension=8", "--threads=1", "--passes=2", "-o", "tiny.isv", "tiny.prep")
+run("train", "--method=skip-gram", "--dimension=8", "--threads=1", "--passes=2", "-o",
+    "tiny.isv", "tiny.prep")
 tv = isthmus.open_vectors(os.path.join(work, "tiny.isv"), verify=True)
 check(same_as_c(tv, os.path.join(work, "tiny.isv")) and tv.counts.sum() > 0,
       "trained vectors: words, corpus counts and matrix equal the C reader's")

@@ -50,7 +50,8 @@ def main():
     for lang in ("en", "es"):
         vec = os.path.join(work, lang + "-d300.isv")
         if not os.path.exists(vec):
-            run([isthmus, "-q", "train", "--dimension", "300", "--context", "10",
+            run([isthmus, "-q", "train", "--method=skip-gram", "--dimension", "300",
+                 "--context", "10",
                  "--passes", "20", "-o", vec, os.path.join(data, lang + ".txt")])
     checks = []
     for s, t in (("en", "es"), ("es", "en")):

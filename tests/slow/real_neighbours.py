@@ -63,7 +63,10 @@ def main():
         vec = os.path.join(work, lang + "-default.isv")
         txt = os.path.join(work, lang + "-default.txt")
         if not os.path.exists(txt):
-            subprocess.run([isthmus, "-q", "train", "-o", vec, "--text-copy", txt,
+            # the skip-gram trainer these floors were measured on (the default method is
+            # now skip-gram+ppmi, checked by real_align.py and doc_align.py)
+            subprocess.run([isthmus, "-q", "train", "--method=skip-gram", "-o", vec,
+                            "--text-copy", txt,
                             os.path.join(data, lang + ".txt")], check=True)
         ix, m = load(txt, np)
 
