@@ -59,7 +59,14 @@ test_synthetic_rotation(void **state)
         assert_int_equal(m.queries, 2500);
         assert_true(m.coverage == 1.0);
         assert_true(m.p[0] >= 0.99);
-        assert_int_equal(m.band[0].queries, 2500);   /* all ranks below 5000 */
+        /* bands from the vocabulary's size (3000 rows): 1-300, 301-1000, 1001+; the test
+         * words are rows 500-2999, ranks 501-3000 */
+        assert_int_equal(m.nbands, 3);
+        assert_int_equal(m.band[0].hi, 300);
+        assert_int_equal(m.band[1].hi, 1000);
+        assert_int_equal(m.band[0].queries, 0);
+        assert_int_equal(m.band[1].queries, 500);
+        assert_int_equal(m.band[2].queries, 2000);
         assert_int_equal(m.query_row[0], 500);
         assert_int_equal(m.query_place[0], 0);
         ist_metrics_release(&m);
@@ -421,6 +428,9 @@ test_search_opts(void **state)
     ist_propose_opts po;
     ist_error err;
 
+    /* the byte comparisons below include the padding after `threads`, which the other
+     * initialisers zero with their whole struct: zero it here too */
+    memset(&so, 0, sizeof so);
     ist_search_opts_init(&so);
     assert_int_equal(so.csls_k, 10);
     assert_int_equal(so.retrieve.threads, 0);

@@ -207,11 +207,13 @@ static void
 test_identical_seeds(void **state)
 {
     (void)state;
-    static const char *const sw[] = {"the", "tk-500", "500ml", "Tillwick", "mesa", "rare7"};
-    static const uint64_t sc[] = {900, 80, 60, 40, 30, 2};
-    static const char *const tw[] = {"de", "500ml", "tk-500", "mesa", "Tillwick", "rare7"};
-    static const uint64_t tc[] = {950, 70, 65, 50, 45, 3};
-    ist_store *src = store_of(sw, sc, 6), *tgt = store_of(tw, tc, 6);
+    static const char *const sw[] = {"the", "tk-500", "500ml", "Tillwick", "mesa", "rare7",
+                                     "17.99", "4493"};
+    static const uint64_t sc[] = {900, 80, 60, 40, 30, 2, 1, 1};
+    static const char *const tw[] = {"de", "500ml", "tk-500", "mesa", "Tillwick", "rare7",
+                                     "17.99", "4493"};
+    static const uint64_t tc[] = {950, 70, 65, 50, 45, 3, 1, 1};
+    ist_store *src = store_of(sw, sc, 8), *tgt = store_of(tw, tc, 8);
     ist_pairs *p;
     ist_error err;
 
@@ -227,7 +229,24 @@ test_identical_seeds(void **state)
     assert_string_equal(ist_pairs_source(p, 2), "Tillwick");
     ist_pairs_free(p);
     assert_int_equal(ist_pairs_identical(src, tgt, 1, true, &p, &err), IST_OK);
-    assert_int_equal(ist_pairs_count(p), 4);   /* rare7 passes a floor of 1 */
+    /* rare7 passes a floor of 1; the price and the order number are not marked */
+    assert_int_equal(ist_pairs_count(p), 4);
+    ist_pairs_free(p);
+    assert_int_equal(ist_pairs_identical(src, tgt, 1, false, &p, &err), IST_OK);
+    assert_int_equal(ist_pairs_count(p), 7);
+    ist_pairs_free(p);
+    ist_store_free(src);
+    ist_store_free(tgt);
+    /* after case folding no word has a capital: codes and sizes are still marked,
+     * prices and plain words are not */
+    static const char *const fw[] = {"tw-4410", "16,99", "tillwick", "500ml",
+                                     "\xc3\xa9t\xc3\xa9" "3", "mesa"};
+    src = store_of(fw, NULL, 6);
+    tgt = store_of(fw, NULL, 6);
+    assert_int_equal(ist_pairs_identical(src, tgt, 1, true, &p, &err), IST_OK);
+    assert_int_equal(ist_pairs_count(p), 3);
+    assert_string_equal(ist_pairs_source(p, 0), "tw-4410");
+    assert_string_equal(ist_pairs_source(p, 1), "500ml");
     ist_pairs_free(p);
     ist_store_free(src);
     ist_store_free(tgt);
@@ -267,6 +286,35 @@ test_normalised_like_vocabulary(void **state)
     assert_int_equal(c.missing_target, 1);   /* HOUSE */
     assert_int_equal(ist_pairs_find_word(src, "NIÑO", &row, &err), IST_OK);
     assert_int_equal(row, 1);
+    ist_pairs_free(p);
+    ist_store_free(src);
+    ist_store_free(tgt);
+}
+
+/* A vocabulary prepared with --numbers=mask holds 0.00 for every price: pair words
+ * are masked the same way, codes are not. */
+static void
+test_numbers_masked_like_vocabulary(void **state)
+{
+    (void)state;
+    static const char *const sw[] = {"0.00", "tw-4410", "00cm"};
+    static const char *const tw[] = {"0,00", "tw-4410", "00cm"};
+    ist_store *src = store_of(sw, NULL, 3), *tgt = store_of(tw, NULL, 3);
+    static const char prov[] = "{\"text\":{\"nfkc\":true,\"casefold\":true,"
+                               "\"numbers\":\"mask\"}}";
+    ist_pairs_coverage c;
+    ist_error err;
+    ptrdiff_t row;
+
+    assert_int_equal(ist_store_set_provenance(src, prov, &err), IST_OK);
+    assert_int_equal(ist_store_set_provenance(tgt, prov, &err), IST_OK);
+    ist_pairs *p = read_text("6.39 7,00\nTW-4410 tw-4410\n40cm 40cm\ntw-9999 tw-9999\n", IST_OK,
+                             &err);
+    assert_int_equal(ist_pairs_resolve(p, src, tgt, &c, &err), IST_OK);
+    assert_int_equal(c.kept, 3);
+    assert_int_equal(c.missing_both, 1);   /* a code keeps its digits */
+    assert_int_equal(ist_pairs_find_word(src, "9.99", &row, &err), IST_OK);
+    assert_int_equal(row, 0);
     ist_pairs_free(p);
     ist_store_free(src);
     ist_store_free(tgt);
@@ -328,6 +376,7 @@ main(void)
         cmocka_unit_test(test_leakage_listed),
         cmocka_unit_test(test_identical_seeds),
         cmocka_unit_test(test_normalised_like_vocabulary),
+        cmocka_unit_test(test_numbers_masked_like_vocabulary),
         cmocka_unit_test(test_allocation_failures),
     };
     HARNESS_RUN("pairs", tests);

@@ -13,6 +13,19 @@
 /* ---- helpers ------------------------------------------------------------ */
 
 /* Rows with words prefix0, prefix1, ... and the given counts (NULL: descending). */
+/* The synthetic words (w0, w1, ...) are code-shaped and translate to themselves:
+ * the review filters and the same-spelling block would hide them all, so the tests
+ * of retrieval, order and margins switch them off (test_filters checks them). */
+static void
+no_filters(ist_propose_opts *po)
+{
+    po->filter.numbers = true;
+    po->filter.stop_share = 0;
+    po->filter.variants = false;
+    po->filter.min_score = -INFINITY;
+    po->same_block = false;
+}
+
 static ist_store *
 make_store(size_t rows, size_t dim, const char *prefix, const float *data,
            const uint64_t *counts)
@@ -104,6 +117,7 @@ test_rotated_space(void **state)
     ist_propose_opts po;
     ist_proposals *p;
     ist_propose_opts_init(&po);
+    no_filters(&po);
     po.top_sources = 250;
     const ist_pairs *lists[] = {held};
     /* the map's seeds (w0..w99) are excluded by ist_propose_run itself */
@@ -240,6 +254,7 @@ propose_plane(const plane *pl, const ist_pairs *const *lists, size_t nl, ist_pro
     ist_propose_opts po;
     ist_error err;
     ist_propose_opts_init(&po);
+    no_filters(&po);
     po.search.csls_k = NB;
     po.candidates = cand;
     po.order = ord;
@@ -423,6 +438,7 @@ test_plane_exclusions(void **state)
     /* the N most frequent rows only: rows 0 and 1 */
     ist_propose_opts po;
     ist_propose_opts_init(&po);
+    no_filters(&po);
     po.top_sources = 2;
     po.search.csls_k = NB;
     assert_int_equal(ist_propose_views(ist_store_view(pl.src), ist_store_view(pl.tgt), pl.src,
@@ -472,7 +488,7 @@ test_write_candidates(void **state)
             assert_non_null(strstr(l, "order=certain"));
         } else if (lines == 2) {
             assert_string_equal(l, "decision\tsource\tcandidate\tplace\tscore\tmargin\tmutual"
-                                   "\tsource_count\ttarget_count\tpriority");
+                                   "\tsource_count\ttarget_count\tpriority\tblock");
         } else {
             const ist_proposal *r = ist_proposals_get(p, lines - 3);
             char want[128];
@@ -482,13 +498,168 @@ test_write_candidates(void **state)
             size_t tabs = 0;
             for (const char *c = l; *c; c++)
                 tabs += *c == '\t';
-            assert_int_equal(tabs, 9);
+            assert_int_equal(tabs, 10);
+            assert_non_null(strstr(l, "\treview"));
         }
     }
     assert_int_equal(lines, 3 + ist_proposals_count(p));
     free(text);
     ist_proposals_free(p);
     free_plane(&pl);
+    free(path);
+    harness_rmdir(dir);
+}
+
+/* ---- the review filters ------------------------------------------------ */
+
+/* A store of named words with counts; row i is the vector v[i] (dimension 8). */
+static ist_store *
+named_store(const char *const *w, const uint64_t *c, const float (*v)[8], size_t n)
+{
+    ist_store *s;
+    ist_error err;
+    assert_int_equal(ist_store_new(n, 8, &s, &err), IST_OK);
+    for (size_t i = 0; i < n; i++) {
+        memcpy(ist_store_row_mut(s, i), v[i], sizeof v[i]);
+        assert_int_equal(ist_store_set_word(s, i, w[i], c[i], &err), IST_OK);
+    }
+    return s;
+}
+
+/* Each filter on its own word: the stop list (the, de), numbers (6.39, and 7,00 passed
+ * over as bowl's best candidate), a code offered with its own spelling only (tw-4410,
+ * in the same-spelling block), likely misspellings (ewll, bein), the minimum score
+ * (lamp points nowhere). */
+static void
+test_filters(void **state)
+{
+    (void)state;
+    static const char *const sw[] = {"the", "kettle", "bowl", "6.39", "tw-4410", "well",
+                                     "lamp", "ewll"};
+    static const uint64_t sc[] = {10000, 3000, 2000, 1500, 1200, 1000, 900, 10};
+    static const float sv[][8] = {{1, 0, 0, 0, 0, 0, 0, 0}, {0, 1, 0, 0, 0, 0, 0, 0},
+                                  {0, 0, .6f, .8f, 0, 0, 0, 0}, {0, 0, 0, 1, 0, 0, 0, 0},
+                                  {0, 0, 0, 0, 1, 0, 0, 0}, {0, 0, 0, 0, 0, 1, 0, 0},
+                                  {0, -1, 0, 0, 0, 0, 0, 0}, {0, 0, 0, 0, 0, 0, 0, 1}};
+    static const char *const tw[] = {"de", "hervidor", "cuenco", "7,00", "tw-4410", "bien",
+                                     "l\xc3\xa1mpara", "bein"};
+    static const uint64_t tc[] = {12000, 3000, 2000, 1500, 1200, 1000, 900, 5};
+    static const float tv[][8] = {{1, 0, 0, 0, 0, 0, 0, 0}, {0, 1, 0, 0, 0, 0, 0, 0},
+                                  {0, 0, 1, 0, 0, 0, 0, 0}, {0, 0, 0, 1, 0, 0, 0, 0},
+                                  {0, 0, 0, 0, 1, 0, 0, 0}, {0, 0, 0, 0, 0, 1, 0, 0},
+                                  {0, 0, 0, 0, 0, 0, 1, 0}, {0, 0, 0, 0, 0, 0, 0, 1}};
+    ist_store *src = named_store(sw, sc, sv, 8), *tgt = named_store(tw, tc, tv, 8);
+    ist_propose_opts po;
+    ist_proposals *p;
+    ist_error err;
+
+    ist_propose_opts_init(&po);
+    assert_false(po.filter.numbers);
+    assert_true(po.filter.variants && po.same_block);
+    assert_true(po.filter.min_score == 0.0f && po.filter.stop_share == 0.005);
+    po.candidates = 1;
+    po.search.csls_k = 2;
+    po.filter.stop_share = 0.3;      /* with eight words each is over 0.5% */
+    po.filter.min_score = 0.05f;
+    assert_int_equal(ist_propose_views(ist_store_view(src), ist_store_view(tgt), src, tgt, NULL,
+                                       0, &po, &p, &err), IST_OK);
+    ist_propose_stats st = ist_proposals_stats(p);
+    assert_int_equal(st.left_stop, 1);
+    assert_int_equal(st.left_numbers, 1);
+    assert_int_equal(st.left_variants, 1);
+    assert_int_equal(st.left_low, 1);
+    assert_int_equal(st.proposed, 4);
+    assert_int_equal(st.same_spelling, 1);
+    assert_int_equal(ist_proposals_count(p), 4);
+    static const char *const want_src[] = {"kettle", "bowl", "well"};
+    static const char *const want_tgt[] = {"hervidor", "cuenco", "bien"};
+    for (size_t i = 0; i < 4; i++) {
+        const ist_proposal *r = ist_proposals_get(p, i);
+        const char *s = ist_store_word(src, r->source_row), *t = ist_store_word(tgt, r->target_row);
+        if (i == 3) {   /* the block comes last */
+            assert_string_equal(s, "tw-4410");
+            assert_string_equal(t, "tw-4410");
+            assert_true(r->same_spelling);
+            assert_int_equal(r->priority, 4);
+            continue;
+        }
+        assert_false(r->same_spelling);
+        size_t k = 0;
+        while (k < 3 && strcmp(want_src[k], s) != 0)
+            k++;
+        assert_true(k < 3);
+        assert_string_equal(t, want_tgt[k]);   /* de, 7,00 and bein are passed over */
+        assert_true(r->score >= 0.05f);
+    }
+    ist_proposals_free(p);
+
+    /* every filter off: all eight words, the same-spelling pair in the review order */
+    no_filters(&po);
+    assert_int_equal(ist_propose_views(ist_store_view(src), ist_store_view(tgt), src, tgt, NULL,
+                                       0, &po, &p, &err), IST_OK);
+    st = ist_proposals_stats(p);
+    assert_int_equal(st.proposed, 8);
+    assert_int_equal(st.left_stop + st.left_numbers + st.left_variants + st.left_low, 0);
+    assert_int_equal(st.same_spelling, 0);
+    ist_proposals_free(p);
+
+    /* the filter alone, as lookup and the diagnostics use it */
+    ist_word_filter f;
+    unsigned char flags[8] = {0};
+    size_t n[3];
+    ist_word_filter_init(&f);
+    f.stop_share = 0.3;
+    assert_int_equal(ist_word_filter_mark(&f, tgt, flags, 1, n, &err), IST_OK);
+    assert_int_equal(n[0], 1);
+    assert_int_equal(n[1], 2);   /* 7,00 and tw-4410 */
+    assert_int_equal(n[2], 1);
+    assert_int_equal(flags[0], IST_FILTER_STOP << 1);
+    assert_int_equal(flags[3], IST_FILTER_SHAPE << 1);
+    assert_int_equal(flags[7], IST_FILTER_VARIANT << 1);
+    assert_int_equal(flags[1] | flags[2] | flags[5] | flags[6], 0);
+    f.stop_share = NAN;
+    assert_int_equal(ist_word_filter_mark(&f, tgt, flags, 0, NULL, &err), IST_ERR_INVALID);
+    ist_store_free(src);
+    ist_store_free(tgt);
+}
+
+/* The same-spelling block in the file: a comment line before it, the block column. */
+static void
+test_write_same_block(void **state)
+{
+    (void)state;
+    static const char *const w[] = {"kettle", "tw-4410"};
+    static const uint64_t c[] = {3000, 1200};
+    static const float v[][8] = {{0, 1, 0, 0, 0, 0, 0, 0}, {0, 0, 0, 0, 1, 0, 0, 0}};
+    static const char *const tw[] = {"hervidor", "tw-4410"};
+    ist_store *src = named_store(w, c, v, 2), *tgt = named_store(tw, c, v, 2);
+    char *dir = harness_tmpdir(), *path = harness_path(dir, "c.tsv");
+    ist_propose_opts po;
+    ist_proposals *p;
+    ist_error err;
+
+    ist_propose_opts_init(&po);
+    po.filter.stop_share = 0;
+    po.candidates = 1;
+    assert_int_equal(ist_propose_views(ist_store_view(src), ist_store_view(tgt), src, tgt, NULL,
+                                       0, &po, &p, &err), IST_OK);
+    assert_int_equal(ist_proposals_write(p, src, tgt, NULL, path, &err), IST_OK);
+    char *text = slurp(path);
+    const char *row1 = strstr(text, "\tkettle\thervidor\t1\t"),
+               *note = strstr(text, "# same spelling on both sides"),
+               *row2 = strstr(text, "\ttw-4410\ttw-4410\t1\t");
+    assert_non_null(row1);
+    assert_non_null(note);
+    assert_non_null(row2);
+    assert_true(row1 < note && note < row2);
+    assert_non_null(strstr(note, "1 words"));
+    assert_non_null(strstr(row2, "\t2\tsame-spelling\n"));
+    assert_non_null(strstr(row1, "\t1\treview\n"));
+    assert_null(strstr(text, "-0.0000"));
+    free(text);
+    ist_proposals_free(p);
+    ist_store_free(src);
+    ist_store_free(tgt);
     free(path);
     harness_rmdir(dir);
 }
@@ -759,7 +930,11 @@ test_round_trip(void **state)
     size_t firsts = 0;
     for (char *l = strtok_r(text, "\n", &save); l; l = strtok_r(NULL, "\n", &save)) {
         if (l[0] == '\t') {
-            bool first = strstr(l, "\t1\t") != NULL;
+            /* the place is the fourth field: decision, source, candidate, place */
+            const char *place = l;
+            for (int k = 0; k < 3; k++)
+                place = strchr(place, '\t') + 1;
+            bool first = strncmp(place, "1\t", 2) == 0;
             firsts += first;
             fprintf(f, "%s%s\n", first ? "accept" : "reject", l);
         } else {
@@ -807,6 +982,7 @@ op_propose(void)
     }
     const ist_pairs *lists[] = {list};
     ist_propose_opts_init(&po);
+    no_filters(&po);
     po.search.csls_k = NB;
     po.skip_gold_targets = true;
     po.search.retrieve.threads = 1;
@@ -872,6 +1048,8 @@ main(void)
         cmocka_unit_test(test_plane_order),
         cmocka_unit_test(test_plane_exclusions),
         cmocka_unit_test(test_write_candidates),
+        cmocka_unit_test(test_filters),
+        cmocka_unit_test(test_write_same_block),
         cmocka_unit_test(test_merge_basic),
         cmocka_unit_test(test_merge_errors),
         cmocka_unit_test(test_merge_conflicts),

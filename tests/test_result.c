@@ -53,6 +53,7 @@ evaluate(const fixture *f, unsigned stages)
     o.stages = stages;
     o.eval.band_edges[0] = 650;   /* ranks 1-650 and 651+: 50 test words in each */
     o.eval.nedges = 1;
+    o.eval.bands_auto = false;
     o.ci.resamples = 200;
     o.diag.isometry_words = 100;
     o.source_path = "src.isv";

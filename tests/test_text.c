@@ -353,7 +353,7 @@ segment_words_keeps_words(void **state)
     (void)state;
     check_words("Hello, world!  don't stop", "Hello|world|don't|stop");   /* WB6/7 */
     check_words("pi is 3.14, not 3,15; 1.000.000", "pi|is|3.14|not|3,15|1.000.000"); /* WB11/12 */
-    check_words("model TK-500ml e.g. x_y", "model|TK|500ml|e.g|x_y");    /* WB9/10, WB13a/b */
+    check_words("model 500ml e.g. x_y", "model|500ml|e.g|x_y");    /* WB9/10, WB13a/b */
     check_words("--- !!! ... ***", "");
     /* ideographs break one by one (WB999), katakana stay together (WB13) */
     check_words("\xe6\x97\xa5\xe6\x9c\xac\xe3\x81\xae"
@@ -380,6 +380,97 @@ stop_after_one(void *ctx, const char *w, size_t len)
     return 1;
 }
 
+/* The tailoring of ist_segment_words(): letters, one hyphen, a word that starts
+ * with a digit are one word (model codes); nothing else changes. */
+static void
+segment_words_keeps_codes_whole(void **state)
+{
+    (void)state;
+    check_words("model TW-4410 or tw4410", "model|TW-4410|or|tw4410");
+    check_words("TK-500ml fits", "TK-500ml|fits");
+    check_words("r\xc3\xa9" "f\xe2\x80\x91" "12 ok", "r\xc3\xa9" "f\xe2\x80\x91" "12|ok");   /* U+2011 */
+    /* no join: digits first, a space, two hyphens, a letter after the hyphen, letters
+     * and digits on the left */
+    check_words("4410-tw", "4410|tw");
+    check_words("tw - 4410", "tw|4410");
+    check_words("tw--4410", "tw|4410");
+    check_words("well-known", "well|known");
+    check_words("a4-20", "a4|20");
+    /* a held word is still reported at the end, and stopping early still stops */
+    check_words("tw-", "tw");
+    check_words("tw", "tw");
+    int n = 0;
+    ist_error err;
+    assert_int_equal(ist_segment_words("ab-cd ef", 8, stop_after_one, &n, &err), IST_OK);
+    assert_int_equal(n, 1);
+}
+
+static void
+word_shapes_classify(void **state)
+{
+    (void)state;
+    static const struct { const char *w; ist_word_shape s; } cases[] = {
+        {"kettle", IST_SHAPE_WORD}, {"don't", IST_SHAPE_WORD}, {"", IST_SHAPE_WORD},
+        {"6", IST_SHAPE_NUMBER}, {"6.39", IST_SHAPE_NUMBER}, {"7,00", IST_SHAPE_NUMBER},
+        {"1.000.000", IST_SHAPE_NUMBER}, {"40cm", IST_SHAPE_NUMBER},
+        {"1st", IST_SHAPE_NUMBER}, {"\xd9\xa3\xd9\xa4", IST_SHAPE_NUMBER}, /* Arabic-Indic */
+        {"tw-4410", IST_SHAPE_CODE}, {"tw4410", IST_SHAPE_CODE}, {"fh8381", IST_SHAPE_CODE},
+        {"a4", IST_SHAPE_CODE}, {"3m8", IST_SHAPE_CODE}, {"\xc3\xa9t\xc3\xa9" "3", IST_SHAPE_CODE},
+    };
+    for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+        ist_word_shape got = ist_word_shape_of(cases[i].w, strlen(cases[i].w));
+        if (got != cases[i].s)
+            printf("# %s: %s, expected %s\n", cases[i].w, ist_word_shape_name(got),
+                   ist_word_shape_name(cases[i].s));
+        assert_int_equal(got, cases[i].s);
+    }
+    ist_numbers_policy p;
+    assert_true(ist_numbers_policy_parse("drop", &p));
+    assert_int_equal(p, IST_NUMBERS_DROP);
+    assert_true(ist_numbers_policy_parse("mask", &p));
+    assert_int_equal(p, IST_NUMBERS_MASK);
+    assert_true(ist_numbers_policy_parse("keep", &p));
+    assert_int_equal(p, IST_NUMBERS_KEEP);
+    assert_false(ist_numbers_policy_parse("Keep", &p));
+    assert_false(ist_numbers_policy_parse(NULL, &p));
+    assert_string_equal(ist_numbers_policy_name(IST_NUMBERS_MASK), "mask");
+}
+
+static void
+check_policy(ist_numbers_policy pol, const char *text, const char *want)
+{
+    words ws = {{0}, 0, 0};
+    ist_text_opts o;
+    ist_error err;
+
+    ist_text_opts_init(&o);
+    o.numbers = pol;
+    assert_int_equal(ist_segment_words_opts(text, strlen(text), &o, collect, &ws, &err), IST_OK);
+    assert_string_equal(ws.buf, want);
+}
+
+static void
+numbers_policy_applies_to_numbers_only(void **state)
+{
+    static const char text[] = "kettle 6.39 tw-4410 40cm fh8381 \xd9\xa3\xd9\xa4 x";
+    char longnum[400], masked[400];
+    (void)state;
+    check_policy(IST_NUMBERS_KEEP, text, "kettle|6.39|tw-4410|40cm|fh8381|\xd9\xa3\xd9\xa4|x");
+    check_policy(IST_NUMBERS_MASK, text, "kettle|0.00|tw-4410|00cm|fh8381|00|x");
+    check_policy(IST_NUMBERS_DROP, text, "kettle|tw-4410|fh8381|x");
+    /* a number longer than the segmenter's small buffer */
+    memset(longnum, '7', 300);
+    longnum[300] = '\0';
+    memset(masked, '0', 300);
+    masked[300] = '\0';
+    check_policy(IST_NUMBERS_MASK, longnum, masked);
+    words ws = {{0}, 0, 0};
+    ist_error err;
+    assert_int_equal(ist_segment_words_opts("a 1 b", 5, NULL, collect, &ws, &err), IST_OK);
+    assert_string_equal(ws.buf, IST_NUMBERS_DEFAULT == IST_NUMBERS_DROP ? "a|b"
+                                : IST_NUMBERS_DEFAULT == IST_NUMBERS_MASK ? "a|0|b" : "a|1|b");
+}
+
 static void
 segment_words_stops_and_rejects(void **state)
 {
@@ -404,8 +495,10 @@ opts_json_round_trip(void **state)
     ist_text_opts_init(&o);
     o.casefold = false;
     o.mask_digits = true;
+    o.numbers = IST_NUMBERS_DROP;
     assert_int_equal(ist_text_opts_to_json(&o, &json, &err), IST_OK);
     assert_non_null(strstr(json, "\"casefold\":false"));
+    assert_non_null(strstr(json, "\"numbers\":\"drop\""));
     assert_non_null(strstr(json, "\"unicode\":\"15.0.0\""));
     memset(&back, 0xff, sizeof back);
     ist_text_opts_init(&back);
@@ -420,6 +513,20 @@ opts_json_round_trip(void **state)
                      IST_ERR_FORMAT);
     assert_int_equal(ist_text_opts_from_provenance("{not json", &back, &err), IST_ERR_FORMAT);
     assert_int_equal(ist_text_opts_from_provenance(NULL, &back, &err), IST_ERR_FORMAT);
+    /* a file from before the policy kept every number; an unknown policy is refused and
+     * leaves the options as they were */
+    ist_text_opts_init(&back);
+    back.numbers = IST_NUMBERS_MASK;
+    assert_int_equal(ist_text_opts_from_provenance("{\"nfkc\":true,\"casefold\":true}", &back,
+                                                   &err), IST_OK);
+    assert_int_equal(back.numbers, IST_NUMBERS_KEEP);
+    back.numbers = IST_NUMBERS_MASK;
+    assert_int_equal(ist_text_opts_from_provenance(
+                         "{\"nfkc\":false,\"casefold\":true,\"numbers\":\"hide\"}", &back, &err),
+                     IST_ERR_FORMAT);
+    assert_non_null(strstr(err.msg, "'hide'"));
+    assert_int_equal(back.numbers, IST_NUMBERS_MASK);
+    assert_true(back.nfkc);
 }
 
 static void
@@ -594,6 +701,9 @@ main(void)
         cmocka_unit_test(fast_segmenter_equals_rules),
         cmocka_unit_test(segment_words_keeps_words),
         cmocka_unit_test(segment_words_stops_and_rejects),
+        cmocka_unit_test(segment_words_keeps_codes_whole),
+        cmocka_unit_test(word_shapes_classify),
+        cmocka_unit_test(numbers_policy_applies_to_numbers_only),
         cmocka_unit_test(opts_json_round_trip),
         cmocka_unit_test(tables_match_utf8proc_version),
         cmocka_unit_test(word_break_test_file),

@@ -62,8 +62,12 @@ IST_API void ist_metrics_release(ist_metrics *m);
 
 typedef struct ist_eval_opts {
     ist_retrieval method;          /* [CSLS] */
-    size_t band_edges[IST_METRICS_MAX_BANDS - 1];  /* upper ranks of the bands [5000, 20000] */
+    size_t band_edges[IST_METRICS_MAX_BANDS - 1];  /* upper ranks of the bands (when not
+                                    * bands_auto) [5000, 20000] */
     size_t nedges;                 /* [2] */
+    bool bands_auto;               /* edges from the source vocabulary's size V instead: the
+                                    * first tenth and the first third of the rows, each rounded
+                                    * to two significant digits (V = 2482: 250, 830) [true] */
     bool keep_queries;             /* fill query_row / query_place [true] */
     ist_search_opts search;        /* CSLS k, tile memory and threads */
 } ist_eval_opts;

@@ -103,8 +103,10 @@ IST_API ist_status ist_pairs_overlap(const ist_pairs *a, const ist_pairs *b, con
 
 /** Seed pairs (w, w) for every word w in both vector files whose count is at
  *  least min_count on both sides (the floor is ignored for a file that carries
- *  no counts); with marked_only, only words holding a decimal digit or an
- *  upper-case letter. The list comes resolved. */
+ *  no counts); with marked_only, only words holding both a letter and a
+ *  decimal digit (model codes such as tw-4410, sizes such as 500ml; not bare
+ *  numbers such as prices) or an upper-case letter (left only where the
+ *  vocabulary kept case). The list comes resolved. */
 IST_API ist_status ist_pairs_identical(const ist_store *src, const ist_store *tgt,
                                        uint64_t min_count, bool marked_only, ist_pairs **out,
                                        ist_error *err);

@@ -20,6 +20,14 @@
 extern "C" {
 #endif
 
+/** What preparation does with number-shaped words (see ist_word_shape()):
+ *  prices, order numbers, sizes such as 40cm. docs/text.md, "Word shapes". */
+typedef enum ist_numbers_policy {
+    IST_NUMBERS_KEEP = 0,   /* counted as written */
+    IST_NUMBERS_MASK,       /* every decimal digit of the word -> '0': 6.39 -> 0.00, 40cm -> 00cm */
+    IST_NUMBERS_DROP        /* left out of the vocabulary and the token stream */
+} ist_numbers_policy;
+
 /* The normalisation options; fill with ist_text_opts_init(), then edit. */
 typedef struct ist_text_opts {
     bool nfkc;          /* Unicode NFKC (UAX #15) [default true] */
@@ -28,7 +36,11 @@ typedef struct ist_text_opts {
     bool mask_digits;   /* every decimal digit -> '0' [default false] */
     bool strict_utf8;   /* invalid UTF-8 is an error (file, line, byte offset) instead of U+FFFD
                            [default false] */
+    ist_numbers_policy numbers;   /* number-shaped words [default IST_NUMBERS_DEFAULT] */
 } ist_text_opts;
+
+/* The default policy for number-shaped words, chosen by measurement (docs/defaults.md). */
+#define IST_NUMBERS_DEFAULT IST_NUMBERS_KEEP
 
 /** Fill o with the defaults above. */
 IST_API void ist_text_opts_init(ist_text_opts *o);
@@ -61,14 +73,41 @@ typedef int (*ist_word_fn)(void *ctx, const char *word, size_t len);
  *  hold a letter, a number, an ideograph, kana or an emoji-like word (an
  *  Extended_Pictographic character, as UAX #29 keeps them together) are reported
  *  in order; segments of only whitespace, punctuation or symbols are dropped.
+ *  One tailoring (UAX #29 section 4 allows it): a word of letters only, one
+ *  hyphen (U+002D, U+2010 or U+2011) and a word that starts with a digit are
+ *  one word, so model codes such as tw-4410 stay whole (docs/text.md).
  *  text must be valid UTF-8 (the output of ist_normalize); otherwise
  *  IST_ERR_INVALID. */
 IST_API ist_status ist_segment_words(const char *text, size_t len, ist_word_fn fn, void *ctx,
                                      ist_error *err);
 
+/** Word shapes, by the decimal digits (general category Nd) and letters
+ *  (categories L*) a word holds: */
+typedef enum ist_word_shape {
+    IST_SHAPE_WORD = 0,     /* no digit: kettle, don't */
+    IST_SHAPE_NUMBER,       /* digits, with letters only after the last digit: 6, 6.39, 7,00,
+                             * 1.000.000, 40cm, 1st */
+    IST_SHAPE_CODE          /* a letter before a digit: tw-4410, tw4410, fh8381, a4, mp3 */
+} ist_word_shape;
+
+/** The shape of one word of len bytes (valid UTF-8, as the segmenter reports it). */
+IST_API ist_word_shape ist_word_shape_of(const char *word, size_t len);
+
+/** Short name of a shape or a policy: "word", "number", "code"; "keep", "mask", "drop". */
+IST_API const char *ist_word_shape_name(ist_word_shape s);
+IST_API const char *ist_numbers_policy_name(ist_numbers_policy p);
+/** The policy named by s ("keep", "mask", "drop"); false when s names none. */
+IST_API bool ist_numbers_policy_parse(const char *s, ist_numbers_policy *out);
+
+/** Words as the vocabulary counts them: ist_segment_words(), then the policy
+ *  o->numbers applied to each number-shaped word (kept, reported with its digits
+ *  written as '0', or not reported). o may be NULL for the defaults. */
+IST_API ist_status ist_segment_words_opts(const char *text, size_t len, const ist_text_opts *o,
+                                          ist_word_fn fn, void *ctx, ist_error *err);
+
 /** The options as a JSON object text, e.g.
  *  {"nfkc":true,"casefold":true,"strip_marks":false,"mask_digits":false,
- *   "strict_utf8":false,"unicode":"15.0.0"}.
+ *   "strict_utf8":false,"numbers":"keep","unicode":"15.0.0"}.
  *  *json is owned by the caller: release with ist_text_free(). */
 IST_API ist_status ist_text_opts_to_json(const ist_text_opts *o, char **json, ist_error *err);
 

@@ -29,6 +29,7 @@ ist_eval_opts_init(ist_eval_opts *o)
     o->band_edges[0] = 5000;
     o->band_edges[1] = 20000;
     o->nedges = 2;
+    o->bands_auto = true;
     o->keep_queries = true;
     ist_search_opts_init(&o->search);
 }
@@ -72,15 +73,37 @@ distinct_sources(const ist_pairs *p, ist_error *err, bool *ok)
     return d;
 }
 
-static void
-setup_bands(ist_metrics *m, const ist_eval_opts *o)
+/* n rounded to two significant digits (at least 1). */
+static size_t
+round2(size_t n)
 {
-    size_t lo = 1;
+    size_t unit = 1;
+    while (n / unit >= 100)
+        unit *= 10;
+    size_t r = (n + unit / 2) / unit * unit;
+    return r ? r : 1;
+}
+
+static void
+setup_bands(ist_metrics *m, const ist_eval_opts *o, size_t rows)
+{
+    size_t lo = 1, edges[IST_METRICS_MAX_BANDS - 1], ne = 0;
+    if (o->bands_auto) {
+        /* bands that follow the vocabulary: the first tenth, up to the first third, the
+         * rest; an edge at or past the last row, or not above the one before, is left out */
+        size_t cand[2] = {round2(rows / 10), round2(rows / 3)};
+        for (size_t i = 0; i < 2; i++)
+            if (rows >= 10 && cand[i] < rows && (ne == 0 || cand[i] > edges[ne - 1]))
+                edges[ne++] = cand[i];
+    } else {
+        for (size_t i = 0; i < o->nedges && i < IST_METRICS_MAX_BANDS - 1; i++)
+            edges[ne++] = o->band_edges[i];
+    }
     m->nbands = 0;
-    for (size_t i = 0; i < o->nedges && i < IST_METRICS_MAX_BANDS - 1; i++) {
+    for (size_t i = 0; i < ne; i++) {
         m->band[m->nbands].lo = lo;
-        m->band[m->nbands].hi = o->band_edges[i];
-        lo = o->band_edges[i] + 1;
+        m->band[m->nbands].hi = edges[i];
+        lo = edges[i] + 1;
         m->nbands++;
     }
     m->band[m->nbands].lo = lo;
@@ -158,7 +181,7 @@ ist_eval_run(ist_cmatview xs, ist_cmatview zt, const ist_pairs *test, const ist_
     memset(out, 0, sizeof *out);
     out->method = opts->method;
     out->neighbourhood = opts->method == IST_RETRIEVAL_CSLS ? opts->search.csls_k : 0;
-    setup_bands(out, opts);
+    setup_bands(out, opts, xs.rows);
     out->sources = distinct_sources(test, err, &ok);
     if (!ok)
         return IST_ERR_NOMEM;

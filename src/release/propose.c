@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include <isthmus/cancel.h>
+#include <isthmus/text.h>
 
 #include "alloc_int.h"
 #include "error_int.h"
@@ -20,13 +21,19 @@
  * word gets fewer candidates. */
 #define SKIP_DEPTH 64u
 
+/* Flags of target rows (tflag[]) and source rows (sflag[]). */
+enum { T_GOLD = 1, T_STOP = IST_FILTER_STOP << 1, T_SHAPE = IST_FILTER_SHAPE << 1,
+       T_VARIANT = IST_FILTER_VARIANT << 1, T_FILTERED = T_STOP | T_SHAPE | T_VARIANT };
+enum { S_STOP = IST_FILTER_STOP, S_SHAPE = IST_FILTER_SHAPE, S_VARIANT = IST_FILTER_VARIANT };
+
 struct ist_proposals {
     ist_proposal *row;
     size_t n;
     ist_propose_stats stats;
     ist_propose_order order;
     size_t top_sources, candidates, neighbourhood;
-    bool skip_gold_targets;
+    bool skip_gold_targets, same_block;
+    ist_word_filter filter;
 };
 
 void
@@ -37,6 +44,8 @@ ist_propose_opts_init(ist_propose_opts *o)
     o->candidates = IST_PROPOSE_CANDIDATES_DEFAULT;
     o->order = IST_PROPOSE_INFORMATIVE;
     o->skip_gold_targets = false;
+    ist_word_filter_init(&o->filter);
+    o->same_block = true;
     ist_search_opts_init(&o->search);
 }
 
@@ -102,12 +111,29 @@ typedef struct group {
     double key;           /* informative: margin / weight (count, or 1 / rank) */
     float margin;         /* margin of the first candidate */
     bool mutual;          /* first candidate is a mutual neighbour */
+    bool same;            /* first candidate spelt as the source word, in the block */
 } group;
+
+
+
+/* The same-spelling block comes last, in frequency order. */
+static int
+cmp_block(const group *x, const group *y)
+{
+    if (x->same != y->same)
+        return x->same ? 1 : -1;
+    if (x->same)
+        return x->rank < y->rank ? -1 : x->rank > y->rank;
+    return 0;
+}
 
 static int
 cmp_informative(const void *a, const void *b)
 {
     const group *x = a, *y = b;
+    int c = cmp_block(x, y);
+    if (c != 0 || x->same)
+        return c;
     if (x->key != y->key)
         return x->key < y->key ? -1 : 1;
     return x->rank < y->rank ? -1 : x->rank > y->rank;
@@ -117,6 +143,9 @@ static int
 cmp_certain(const void *a, const void *b)
 {
     const group *x = a, *y = b;
+    int c = cmp_block(x, y);
+    if (c != 0 || x->same)
+        return c;
     if (x->mutual != y->mutual)
         return x->mutual ? -1 : 1;
     if (x->margin != y->margin)
@@ -137,27 +166,53 @@ gather(ist_cmatview v, const size_t *rows, size_t n, ist_matrix **out, ist_error
     return IST_OK;
 }
 
-/* The candidates of each query from its top-k list: drop skipped targets, keep
- * the first `cand`, compute margins. Fills row[] and groups; returns rows. */
+/* What collect() needs besides the top-k lists. */
+typedef struct collect_in {
+    size_t cand;
+    float min_score;
+    const unsigned char *tflag;   /* T_* per target row */
+    unsigned char tskip;          /* the T_* bits that leave a candidate out */
+    const bool *same_only;        /* per query: keep only a same-spelling candidate */
+    bool same_block;
+    const ist_store *src, *tgt;
+} collect_in;
+
+static bool
+same_word(const ist_store *src, size_t s, const ist_store *tgt, size_t t)
+{
+    return strcmp(ist_store_word(src, s), ist_store_word(tgt, t)) == 0;
+}
+
+/* The candidates of each query from its top-k list: drop skipped and filtered
+ * targets (a target spelt as the query passes the word filter), stop at the
+ * minimum score, keep the first `cand`, compute margins. Fills row[] and
+ * groups; returns rows. */
 static size_t
-collect(const ist_topk *tk, const size_t *qrow, size_t nq, size_t cand,
-        const unsigned char *skip, const ist_store *src, const ist_store *tgt,
-        ist_proposal *row, group *g, size_t *ng, size_t *skipped)
+collect(const ist_topk *tk, const size_t *qrow, size_t nq, const collect_in *in,
+        ist_proposal *row, group *g, size_t *ng, ist_propose_stats *st)
 {
     size_t k = ist_topk_k(tk), n = 0;
     *ng = 0;
     for (size_t q = 0; q < nq; q++) {
         const uint32_t *ix = ist_topk_index(tk, q);
         const float *sc = ist_topk_score(tk, q);
-        size_t kept = 0, first = n;
+        size_t kept = 0, first = n, cand = in->same_only[q] ? 1 : in->cand;
         float next = -INFINITY;     /* best score after the kept candidates */
+        bool low = false;
         for (size_t a = 0; a < k && ix[a] != UINT32_MAX; a++) {
-            if (skip && skip[ix[a]]) {
-                (*skipped)++;
+            unsigned char fl = in->tflag[ix[a]];
+            if (fl & T_GOLD & in->tskip) {
+                st->skipped_targets++;
                 continue;
             }
-            if (kept == cand) {
+            bool same = same_word(in->src, qrow[q], in->tgt, ix[a]);
+            if (!same && (in->same_only[q] || (fl & in->tskip & T_FILTERED))) {
+                st->filtered_targets++;
+                continue;
+            }
+            if (kept == cand || sc[a] < in->min_score) {
                 next = sc[a];
+                low = kept == 0;
                 break;
             }
             ist_proposal *p = &row[n++];
@@ -166,11 +221,16 @@ collect(const ist_topk *tk, const size_t *qrow, size_t nq, size_t cand,
             p->target_row = ix[a];
             p->place = ++kept;
             p->score = sc[a];
-            p->source_count = ist_store_count(src, qrow[q]);
-            p->target_count = ist_store_count(tgt, ix[a]);
+            p->source_count = ist_store_count(in->src, qrow[q]);
+            p->target_count = ist_store_count(in->tgt, ix[a]);
         }
-        if (kept == 0)
+        if (kept == 0) {
+            if (in->same_only[q])
+                st->left_numbers++;   /* a code whose own spelling is not a candidate */
+            else if (low)
+                st->left_low++;
             continue;
+        }
         /* margin: own score minus the best score among the word's other candidates
          * (kept ones, or the first one after them for the top candidate alone). */
         float best = row[first].score;
@@ -183,6 +243,7 @@ collect(const ist_topk *tk, const size_t *qrow, size_t nq, size_t cand,
         gr->n = kept;
         gr->rank = qrow[q] + 1;
         gr->margin = row[first].margin;
+        gr->same = in->same_block && same_word(in->src, qrow[q], in->tgt, row[first].target_row);
         /* informative key: margin over the word's weight, its count (or, for a
          * file without counts, 1 / rank, its share of running text under Zipf's law) */
         uint64_t cnt = row[first].source_count;
@@ -252,11 +313,14 @@ order_rows(ist_proposals *p, group *g, size_t ng, ist_error *err)
         g[i].mutual = first->mutual;
     }
     qsort(g, ng, sizeof *g, p->order == IST_PROPOSE_CERTAIN ? cmp_certain : cmp_informative);
-    for (size_t i = 0; i < ng; i++)
+    for (size_t i = 0; i < ng; i++) {
+        p->stats.same_spelling += g[i].same;
         for (size_t a = 0; a < g[i].n; a++) {
             sorted[n] = p->row[g[i].first + a];
+            sorted[n].same_spelling = g[i].same;
             sorted[n++].priority = i + 1;
         }
+    }
     ist_free(p->row);
     p->row = sorted;
     return IST_OK;
@@ -289,7 +353,8 @@ check_args(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const ist_sto
 static ist_status
 find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_store *src,
                 const ist_store *tgt, const ist_propose_opts *o, const size_t *qrow, size_t nq,
-                const unsigned char *gold, ist_error *err)
+                const bool *same_only, const unsigned char *tflag, size_t n_filtered,
+                ist_error *err)
 {
     size_t depth = o->candidates + 1, cap, ng = 0;
     ist_matrix *q = NULL;
@@ -297,8 +362,8 @@ find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_st
     group *g = NULL;
     ist_status rc;
 
-    if (o->skip_gold_targets)
-        depth += p->stats.gold_targets < SKIP_DEPTH ? p->stats.gold_targets : SKIP_DEPTH;
+    size_t passed_over = n_filtered + (o->skip_gold_targets ? p->stats.gold_targets : 0);
+    depth += passed_over < SKIP_DEPTH ? passed_over : SKIP_DEPTH;
     if (depth > zt.rows)
         depth = zt.rows;
     if ((rc = gather(xs, qrow, nq, &q, err)) != IST_OK ||
@@ -310,8 +375,10 @@ find_candidates(ist_proposals *p, ist_cmatview xs, ist_cmatview zt, const ist_st
         rc = ist_error_nomem(err);
         goto done;
     }
-    p->n = collect(tk, qrow, nq, o->candidates, o->skip_gold_targets ? gold : NULL, src, tgt,
-                   p->row, g, &ng, &p->stats.skipped_targets);
+    collect_in in = {o->candidates, o->filter.min_score, tflag,
+                     (unsigned char)((o->skip_gold_targets ? T_GOLD : 0) | T_FILTERED),
+                     same_only, o->same_block, src, tgt};
+    p->n = collect(tk, qrow, nq, &in, p->row, g, &ng, &p->stats);
     p->stats.proposed = ng;
     if ((rc = mark_mutual(xs, zt, o->search.csls_k, &o->search.retrieve, p->row, p->n, err)) == IST_OK)
         rc = order_rows(p, g, ng, err);
@@ -329,8 +396,9 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
 {
     ist_propose_opts o;
     ist_proposals *p = NULL;
-    unsigned char *listed = NULL, *gold = NULL;
-    size_t *qrow = NULL, nq = 0;
+    unsigned char *listed = NULL, *gold = NULL, *sflag = NULL;
+    size_t *qrow = NULL, nq = 0, tn[3] = {0, 0, 0};
+    bool *same_only = NULL;
     ist_status rc;
 
     *out = NULL;
@@ -343,9 +411,11 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
     size_t top = o.top_sources && o.top_sources < xs.rows ? o.top_sources : xs.rows;
     p = ist_calloc(1, sizeof *p);
     listed = ist_calloc(xs.rows ? xs.rows : 1, 1);
+    sflag = ist_calloc(xs.rows ? xs.rows : 1, 1);
     gold = ist_calloc(zt.rows, 1);
     qrow = ist_malloc((top ? top : 1) * sizeof *qrow);
-    if (!p || !listed || !gold || !qrow) {
+    same_only = ist_calloc(top ? top : 1, sizeof *same_only);
+    if (!p || !listed || !sflag || !gold || !qrow || !same_only) {
         rc = ist_error_nomem(err);
         goto fail;
     }
@@ -354,23 +424,38 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
     p->candidates = o.candidates;
     p->neighbourhood = o.search.csls_k;
     p->skip_gold_targets = o.skip_gold_targets;
+    p->same_block = o.same_block;
+    p->filter = o.filter;
     size_t nlisted = 0;
     if ((rc = mark_list_words(src, lists, nlists, false, listed, &nlisted, err)) != IST_OK ||
         (rc = mark_list_words(tgt, lists, nlists, true, gold, &p->stats.gold_targets, err)) !=
-            IST_OK)
+            IST_OK ||
+        (rc = ist_word_filter_mark(&o.filter, src, sflag, 0, NULL, err)) != IST_OK ||
+        (rc = ist_word_filter_mark(&o.filter, tgt, gold, 1, tn, err)) != IST_OK)
         goto fail;
     p->stats.considered = top;
     for (size_t i = 0; i < top; i++) {
+        const char *w = ist_store_word(src, i);
         if (listed[i])
             p->stats.listed++;
-        else
+        else if (sflag[i] & S_STOP)
+            p->stats.left_stop++;
+        else if (sflag[i] & S_VARIANT)
+            p->stats.left_variants++;
+        else if ((sflag[i] & S_SHAPE) && ist_word_shape_of(w, strlen(w)) != IST_SHAPE_CODE)
+            p->stats.left_numbers++;
+        else {
+            /* a code is proposed only with its own spelling, in the same-spelling block */
+            same_only[nq] = (sflag[i] & S_SHAPE) != 0;
             qrow[nq++] = i;
+        }
     }
     if (ist_cancel_requested()) {
         rc = ist_error_set(err, IST_ERR_CANCELLED, "propose: cancelled");
         goto fail;
     }
-    if (nq > 0 && (rc = find_candidates(p, xs, zt, src, tgt, &o, qrow, nq, gold, err)) != IST_OK)
+    if (nq > 0 && (rc = find_candidates(p, xs, zt, src, tgt, &o, qrow, nq, same_only, gold,
+                                        tn[0] + tn[1] + tn[2], err)) != IST_OK)
         goto fail;
     p->stats.rows = p->n;
     *out = p;
@@ -378,8 +463,10 @@ ist_propose_views(ist_cmatview xs, ist_cmatview zt, const ist_store *src, const 
     p = NULL;
 fail:
     ist_proposals_free(p);
+    ist_free(same_only);
     ist_free(qrow);
     ist_free(gold);
+    ist_free(sflag);
     ist_free(listed);
     return rc;
 }
@@ -430,13 +517,17 @@ write_header(ist_ofile *f, const ist_proposals *p, const ist_store *src, const i
         "language before use; write accept, reject or 'use WORD' in the decision column\n"
         "# source=%s fingerprint=%016llx target=%s fingerprint=%016llx map=%s "
         "seeds=%016llx order=%s retrieval=csls neighbourhood=%zu top-sources=%zu "
-        "candidates=%zu skip-gold-targets=%s",
+        "candidates=%zu skip-gold-targets=%s numbers=%s stop-share=%g min-score=%g "
+        "variants=%s same-spelling-block=%s",
         base_or_dash(in ? in->source_path : NULL), (unsigned long long)ist_store_fingerprint(src),
         base_or_dash(in ? in->target_path : NULL), (unsigned long long)ist_store_fingerprint(tgt),
         base_or_dash(in ? in->map_path : NULL),
         (unsigned long long)(in ? in->seed_checksum : 0),
         p->order == IST_PROPOSE_CERTAIN ? "certain" : "informative", p->neighbourhood,
-        p->top_sources, p->candidates, p->skip_gold_targets ? "yes" : "no");
+        p->top_sources, p->candidates, p->skip_gold_targets ? "yes" : "no",
+        p->filter.numbers ? "kept" : "left-out", p->filter.stop_share,
+        (double)p->filter.min_score, p->filter.variants ? "left-out" : "kept",
+        p->same_block ? "yes" : "no");
     for (size_t i = 0; rc == IST_OK && in && i < in->nlists; i++)
         rc = ist_ofile_printf(f, err, " exclude=%s checksum=%016llx",
                               base_or_dash(in->list_paths ? in->list_paths[i] : NULL),
@@ -445,7 +536,7 @@ write_header(ist_ofile *f, const ist_proposals *p, const ist_store *src, const i
     if (rc == IST_OK)
         rc = ist_ofile_puts(f,
                             "\ndecision\tsource\tcandidate\tplace\tscore\tmargin\tmutual"
-                            "\tsource_count\ttarget_count\tpriority\n",
+                            "\tsource_count\ttarget_count\tpriority\tblock\n",
                             err);
     return rc;
 }
@@ -459,19 +550,33 @@ ist_proposals_write(const ist_proposals *p, const ist_store *src, const ist_stor
     if (rc != IST_OK)
         return rc;
     rc = write_header(f, p, src, tgt, in, err);
+    bool block_started = false;
     for (size_t i = 0; rc == IST_OK && i < p->n; i++) {
         const ist_proposal *r = &p->row[i];
         char margin[32];
+        if (r->same_spelling && !block_started) {
+            block_started = true;
+            rc = ist_ofile_printf(f, err,
+                                  "# same spelling on both sides (brands, model codes, sizes): "
+                                  "%zu words, most frequent first; check a few, then accept "
+                                  "them all with 'isthmus merge-pairs --accept-same-spelling'\n",
+                                  p->stats.same_spelling);
+            if (rc != IST_OK)
+                break;
+        }
         if (isinf(r->margin))
             strcpy(margin, "inf");
-        else
-            snprintf(margin, sizeof margin, "%.4f", (double)r->margin);
-        rc = ist_ofile_printf(f, err, "\t%s\t%s\t%zu\t%.4f\t%s\t%s\t%llu\t%llu\t%zu\n",
+        else   /* no "-0.0000": a margin that rounds to zero prints as zero */
+            snprintf(margin, sizeof margin, "%.4f",
+                     fabs((double)r->margin) < 0.00005 ? 0.0 : (double)r->margin);
+        rc = ist_ofile_printf(f, err, "\t%s\t%s\t%zu\t%.4f\t%s\t%s\t%llu\t%llu\t%zu\t%s\n",
                               ist_store_word(src, r->source_row),
-                              ist_store_word(tgt, r->target_row), r->place, (double)r->score,
+                              ist_store_word(tgt, r->target_row), r->place,
+                              fabs((double)r->score) < 0.00005 ? 0.0 : (double)r->score,
                               margin, r->mutual ? "yes" : "no",
                               (unsigned long long)r->source_count,
-                              (unsigned long long)r->target_count, r->priority);
+                              (unsigned long long)r->target_count, r->priority,
+                              r->same_spelling ? "same-spelling" : "review");
     }
     if (rc != IST_OK) {
         ist_ofile_abort(f);

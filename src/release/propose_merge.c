@@ -313,13 +313,13 @@ starts_use(const char *s)
 }
 
 typedef struct columns {
-    size_t decision, source, candidate;
+    size_t decision, source, candidate, block;   /* block: SIZE_MAX when absent */
 } columns;
 
 static ist_status
 parse_header(char **f, size_t nf, const char *path, uint64_t line, columns *c, ist_error *err)
 {
-    c->decision = c->source = c->candidate = SIZE_MAX;
+    c->decision = c->source = c->candidate = c->block = SIZE_MAX;
     for (size_t i = 0; i < nf; i++) {
         const char *name = trim(f[i]);
         if (strcmp(name, "decision") == 0)
@@ -328,6 +328,8 @@ parse_header(char **f, size_t nf, const char *path, uint64_t line, columns *c, i
             c->source = i;
         else if (strcmp(name, "candidate") == 0)
             c->candidate = i;
+        else if (strcmp(name, "block") == 0)
+            c->block = i;
     }
     if (c->decision == SIZE_MAX || c->source == SIZE_MAX || c->candidate == SIZE_MAX)
         return ist_error_at(err, IST_ERR_FORMAT, path, line,
@@ -394,6 +396,13 @@ take_row(merger *m, char **f, size_t nf, const columns *c, size_t file, uint64_t
                             "source word '%s' starts with '#', which a pair file reads as a "
                             "comment", s);
     m->sum->rows++;
+    /* the same-spelling block accepted in bulk: its undecided rows count as accepted */
+    if (*dec == '\0' && m->o->accept_same_spelling && c->block < nf &&
+        strcmp(trim(f[c->block]), "same-spelling") == 0) {
+        m->sum->accepted++;
+        m->sum->bulk_accepted++;
+        return take_accept(m, s, t, file, line, err);
+    }
     if (*dec == '\0') {
         m->sum->undecided++;
         return IST_OK;
@@ -445,7 +454,7 @@ read_reviewed(merger *m, size_t file, ist_error *err)
     bool header = false, eof;
     char *line, *f[MAX_FIELDS];
     size_t len;
-    columns c = {0, 0, 0};
+    columns c = {0, 0, 0, SIZE_MAX};
 
     while (rc == IST_OK && (rc = ist_reader_next(r, &line, &len, &eof, err)) == IST_OK && !eof) {
         uint64_t no = ist_reader_lineno(r);

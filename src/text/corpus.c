@@ -377,7 +377,7 @@ take_line(build *b, ist_reader *r, const char *line, size_t len, ist_error *err)
         }
     }
     b->cb_rc = IST_OK;
-    rc = ist_segment_words(norm, nlen, on_word, b, err);
+    rc = ist_segment_words_opts(norm, nlen, &b->o->text, on_word, b, err);
     if (rc == IST_OK)
         rc = b->cb_rc;
     if (rc != IST_OK) {
@@ -513,7 +513,7 @@ chunk_segment(const pool *pl, ist_normalizer *nz, chunk *ch)
         ln->words_off = ch->words_len;
         size_t before = ch->words_len;
         wctx x = {ch, false};
-        rc = ist_segment_words(norm, nlen, collect_word, &x, err);
+        rc = ist_segment_words_opts(norm, nlen, &pl->b->o->text, collect_word, &x, err);
         if (rc == IST_OK && x.nomem)
             rc = ist_error_nomem(err);
         if (rc != IST_OK) {

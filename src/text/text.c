@@ -33,6 +33,7 @@ ist_text_opts_init(ist_text_opts *o)
     memset(o, 0, sizeof *o);
     o->nfkc = true;
     o->casefold = true;
+    o->numbers = IST_NUMBERS_DEFAULT;
 }
 
 const char *
@@ -349,6 +350,7 @@ ist_text_opts_to_json(const ist_text_opts *o, char **json, ist_error *err)
     ist_jw_bool(&w, "strip_marks", o->strip_marks);
     ist_jw_bool(&w, "mask_digits", o->mask_digits);
     ist_jw_bool(&w, "strict_utf8", o->strict_utf8);
+    ist_jw_str(&w, "numbers", ist_numbers_policy_name(o->numbers));
     ist_jw_str(&w, "unicode", utf8proc_unicode_version());
     ist_jw_obj_end(&w);
     return ist_jw_finish(&w, json, err);
@@ -400,11 +402,22 @@ ist_text_opts_from_provenance(const char *provenance_json, ist_text_opts *o, ist
         return ist_error_set(err, IST_ERR_FORMAT,
                              "provenance holds no text options, expected a \"text\" object");
     }
+    /* files written before the policy existed kept every number */
+    const char *numbers = ist_jv_str(ist_jv_get(t, "numbers"), "keep");
+    ist_numbers_policy policy;
+    if (!ist_numbers_policy_parse(numbers, &policy)) {
+        rc = ist_error_set(err, IST_ERR_FORMAT,
+                           "provenance: expected \"numbers\" to be keep, mask or drop, "
+                           "found '%.40s'", numbers);
+        ist_jv_free(root);
+        return rc;
+    }
     o->nfkc = ist_jv_bool(ist_jv_get(t, "nfkc"), true);
     o->casefold = ist_jv_bool(ist_jv_get(t, "casefold"), true);
     o->strip_marks = ist_jv_bool(ist_jv_get(t, "strip_marks"), false);
     o->mask_digits = ist_jv_bool(ist_jv_get(t, "mask_digits"), false);
     o->strict_utf8 = ist_jv_bool(ist_jv_get(t, "strict_utf8"), false);
+    o->numbers = policy;
     ist_jv_free(root);
     return IST_OK;
 }

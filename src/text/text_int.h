@@ -96,6 +96,10 @@ ist_status ist_segment_all(const char *text, size_t len, ist_segment_fn fn, void
 ist_status ist_segment_all_reference(const char *text, size_t len, ist_segment_fn fn, void *ctx,
                                      ist_error *err);
 
+/* Copy word[0..len) to out with every decimal digit (Nd) written as '0';
+ * out has room for len + 1 bytes. Returns the length written (NUL added). */
+size_t ist_word_mask_digits(const char *word, size_t len, char *out);
+
 /* Unicode version of the generated word-break table, e.g. "15.0.0". */
 const char *ist_wordbreak_unicode_version(void);
 

@@ -231,25 +231,113 @@ ist_segment_all_reference(const char *text, size_t len, ist_segment_fn fn, void 
     return segment(text, len, fn, ctx, false, err);
 }
 
+/* The one tailoring of the word rules (UAX #29 section 4 allows tailorings):
+ * letters, one hyphen, and a word that starts with a digit are one word, so a
+ * model code such as "tw-4410" is not split into "tw" and "4410". The word
+ * segments are held back until the next segments show whether they join. */
 typedef struct word_ctx {
     const char *text;
     ist_word_fn fn;
     void *ctx;
+    size_t held_start, held_len;   /* a word of letters only, not yet reported */
+    bool held, hyphen;             /* ... and a hyphen segment seen right after it */
+    bool stopped;
 } word_ctx;
+
+static bool
+letters_only(const unsigned char *s, size_t n)
+{
+    for (size_t i = 0; i < n;) {
+        uint32_t cp;
+        size_t k = ist_utf8_decode(s + i, n - i, &cp);
+        if (k == 0)
+            return false;
+        i += k;
+        if (cp < 0x80) {
+            if ((cp | 0x20) < 'a' || (cp | 0x20) > 'z')
+                return false;
+            continue;
+        }
+        utf8proc_category_t c = utf8proc_category((utf8proc_int32_t)cp);
+        if (c < UTF8PROC_CATEGORY_LU || c > UTF8PROC_CATEGORY_LO)
+            return false;
+    }
+    return n > 0;
+}
+
+static bool
+is_hyphen(const unsigned char *s, size_t n)
+{
+    return (n == 1 && s[0] == '-') ||
+           (n == 3 && s[0] == 0xe2 && s[1] == 0x80 && (s[2] == 0x90 || s[2] == 0x91));
+}
+
+static bool
+starts_with_digit(const unsigned char *s, size_t n)
+{
+    uint32_t cp;
+    if (n == 0 || ist_utf8_decode(s, n, &cp) == 0)
+        return false;
+    return cp < 0x80 ? cp >= '0' && cp <= '9'
+                     : utf8proc_category((utf8proc_int32_t)cp) == UTF8PROC_CATEGORY_ND;
+}
+
+static int
+emit(word_ctx *w, size_t start, size_t len)
+{
+    if (w->fn(w->ctx, w->text + start, len)) {
+        w->stopped = true;
+        return 1;
+    }
+    return 0;
+}
+
+/* Report the held word, if any. */
+static int
+flush_held(word_ctx *w)
+{
+    bool had = w->held;
+    w->held = w->hyphen = false;
+    return had ? emit(w, w->held_start, w->held_len) : 0;
+}
 
 static int
 pass_words(void *ctx, size_t start, size_t len, bool wordlike)
 {
     word_ctx *w = ctx;
-    return wordlike ? w->fn(w->ctx, w->text + start, len) : 0;
+    const unsigned char *s = (const unsigned char *)w->text + start;
+
+    if (w->held && !w->hyphen && !wordlike && is_hyphen(s, len)) {
+        w->hyphen = true;
+        return 0;
+    }
+    if (w->held && w->hyphen && wordlike && starts_with_digit(s, len)) {
+        size_t from = w->held_start;
+        w->held = w->hyphen = false;
+        return emit(w, from, start + len - from);
+    }
+    if (flush_held(w))
+        return 1;
+    if (!wordlike)
+        return 0;
+    if (letters_only(s, len)) {
+        w->held = true;
+        w->held_start = start;
+        w->held_len = len;
+        return 0;
+    }
+    return emit(w, start, len);
 }
 
 ist_status
 ist_segment_words(const char *text, size_t len, ist_word_fn fn, void *ctx, ist_error *err)
 {
-    word_ctx w = {text, fn, ctx};
+    word_ctx w = {.text = text, .fn = fn, .ctx = ctx};
+    ist_status rc = ist_segment_all(text, len, pass_words, &w, err);
 
-    return ist_segment_all(text, len, pass_words, &w, err);
+    if (rc == IST_OK && !w.stopped)
+        flush_held(&w);
+    return rc;
 }
 
 const char *

@@ -16,6 +16,7 @@ Usage: propose_demo.py ISTHMUS SOURCE-DIR WORK-DIR
 """
 import csv
 import json
+import re
 import os
 import subprocess
 import sys
@@ -79,10 +80,14 @@ def main():
     p1 = 100 * json.load(open(res))["runs"][0]["precision"]["p@1"]
     gold = read_gold(test)
     checks = []
+    # the informative run has the review filters off, so that its first candidates are
+    # exactly the answers score counts; the certain run keeps the defaults
+    no_filters = ["--with-numbers", "--with-variants", "--stop-share=0", "--min-score=-4",
+                  "--mixed-order"]
     for order in ("informative", "certain"):
         cand = os.path.join(work, "candidates-%s.tsv" % order)
         run([isthmus, "-q", "propose", vec["en"], vec["es"], "--map=" + mp, "--top-sources=0",
-             "--order=" + order, "-o", cand])
+             "--order=" + order, "-o", cand] + (no_filters if order == "informative" else []))
         rows = read_candidates(cand)
         firsts = [r for r in rows if r["place"] == "1" and r["source"] in gold]
         right = [r["candidate"] in gold[r["source"]] for r in firsts]
@@ -117,6 +122,17 @@ def main():
             print("# certain order: first half %.1f%% right, second half %.1f%%" % (a, b))
             checks.append(("certain order puts right candidates first: %.1f%% > %.1f%%" % (a, b),
                            a > b))
+            # the default filters: no number-shaped source word outside the same-spelling
+            # block, which comes last
+            blocks = [r.get("block", "") for r in rows]
+            numeric = [r["source"] for r in rows if r.get("block") == "review"
+                       and re.match(r"^[0-9]", r["source"])]
+            last_review = max((i for i, b in enumerate(blocks) if b == "review"), default=-1)
+            first_same = min((i for i, b in enumerate(blocks) if b == "same-spelling"),
+                             default=len(rows))
+            checks.append(("default list: no number-shaped word to review (%d), the %d "
+                           "same-spelling rows last" % (len(numeric), len(rows) - first_same),
+                           not numeric and last_review < first_same))
             # accept the gold first candidates and merge them into the seed list
             reviewed = os.path.join(work, "reviewed.tsv")
             with open(cand, encoding="utf-8") as f, open(reviewed, "w", encoding="utf-8") as o:

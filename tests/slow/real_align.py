@@ -53,8 +53,9 @@ def main():
     for lang in ("en", "es"):
         vec = os.path.join(tw, lang + "-d300.isv")
         if not os.path.exists(vec):
-            run([isthmus, "-q", "train", *trained.train_flags(), "--dimension", "300",
-                 "--context", "10", "--passes", "20", "-o", vec, os.path.join(data, lang + ".txt")])
+            run([isthmus, "-q", "train", *trained.train_flags(), "--method=skip-gram",
+                 "--dimension", "300", "--context", "10", "--passes", "20", "-o", vec,
+                 os.path.join(data, lang + ".txt")])
     checks = []
     for s, t in (("en", "es"), ("es", "en")):
         name = s + "-" + t

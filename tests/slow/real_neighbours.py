@@ -77,8 +77,11 @@ def main():
         vec = os.path.join(tw, lang + "-default.isv")
         txt = os.path.join(tw, lang + "-default.txt")
         if not os.path.exists(txt):
-            subprocess.run([isthmus, "-q", "train", *trained.train_flags(), "-o", vec,
-                            "--text-copy", txt, os.path.join(data, lang + ".txt")], check=True)
+            # the skip-gram trainer these floors were measured on (the default method is
+            # now skip-gram+ppmi, checked by doc_align.py)
+            subprocess.run([isthmus, "-q", "train", *trained.train_flags(), "--method=skip-gram",
+                            "-o", vec, "--text-copy", txt, os.path.join(data, lang + ".txt")],
+                           check=True)
         ix, m = load(txt, np)
 
         def rank(a, b):

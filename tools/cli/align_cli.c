@@ -28,6 +28,7 @@ parse_bands(const char *cmd, const char *arg, ist_eval_opts *e)
         return cli_usage_error(cmd, "--bands: list too long") == 0;
     strcpy(buf, arg);
     e->nedges = 0;
+    e->bands_auto = false;
     for (char *tok = strtok_r(buf, ",", &save); tok; tok = strtok_r(NULL, ",", &save)) {
         size_t v;
         if (e->nedges >= IST_METRICS_MAX_BANDS - 1)
@@ -92,8 +93,9 @@ ac_common_help(FILE *out, unsigned groups, const char *rank_default)
                 strcmp(rank_default, "both") == 0 ? "cosine, csls or both" : "cosine or csls",
                 rank_default);
     if (groups & AC_HELP_SCORING)
-        fputs("      --bands=R1,R2,...   upper frequency ranks of the bands reported\n"
-              "                          [default: 5000,20000]\n"
+        fputs("      --bands=R1,R2,...   upper frequency ranks of the bands reported [default:\n"
+              "                          the first tenth and third of the source rows, to two\n"
+              "                          digits: 250,830 for 2482 rows]\n"
               "      --allow-overlap     score even when test source words are also seed\n"
               "                          source words (the result says so) [default: refuse]\n"
               "      --json-out=FILE     write every figure as JSON ('-': standard output)\n",

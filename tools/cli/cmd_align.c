@@ -25,8 +25,9 @@ help(FILE *out)
           "      --spelt-alike-min-freq=N\n"
           "                          ...seen at least N times on both sides [default: 5]\n"
           "      --spelt-alike-codes-only\n"
-          "                          ...and only those holding a digit or a capital letter\n"
-          "                          (names, codes, sizes)\n"
+          "                          ...and only those holding a letter and a digit (codes,\n"
+          "                          sizes: tw-4410, 500ml; not prices such as 17.99) or a\n"
+          "                          capital letter (only where case was kept)\n"
           "      --min-seeds=N       refuse to fit on fewer kept seed pairs [default: the\n"
           "                          dimension: fewer pairs leave the map undetermined]\n"
           "      --hold-out=FRACTION hold out this share of the --seeds source words as a test\n"
@@ -251,7 +252,7 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
         }
         printf("%-10s %zu words spelt the same on both sides (count >= %" PRIu64 "%s)\n",
                "alike", ist_pairs_count(ident), a->ident_min,
-               a->ident_marked ? ", with a digit or capital" : "");
+               a->ident_marked ? ", with a letter and a digit or a capital" : "");
     }
     if (file && ident) {
         ist_status st = IST_OK;

@@ -23,7 +23,12 @@ help(FILE *out)
           "      --map=MAP           map file written by 'isthmus align' (required)\n"
           "      --words=FILE        also look up the words of FILE, one per line\n"
           "      --top=N             translations shown per word [default: 10]\n"
-          ,
+          "      --with-numbers, --with-variants, --stop-share=PCT, --min-score=X\n"
+          "                          the review filters of 'isthmus propose': by default\n"
+          "                          number-shaped words and codes (unless the query is one,\n"
+          "                          or spelt as the query), likely misspellings, words\n"
+          "                          above 0.5% of the target's tokens and scores below 0\n"
+          "                          are not shown\n",
           out);
     ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK, "csls");
     fputs("  -h, --help              show this help and exit\n"
@@ -36,7 +41,7 @@ help(FILE *out)
           out);
 }
 
-enum { OPT_MAP = 1, OPT_WORDS, OPT_TOP };
+enum { OPT_MAP = 1, OPT_WORDS, OPT_TOP, OPT_NUMBERS, OPT_VARIANTS, OPT_STOP, OPT_MIN };
 
 typedef struct wordlist {
     char **w;
@@ -88,18 +93,27 @@ read_words(const char *path, wordlist *l)
 }
 
 static int
-lookup(const ac_common *c, size_t top, const ist_map *map, const ist_store *s,
-       const ist_store *t, const wordlist *l)
+lookup(const ac_common *c, size_t top, const ist_word_filter *wf, const ist_map *map,
+       const ist_store *s, const ist_store *t, const wordlist *l)
 {
     ist_matrix *xs = NULL, *zt = NULL, *q = NULL;
     ist_topk *tk = NULL;
     size_t *rows = calloc(l->n + 1, sizeof *rows), nq = 0;
+    unsigned char *hide = calloc(ist_store_rows(t) + 1, 1);   /* review filters */
     bool missing = false;
     ist_error err;
     int rc = 0;
 
-    if (!rows)
+    if (!rows || !hide) {
+        free(rows);
+        free(hide);
         return CLI_EXIT_ERROR;
+    }
+    if (ist_word_filter_mark(wf, t, hide, 0, NULL, &err) != IST_OK) {
+        free(rows);
+        free(hide);
+        return cli_report(CMD, &err);
+    }
     for (size_t i = 0; i < l->n; i++) {
         ptrdiff_t r;
         if (ist_pairs_find_word(s, l->w[i], &r, &err) != IST_OK) {
@@ -127,7 +141,8 @@ lookup(const ac_common *c, size_t top, const ist_map *map, const ist_store *s,
             memcpy(qv.data + k++ * qv.stride, xv.data + rows[i] * xv.stride,
                    xv.cols * sizeof(float));
     ist_retrieval m = c->methods == AC_COSINE ? IST_RETRIEVAL_COSINE : IST_RETRIEVAL_CSLS;
-    if (ist_retrieve_rank(ist_matview_const(qv), xv, ist_matrix_cview(zt), m, top,
+    size_t depth = top + 64 < ist_store_rows(t) ? top + 64 : ist_store_rows(t);
+    if (ist_retrieve_rank(ist_matview_const(qv), xv, ist_matrix_cview(zt), m, depth,
                           c->search.csls_k, &c->search.retrieve, &tk, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
@@ -139,8 +154,18 @@ lookup(const ac_common *c, size_t top, const ist_map *map, const ist_store *s,
                rows[i] + 1, ist_retrieval_name(m));
         const uint32_t *ix = ist_topk_index(tk, k);
         const float *sc = ist_topk_score(tk, k);
-        for (size_t a = 0; a < top && ix[a] != UINT32_MAX; a++)
-            printf("  %3zu  %-24s %8.4f\n", a + 1, ist_store_word(t, ix[a]), sc[a]);
+        /* a number or code asked for gets numbers and codes as candidates */
+        const char *qw = ist_store_word(s, rows[i]);
+        unsigned char skip = ist_word_shape_of(qw, strlen(qw)) == IST_SHAPE_WORD
+                                 ? 0xff : (unsigned char)~IST_FILTER_SHAPE;
+        for (size_t a = 0, shown = 0; a < depth && shown < top && ix[a] != UINT32_MAX; a++) {
+            const char *w = ist_store_word(t, ix[a]);
+            if (sc[a] < wf->min_score)
+                break;
+            if ((hide[ix[a]] & skip) && strcmp(w, qw) != 0)
+                continue;
+            printf("  %3zu  %-24s %8.4f\n", ++shown, w, sc[a]);
+        }
         k++;
     }
 done:
@@ -149,6 +174,7 @@ done:
     ist_matrix_free(xs);
     ist_matrix_free(zt);
     free(rows);
+    free(hide);
     return rc ? rc : missing ? CLI_EXIT_ERROR : 0;
 }
 
@@ -159,6 +185,10 @@ run(int argc, char **argv)
         {"map", required_argument, NULL, OPT_MAP},
         {"words", required_argument, NULL, OPT_WORDS},
         {"top", required_argument, NULL, OPT_TOP},
+        {"with-numbers", no_argument, NULL, OPT_NUMBERS},
+        {"with-variants", no_argument, NULL, OPT_VARIANTS},
+        {"stop-share", required_argument, NULL, OPT_STOP},
+        {"min-score", required_argument, NULL, OPT_MIN},
         AC_OPTS_SEARCH,
         AC_OPTS_RANK,
         {"help", no_argument, NULL, 'h'},
@@ -171,9 +201,12 @@ run(int argc, char **argv)
     ist_map *map = NULL;
     ist_error err;
     ac_common c;
+    ist_word_filter wf;
+    double v;
     int rc;
 
     ac_common_init(&c, AC_CSLS);
+    ist_word_filter_init(&wf);
     while ((rc = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         switch (rc) {
         case OPT_MAP: mpath = optarg; break;
@@ -181,6 +214,18 @@ run(int argc, char **argv)
         case OPT_TOP:
             if (!cli_parse_size(CMD, "--top", optarg, 1, 1000, &top))
                 return CLI_EXIT_USAGE;
+            break;
+        case OPT_NUMBERS: wf.numbers = true; break;
+        case OPT_VARIANTS: wf.variants = false; break;
+        case OPT_STOP:
+            if (!cli_parse_double(CMD, "--stop-share", optarg, 0, 100, &v))
+                return CLI_EXIT_USAGE;
+            wf.stop_share = v / 100;
+            break;
+        case OPT_MIN:
+            if (!cli_parse_double(CMD, "--min-score", optarg, -4, 4, &v))
+                return CLI_EXIT_USAGE;
+            wf.min_score = (float)v;
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
@@ -217,7 +262,7 @@ run(int argc, char **argv)
         rc = cli_report(CMD, &err);
         goto done;
     }
-    rc = lookup(&c, top, map, s, t, &l);
+    rc = lookup(&c, top, &wf, map, s, t, &l);
 done:
     for (size_t i = 0; i < l.n; i++)
         free(l.w[i]);

@@ -25,6 +25,10 @@ help(FILE *out)
           "  -o, --output=OUT        pair file to write (required; may not be SEEDS)\n"
           "      --one-target        a source word may have only one target: two different\n"
           "                          targets for one word are a conflict [default: several]\n"
+          "      --accept-same-spelling\n"
+          "                          take the undecided rows of the same-spelling block\n"
+          "                          (brands, model codes, sizes) as accepted; a decision\n"
+          "                          written in a row still counts [default: undecided]\n"
           "      --skip-conflicts    leave conflicting pairs out and write the rest\n"
           "                          [default: write nothing and exit 1]\n"
           "      --target-vectors=FILE  refuse a 'use WORD' whose WORD is not a word of\n"
@@ -41,7 +45,7 @@ help(FILE *out)
           out);
 }
 
-enum { OPT_ONE_TARGET = 1, OPT_SKIP_CONFLICTS, OPT_TARGET_VECTORS };
+enum { OPT_ONE_TARGET = 1, OPT_SKIP_CONFLICTS, OPT_TARGET_VECTORS, OPT_ACCEPT_SAME };
 
 static void
 print_conflict(const char *msg, void *ctx)
@@ -55,6 +59,8 @@ print_summary(const ist_merge_summary *s)
 {
     printf("rows %zu: accepted %zu, corrected %zu, rejected %zu, undecided %zu\n", s->rows,
            s->accepted, s->corrected, s->rejected, s->undecided);
+    if (s->bulk_accepted)
+        printf("of the accepted, %zu same-spelling rows accepted in bulk\n", s->bulk_accepted);
     printf("duplicates %zu, conflicts %zu; %zu pair%s added to the %zu of the seed list\n",
            s->duplicates, s->conflicts, s->added, s->added == 1 ? "" : "s", s->seed_pairs);
 }
@@ -65,6 +71,7 @@ run(int argc, char **argv)
     static const struct option opts[] = {
         {"output", required_argument, NULL, 'o'},
         {"one-target", no_argument, NULL, OPT_ONE_TARGET},
+        {"accept-same-spelling", no_argument, NULL, OPT_ACCEPT_SAME},
         {"skip-conflicts", no_argument, NULL, OPT_SKIP_CONFLICTS},
         {"target-vectors", required_argument, NULL, OPT_TARGET_VECTORS},
         {"help", no_argument, NULL, 'h'},
@@ -83,6 +90,7 @@ run(int argc, char **argv)
         switch (o) {
         case 'o': out = optarg; break;
         case OPT_ONE_TARGET: mo.one_target = true; break;
+        case OPT_ACCEPT_SAME: mo.accept_same_spelling = true; break;
         case OPT_SKIP_CONFLICTS: mo.skip_conflicts = true; break;
         case OPT_TARGET_VECTORS: tpath = optarg; break;
         case 'h': help(stdout); return CLI_EXIT_OK;

@@ -28,7 +28,12 @@ help(FILE *out)
           "      --no-casefold       keep letter case [default: full case folding]\n"
           "      --strip-marks       remove combining marks (accents): cafe = caf\xc3\xa9\n"
           "                          [default: kept]\n"
-          "      --mask-digits       write every decimal digit as 0 [default: kept]\n"
+          "      --mask-digits       write every decimal digit as 0, in every word (codes too)\n"
+          "                          [default: kept]\n"
+          "      --numbers=POLICY    number-shaped words (prices, order numbers, sizes such\n"
+          "                          as 40cm): keep, mask (digits as 0: 6.39 -> 0.00) or drop\n"
+          "                          (left out of the vocabulary); codes such as tw-4410\n"
+          "                          are always kept [default: keep]\n"
           "      --strict-utf8       stop at invalid UTF-8 with file, line and byte offset\n"
           "                          [default: replace it with U+FFFD and count it]\n"
           "      --dedup-lines       drop exact repeats of a normalised line [default: kept]\n"
@@ -111,6 +116,7 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
         {"no-casefold", no_argument, NULL, 'C'},
         {"strip-marks", no_argument, NULL, 'S'},
         {"mask-digits", no_argument, NULL, 'D'},
+        {"numbers", required_argument, NULL, 'n'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'd'},
         {"threads", required_argument, NULL, 't'},
@@ -141,6 +147,11 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
         case 'C': o->text.casefold = false; break;
         case 'S': o->text.strip_marks = true; break;
         case 'D': o->text.mask_digits = true; break;
+        case 'n':
+            if (!ist_numbers_policy_parse(optarg, &o->text.numbers))
+                return cli_usage_error("prepare", "--numbers: expected keep, mask or drop, "
+                                       "found '%s'", optarg);
+            break;
         case 'U': o->text.strict_utf8 = true; break;
         case 'd': o->dedup_lines = true; break;
         case 't':

@@ -31,13 +31,31 @@ help(FILE *out)
           "                          certain (mutual neighbours, widest margin first)\n"
           "                          [default: informative]\n"
           "      --skip-gold-targets leave out candidates that are already a gold target of a\n"
-          "                          listed source word [default: keep them]\n",
+          "                          listed source word [default: keep them]\n"
+          "\n"
+          "What a reviewer is spared (the same filters as in 'lookup'):\n"
+          "      --with-numbers      also propose number-shaped words (prices, order numbers,\n"
+          "                          sizes such as 40cm) and codes, and offer them as\n"
+          "                          candidates [default: left out; a code such as tw-4410\n"
+          "                          is offered only with its own spelling]\n"
+          "      --stop-share=PCT    stop list: words above PCT percent of the counted tokens\n"
+          "                          of their file (the, de, en) are neither proposed nor\n"
+          "                          offered as candidates; 0 = no stop list [default: 0.5]\n"
+          "      --min-score=X       leave out candidates whose CSLS score (-4 to 4) is below X;\n"
+          "                          a word left with none is not proposed [default: 0]\n"
+          "      --with-variants     also propose likely misspellings: words one edit from a\n"
+          "                          word at least 50 times as frequent (ewll, tilwlick)\n"
+          "                          [default: left out]\n"
+          "      --mixed-order       keep pairs spelt the same on both sides in the review\n"
+          "                          order [default: a block of their own at the end, most\n"
+          "                          frequent first, to accept in bulk]\n",
           out);
     ac_common_help(out, AC_HELP_SEARCH, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Write accept, reject or 'use WORD' in the decision column, then merge the file\n"
-          "with 'isthmus merge-pairs'. The candidates are statistical suggestions; have a\n"
+          "with 'isthmus merge-pairs' ('--accept-same-spelling' accepts the undecided rows\n"
+          "of the same-spelling block). The candidates are statistical suggestions; have a\n"
           "speaker of the language review them before they drive anything customer-facing.\n"
           "\n"
           "Example:\n"
@@ -46,7 +64,8 @@ help(FILE *out)
           out);
 }
 
-enum { OPT_MAP = 1, OPT_EXCLUDE, OPT_TOP_SOURCES, OPT_CANDIDATES, OPT_ORDER, OPT_SKIP_GOLD };
+enum { OPT_MAP = 1, OPT_EXCLUDE, OPT_TOP_SOURCES, OPT_CANDIDATES, OPT_ORDER, OPT_SKIP_GOLD,
+       OPT_WITH_NUMBERS, OPT_STOP_SHARE, OPT_MIN_SCORE, OPT_MIXED, OPT_WITH_VARIANTS };
 
 typedef struct args {
     const char *map, *out, *src, *tgt;
@@ -66,6 +85,11 @@ parse(int argc, char **argv, args *a)
         {"candidates", required_argument, NULL, OPT_CANDIDATES},
         {"order", required_argument, NULL, OPT_ORDER},
         {"skip-gold-targets", no_argument, NULL, OPT_SKIP_GOLD},
+        {"with-numbers", no_argument, NULL, OPT_WITH_NUMBERS},
+        {"stop-share", required_argument, NULL, OPT_STOP_SHARE},
+        {"min-score", required_argument, NULL, OPT_MIN_SCORE},
+        {"mixed-order", no_argument, NULL, OPT_MIXED},
+        {"with-variants", no_argument, NULL, OPT_WITH_VARIANTS},
         AC_OPTS_SEARCH,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
@@ -101,6 +125,23 @@ parse(int argc, char **argv, args *a)
             a->po.order = ord == 1 ? IST_PROPOSE_CERTAIN : IST_PROPOSE_INFORMATIVE;
             break;
         case OPT_SKIP_GOLD: a->po.skip_gold_targets = true; break;
+        case OPT_WITH_NUMBERS: a->po.filter.numbers = true; break;
+        case OPT_STOP_SHARE: {
+            double pct;
+            if (!cli_parse_double(CMD, "--stop-share", optarg, 0, 100, &pct))
+                return CLI_EXIT_USAGE;
+            a->po.filter.stop_share = pct / 100;
+            break;
+        }
+        case OPT_MIN_SCORE: {
+            double v;
+            if (!cli_parse_double(CMD, "--min-score", optarg, -4, 4, &v))
+                return CLI_EXIT_USAGE;
+            a->po.filter.min_score = (float)v;
+            break;
+        }
+        case OPT_MIXED: a->po.same_block = false; break;
+        case OPT_WITH_VARIANTS: a->po.filter.variants = false; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (o >= 1000) {
@@ -148,6 +189,14 @@ propose(const args *a, const ist_map *map, const ist_store *s, const ist_store *
              st.considered, st.listed, st.proposed, st.rows, strcmp(a->out, "-") ? "" : "\n");
     if (strcmp(a->out, "-") != 0)
         cli_info(" -> %s\n", a->out);
+    cli_info("left out: %zu number-shaped words and codes, %zu stop-list words, %zu likely "
+             "misspellings, %zu words with no candidate scoring %g or more; %zu candidates "
+             "passed over as numbers, codes, stop-list words or misspellings\n",
+             st.left_numbers, st.left_stop, st.left_variants, st.left_low,
+             (double)a->po.filter.min_score, st.filtered_targets);
+    if (a->po.same_block)
+        cli_info("%zu words spelt the same on both sides are in a block of their own at the "
+                 "end\n", st.same_spelling);
     if (a->po.skip_gold_targets)
         cli_info("%zu candidates left out as gold targets of listed words\n", st.skipped_targets);
     ist_proposals_free(p);

@@ -24,7 +24,8 @@ help(FILE *out)
           "Training options:\n"
           "  -o, --output=OUT        vector file to write (required)\n"
           "      --method=M          skip-gram, ppmi, or skip-gram+ppmi (the two blocks side by\n"
-          "                          side) [default: skip-gram]\n"
+          "                          side) [default: skip-gram+ppmi, measured best on both\n"
+          "                          real-data checks: docs/defaults.md]\n"
           "      --block-weights=A,B weights of the skip-gram and PPMI blocks in skip-gram+ppmi\n"
           "                          [default: 1,1]\n"
           "\n"
@@ -78,6 +79,8 @@ help(FILE *out)
           "      --max-line-bytes=N  longest line accepted, in bytes [default: 1048576]\n"
           "      --no-nfkc, --no-casefold, --strip-marks, --mask-digits, --strict-utf8,\n"
           "      --dedup-lines       as for 'isthmus prepare'\n"
+          "      --numbers=POLICY    number-shaped words: keep, mask or drop, as for 'isthmus\n"
+          "                          prepare' [default: keep]\n"
           "  -h, --help              show this help and exit\n"
           "\n"
           "Progress (percent, words/s, learning rate, recent loss, time left; for PPMI the stage\n"
@@ -99,6 +102,7 @@ typedef struct train_args {
     ist_sgns_opts so;
     ist_ppmi_opts po;
     int method;
+    bool method_given;
     double weights[2];
     ist_corpus_opts co;
     bool passes_auto, text_opts_given;
@@ -182,6 +186,7 @@ parse(int argc, char **argv, train_args *a)
         {"no-casefold", no_argument, NULL, 'C'},
         {"strip-marks", no_argument, NULL, 'M'},
         {"mask-digits", no_argument, NULL, 'D'},
+        {"numbers", required_argument, NULL, 'B'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'u'},
         {"rate-floor", required_argument, NULL, 1011},
@@ -212,6 +217,7 @@ parse(int argc, char **argv, train_args *a)
     ist_corpus_opts_init(&a->co);
     ist_ppmi_opts_init(&a->po);
     a->weights[0] = a->weights[1] = 1.0;
+    a->method = METHOD_BOTH;   /* measured best: docs/defaults.md */
     a->passes_auto = true;
     while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
         bool ok = true;
@@ -261,12 +267,22 @@ parse(int argc, char **argv, train_args *a)
         case 'C': a->co.text.casefold = false; a->text_opts_given = true; break;
         case 'M': a->co.text.strip_marks = true; a->text_opts_given = true; break;
         case 'D': a->co.text.mask_digits = true; a->text_opts_given = true; break;
+        case 'B':
+            ok = ist_numbers_policy_parse(optarg, &a->co.text.numbers);
+            if (!ok)
+                cli_usage_error(cmd, "--numbers: expected keep, mask or drop, found '%s'",
+                                optarg);
+            a->text_opts_given = true;
+            break;
         case 'U': a->co.text.strict_utf8 = true; a->text_opts_given = true; break;
         case 'u': a->co.dedup_lines = true; a->text_opts_given = true; break;
         case 1011:
             ok = cli_parse_double(cmd, "--rate-floor", optarg, 1e-9, 1, &a->so.lr_floor);
             break;
-        case 1000: ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method); break;
+        case 1000:
+            ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method);
+            a->method_given = true;
+            break;
         case 1001: ok = parse_weights(cmd, optarg, a->weights); break;
         case 1002:
             ok = cli_parse_size(cmd, "--ppmi-dimension", optarg, 1, 10000, &a->po.dim);
@@ -303,9 +319,16 @@ parse(int argc, char **argv, train_args *a)
     a->so.threads = threads ? threads : cli_processors();
     if (!a->out)
         return cli_usage_error(cmd, "expected --output OUT");
+    /* the PPMI trainer does not run across ranks: under mpirun the default is skip-gram */
+    if (ist_cluster_size() > 1 && a->method != METHOD_SGNS) {
+        if (a->method_given)
+            return cli_usage_error(cmd, "under mpirun only --method=skip-gram is trained across "
+                                        "ranks");
+        a->method = METHOD_SGNS;
+    }
     if (a->ctx_out && a->method != METHOD_SGNS)
-        return cli_usage_error(cmd, "--keep-context needs --method=skip-gram (PPMI vectors have "
-                                    "no context vectors)");
+        return cli_usage_error(cmd, "--keep-context needs --method=skip-gram (PPMI and combined "
+                                    "vectors have no context vectors)");
     if (strcmp(a->out, "-") == 0)
         return cli_usage_error(cmd, "the native vector file is binary; give a file name to "
                                     "--output, not '-' (use --text-copy for a text table)");
@@ -548,10 +571,16 @@ run(int argc, char **argv)
                  "%.0f words/s; %zu x %zu vectors -> %s\n", (unsigned long long)res.words_seen,
                  (unsigned long long)res.words_trained, res.seconds, res.words_per_sec, types,
                  dim, a.out);
-    else
+    else {
+        if (a.method == METHOD_BOTH)
+            cli_info("isthmus train: skip-gram block: %llu words seen (%llu trained after "
+                     "subsampling) in %.2f s, %.0f words/s\n",
+                     (unsigned long long)res.words_seen, (unsigned long long)res.words_trained,
+                     res.seconds, res.words_per_sec);
         cli_info("isthmus train: %zu x %zu %s vectors in %.2f s -> %s\n", types, dim,
                  a.method == METHOD_PPMI ? "PPMI" : "combined (skip-gram + PPMI)",
                  cli_now() - t0, a.out);
+    }
     if (res.ranks > 1)
         cli_info("isthmus train: %u ranks, %llu exchanges of %.1f MB per rank, %.2f s "
                  "exchanging (%.1f ms each), %.2f s waiting for other ranks\n", res.ranks,
