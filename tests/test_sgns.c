@@ -391,6 +391,7 @@ one_thread_bits_unchanged(void **state)
     const uint64_t want[3] = {UINT64_C(0x0684be02dc667e29), UINT64_C(0x8211b23914a55c75), UINT64_C(0x85c1620b502928cc)};
     __builtin_cpu_init();
     bool has2 = __builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma");
+    int bad = 0;
     for (int k = 0; k < 3; k++) {
         if (k > 0 && !has2) {
             printf("# %s checksum: not compared (the CPU has no AVX2 + FMA)\n", sets[k]);
@@ -403,16 +404,22 @@ one_thread_bits_unchanged(void **state)
         uint64_t h = matrix_fnv(m) ^ (matrix_fnv(ctx) * 31u);
         printf("# one thread, %s kernel, %s set: checksum %016llx\n",
                k == 2 ? "reference" : "fast", sets[k], (unsigned long long)h);
+        ist_matrix_free(m), ist_matrix_free(ctx);
 #if defined(__AVX2__) || defined(__FMA__)
         printf("# built for this CPU: checksum reported, not compared\n");
 #else
-        if (h != want[k])
-            fail_msg("checksum %016llx, recorded %016llx", (unsigned long long)h,
-                     (unsigned long long)want[k]);
+        /* The reference loop's sums are vectorised by the compiler (-fopenmp-simd), so their
+         * order, and the last bits, follow the optimisation level and instrumentation (an
+         * -O3 or sanitizer build differs): its checksum is reported, not compared. The fast
+         * kernels are explicit vector code and must keep their bits in every build. */
+        if (k < 2 && h != want[k])
+            bad++, printf("# %s set: checksum %016llx, recorded %016llx\n", sets[k],
+                          (unsigned long long)h, (unsigned long long)want[k]);
 #endif
-        ist_matrix_free(m), ist_matrix_free(ctx);
     }
     corpus_free(&c);
+    if (bad)
+        fail_msg("%d checksum(s) changed", bad);
 }
 
 static double

@@ -362,7 +362,8 @@ count_pairs(const uint32_t *ids, size_t n_ids, size_t vocab, const ist_ppmi_opts
     for (size_t t = 0; t < T && rc == IST_OK; t++)
         if (cs[t].rc != IST_OK) {
             rc = cs[t].rc;
-            *err = cs[t].err;
+            if (err)
+                *err = cs[t].err;
         }
     size_t mem = 0;
     for (size_t t = 0; t < T; t++)
