@@ -30,13 +30,16 @@ run() {   # description, isthmus arguments...
     fi
 }
 echo "1..6"
-# 300 KB of each demo corpus (data-samples/), 1 pass at dimension 16
+# 300 KB of each demo corpus (data-samples/), 1 pass, both blocks of the default method at
+# dimension 16 (a 300-component SVD under memcheck would take most of the suite's time)
 gzip -dc "$data/tillwick-en.txt.gz" | head -c 300000 > en.txt
 gzip -dc "$data/tillwick-es.txt.gz" | head -c 300000 > es.txt
 run "prepare en" -q prepare --min-freq=2 -o en.prep en.txt
-run "train en (prepared corpus, 2 threads)" -q train --dimension=16 --passes=1 --threads=2 \
+run "train en (prepared corpus, 2 threads)" -q train --dimension=16 --ppmi-dimension=16 \
+    --passes=1 --threads=2 \
     -o en.isv en.prep
-run "train es (raw text, 1 thread, text copy)" -q train --dimension=16 --passes=1 --threads=1 \
+run "train es (raw text, 1 thread, text copy)" -q train --dimension=16 --ppmi-dimension=16 \
+    --passes=1 --threads=1 \
     --min-freq=2 --text-copy=es.txt.gz -o es.isv es.txt
 run "align with 2 threads" -q align en.isv es.isv --seeds="$data/demo-seed.pairs" \
     --refine-rounds=2 --threads=2 -o m.map
