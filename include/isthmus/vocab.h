@@ -2,7 +2,7 @@
  *
  * Owns UTF-8 strings (in an arena) and an open-addressing hash index with O(1)
  * expected lookup. Ids are dense, 0..size-1, in insertion order until
- * ist_vocab_sort() puts them in frequency order. */
+ * ist_vocab_sort_prune() puts them in frequency order. */
 #ifndef ISTHMUS_VOCAB_H
 #define ISTHMUS_VOCAB_H
 
