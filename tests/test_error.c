@@ -83,6 +83,13 @@ file_kinds_by_first_bytes(void **state)
     assert_int_equal(CLASSIFY("{\"runs\": []}"), IST_FILE_JSON);
     assert_int_equal(CLASSIFY("# isthmus candidate list: ...\n"), IST_FILE_CANDIDATES);
     assert_int_equal(CLASSIFY("kettle\thervidor\n"), IST_FILE_TEXT);
+    /* a text line that begins with a signature's letters stays text (a word list
+     * whose first source word is ISTHMUSM, found by fuzzing); the signature alone,
+     * cut short, is still the binary kind for its reader to call truncated */
+    assert_int_equal(CLASSIFY("ISTHMUSM\tmu\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY("ISTHMUSV x\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY("ISTPREP\x1a\tsol\n"), IST_FILE_TEXT);
+    assert_int_equal(CLASSIFY("ISTHMUSV"), IST_FILE_VECTORS);
     assert_int_equal(CLASSIFY("caf\xc3\xa9 caf\xc3\xa9\n"), IST_FILE_TEXT);
     assert_int_equal(CLASSIFY("\xef\xbb\xbfkettle\thervidor\n"), IST_FILE_TEXT);
     /* binary: at least 8 bytes that text never holds, and at least 1 in 20 */

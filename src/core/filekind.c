@@ -71,18 +71,38 @@ looks_binary(const unsigned char *p, size_t n, bool cut)
     return bad >= 8 && bad * 20 >= n;
 }
 
+/* Does one of the project's binary signatures open the data? Every binary header
+ * puts a little-endian 32-bit version right after its 8-byte signature, and a
+ * version below 2^24 has a zero top byte, which text never holds (a signature of 7
+ * letters is followed by an eighth byte of its own, then the version). So a text line
+ * that merely begins with the signature's letters ("ISTHMUSM<TAB>mu", a word list's
+ * first pair) stays text. A file that ends inside the version field is taken as
+ * the binary kind, cut short, for its reader to say so. */
+static bool
+own_signature(const unsigned char *p, size_t n, const char *magic, size_t m)
+{
+    if (!starts(p, n, magic, m))
+        return false;
+    if (n <= 8)
+        return true;
+    for (size_t i = 8; i < n && i < 12; i++)
+        if (p[i] < 0x20 && p[i] != '\t' && p[i] != '\n' && p[i] != '\r')
+            return true;
+    return false;
+}
+
 static ist_file_kind
 classify(const unsigned char *p, size_t n, bool cut)
 {
     if (n == 0)
         return IST_FILE_UNKNOWN;
-    if (starts(p, n, "ISTHMUSV", 8))
+    if (own_signature(p, n, "ISTHMUSV", 8))
         return IST_FILE_VECTORS;
-    if (starts(p, n, "ISTHMUSM", 8))
+    if (own_signature(p, n, "ISTHMUSM", 8))
         return IST_FILE_MAP;
-    if (starts(p, n, "ISTPREP\x1a", 8))
+    if (own_signature(p, n, "ISTPREP\x1a", 8))
         return IST_FILE_PREPARED;
-    if (starts(p, n, "ISTHMUS", 7) || starts(p, n, "ISTPREP", 7))
+    if (own_signature(p, n, "ISTHMUS", 7) || own_signature(p, n, "ISTPREP", 7))
         return IST_FILE_OWN_BINARY;
     if (looks_binary(p, n, cut))
         return IST_FILE_BINARY;
