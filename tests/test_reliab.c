@@ -6,6 +6,7 @@
 
 #include <isthmus/align.h>
 #include <isthmus/linalg.h>
+#include <isthmus/norm.h>
 #include <isthmus/matrix.h>
 #include <isthmus/cancel.h>
 #include <isthmus/metrics.h>

@@ -24,6 +24,7 @@
 #include <isthmus/error.h>
 #include <isthmus/linalg.h>
 #include <isthmus/matrix.h>
+#include <isthmus/norm.h>
 #include <isthmus/pairs.h>
 #include <isthmus/retrieve.h>
 #include <isthmus/store.h>

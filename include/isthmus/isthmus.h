@@ -10,6 +10,7 @@
 #include <isthmus/vocab.h>
 #include <isthmus/store.h>
 #include <isthmus/linalg.h>
+#include <isthmus/norm.h>
 #include <isthmus/retrieve.h>
 #include <isthmus/pairs.h>
 #include <isthmus/align.h>

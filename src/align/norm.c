@@ -1,5 +1,5 @@
 /* norm.c - standardisation plans: unit length and mean centring, recorded and replayed. */
-#include <isthmus/linalg.h>
+#include <isthmus/norm.h>
 
 #include <math.h>
 #include <stdio.h>
