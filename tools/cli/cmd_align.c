@@ -4,7 +4,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "align_cli.h"
+#include "eval_cli.h"
 
 #define CMD "align"
 
@@ -46,7 +46,7 @@ help(FILE *out)
           "                          [default: induced pairs only]\n"
           "      --mapped-out=FILE   also write the mapped source vectors as a vector file\n",
           out);
-    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK | AC_HELP_SCORING | AC_HELP_DIAG, "both");
+    ev_common_help(out, EV_HELP_SEARCH | EV_HELP_RANK | EV_HELP_SCORING | EV_HELP_DIAG, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Refinement stops early when the mean CSLS of the induced pairs stops rising.\n"
@@ -82,7 +82,7 @@ typedef struct args {
     uint64_t ident_min, split_seed;
     double hold_out;
     size_t rounds, rvocab, min_seeds;
-    ac_common c;
+    ev_common c;
 } args;
 
 static void
@@ -120,10 +120,10 @@ parse(int argc, char **argv, args *a)
         {"mapped-out", required_argument, NULL, OPT_MAPPED},
         {"refine-keep-seeds", no_argument, NULL, OPT_KEEP_SEEDS},
         {"min-seeds", required_argument, NULL, OPT_MIN_SEEDS},
-        AC_OPTS_SEARCH,
-        AC_OPTS_RANK,
-        AC_OPTS_SCORING,
-        AC_OPTS_DIAG,
+        EV_OPTS_SEARCH,
+        EV_OPTS_RANK,
+        EV_OPTS_SCORING,
+        EV_OPTS_DIAG,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -173,7 +173,7 @@ parse(int argc, char **argv, args *a)
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (c >= 1000) {
-                if (!ac_common_option(CMD, &a->c, c, optarg))
+                if (!ev_common_option(CMD, &a->c, c, optarg))
                     return CLI_EXIT_USAGE;
                 break;
             }
@@ -210,7 +210,7 @@ check_seed_count(const args *a, const ist_store *s, const ist_store *t, const is
             "a map fitted on so few is undetermined\n", CMD, kept, kept == 1 ? "" : "s", need,
             a->min_seeds ? "--min-seeds" : "the dimension of the vectors");
     if (a->seeds)
-        ac_swap_hint(CMD, a->seeds, s, t, kept);
+        ev_swap_hint(CMD, a->seeds, s, t, kept);
     return CLI_EXIT_ERROR;
 }
 
@@ -225,7 +225,7 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
     int rc;
 
     *seeds = *test = NULL;
-    if (a->seeds && (rc = ac_read_pairs(CMD, "seeds", a->seeds, s, t, &file, &cov)) != 0)
+    if (a->seeds && (rc = ev_read_pairs(CMD, "seeds", a->seeds, s, t, &file, &cov)) != 0)
         return rc;
     if (file && a->hold_out > 0) {
         ist_pairs *sp, *tp;
@@ -292,7 +292,7 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
 
     if (!test && !a->c.json_out)
         return 0;
-    ac_evaluate_opts(&a->c, &eo);
+    ev_evaluate_opts(&a->c, &eo);
     eo.command = CMD;
     /* without refinement rounds the final map is the seed fit, labelled procrustes */
     eo.stages = ist_map_rounds(map) > 0 ? IST_STAGE_SEED | IST_STAGE_FINAL : IST_STAGE_FINAL;
@@ -309,7 +309,7 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
     eo.fit = &fit;
     eo.final_xs = xs;
     eo.final_zt = zt;
-    if ((rc = ac_evaluate(CMD, map, s, t, test, test ? tcov : NULL, &eo, &res)) != 0)
+    if ((rc = ev_evaluate(CMD, map, s, t, test, test ? tcov : NULL, &eo, &res)) != 0)
         return rc;
     if (a->c.json_out && ist_result_write(res, a->c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);
@@ -337,7 +337,7 @@ run(int argc, char **argv)
     a.normalise = IST_NORM_DEFAULT;
     a.rounds = IST_ALIGN_REFINE_ROUNDS_DEFAULT;
     a.rvocab = IST_ALIGN_REFINE_VOCAB_DEFAULT;
-    ac_common_init(&a.c, AC_BOTH);
+    ev_common_init(&a.c, EV_BOTH);
     if ((rc = parse(argc, argv, &a)) != CLI_GO_ON)
         return rc;
     a.src = argv[optind];
@@ -346,17 +346,17 @@ run(int argc, char **argv)
     const char *outs[] = {a.out, a.mapped, a.write_test, a.c.json_out};
     if ((rc = cli_check_files(CMD, ins, 4, outs, 4)) != 0)
         return rc;
-    if ((rc = ac_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
+    if ((rc = ev_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
         return rc;
     if ((rc = build_seeds(&a, s, t, &seeds, &test, &tcov)) != 0)
         goto done;
     if ((rc = check_seed_count(&a, s, t, seeds)) != 0)
         goto done;
-    if (a.test && (rc = ac_read_pairs(CMD, "test", a.test, s, t, &test, &tcov)) != 0)
+    if (a.test && (rc = ev_read_pairs(CMD, "test", a.test, s, t, &test, &tcov)) != 0)
         goto done;
     if (test) {
         size_t shared;
-        if ((rc = ac_check_overlap(CMD, seeds, test, a.c.allow_overlap, &shared)) != 0)
+        if ((rc = ev_check_overlap(CMD, seeds, test, a.c.allow_overlap, &shared)) != 0)
             goto done;
     }
     ist_align_opts_init(&ao);

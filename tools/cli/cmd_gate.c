@@ -3,7 +3,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "align_cli.h"
+#include "eval_cli.h"
 
 #define CMD "gate"
 
@@ -33,7 +33,7 @@ help(FILE *out)
           "      --map=MAP           map file, to score SRC and TGT\n"
           "      --test=FILE         test pairs, to score SRC and TGT\n",
           out);
-    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK | AC_HELP_SCORING, "both");
+    ev_common_help(out, EV_HELP_SEARCH | EV_HELP_RANK | EV_HELP_SCORING, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "A 'max drop' rule fails only when the whole 95% interval of the change in\n"
@@ -54,7 +54,7 @@ enum { OPT_THRESHOLDS = 1, OPT_BASELINE, OPT_VERDICT, OPT_RESAMPLES, OPT_SEED, O
 typedef struct args {
     const char *thresholds, *baseline, *verdict, *junit, *map, *test;
     ist_gate_opts gate;
-    ac_common c;
+    ev_common c;
 } args;
 
 /* Score SRC and TGT with the map on the test list, as 'score' does, into *out. */
@@ -72,23 +72,23 @@ compute(const args *a, char **argv, ist_result **out)
 
     if (ist_map_load(a->map, &map, &err) != IST_OK)
         return cli_report(CMD, &err);
-    if ((rc = ac_open_stores(CMD, argv[0], argv[1], &s, &t)) != 0)
+    if ((rc = ev_open_stores(CMD, argv[0], argv[1], &s, &t)) != 0)
         goto done;
     if (ist_map_check(map, s, t, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }
-    if ((rc = ac_read_pairs(CMD, "test", a->test, s, t, &test, &cov)) != 0 ||
-        (rc = ac_check_overlap(CMD, ist_map_seeds(map), test, a->c.allow_overlap, &shared)) != 0)
+    if ((rc = ev_read_pairs(CMD, "test", a->test, s, t, &test, &cov)) != 0 ||
+        (rc = ev_check_overlap(CMD, ist_map_seeds(map), test, a->c.allow_overlap, &shared)) != 0)
         goto done;
-    ac_evaluate_opts(&a->c, &eo);
+    ev_evaluate_opts(&a->c, &eo);
     eo.command = "score";
     eo.name = "(scored now)";
     eo.ci = a->gate.ci;
     eo.source_path = argv[0];
     eo.target_path = argv[1];
     eo.map_path = a->map;
-    if ((rc = ac_evaluate(CMD, map, s, t, test, &cov, &eo, out)) != 0)
+    if ((rc = ev_evaluate(CMD, map, s, t, test, &cov, &eo, out)) != 0)
         goto done;
     if (a->c.json_out && ist_result_write(*out, a->c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);
@@ -112,9 +112,9 @@ parse_args(int argc, char **argv, args *a)
         {"seed", required_argument, NULL, OPT_SEED},
         {"map", required_argument, NULL, OPT_MAP},
         {"test", required_argument, NULL, OPT_TEST},
-        AC_OPTS_SEARCH,
-        AC_OPTS_RANK,
-        AC_OPTS_SCORING,
+        EV_OPTS_SEARCH,
+        EV_OPTS_RANK,
+        EV_OPTS_SCORING,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -138,7 +138,7 @@ parse_args(int argc, char **argv, args *a)
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
-            if (o >= 1000 && ac_common_option(CMD, &a->c, o, optarg))
+            if (o >= 1000 && ev_common_option(CMD, &a->c, o, optarg))
                 break;
             if (o >= 1000)
                 return CLI_EXIT_USAGE;
@@ -196,7 +196,7 @@ run(int argc, char **argv)
 
     memset(&a, 0, sizeof a);
     ist_gate_opts_init(&a.gate);
-    ac_common_init(&a.c, AC_BOTH);
+    ev_common_init(&a.c, EV_BOTH);
     if ((rc = parse_args(argc, argv, &a)) != CLI_GO_ON)
         return rc;
     const char *ins[] = {a.thresholds, a.baseline, a.map, a.test, argv[optind],

@@ -5,7 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "align_cli.h"
+#include "eval_cli.h"
 
 #define CMD "lookup"
 
@@ -30,7 +30,7 @@ help(FILE *out)
           "                          above 0.5% of the target's tokens and scores below 0\n"
           "                          are not shown\n",
           out);
-    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK, "csls");
+    ev_common_help(out, EV_HELP_SEARCH | EV_HELP_RANK, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "The output is a statistical suggestion; have a speaker of the language review it\n"
@@ -93,7 +93,7 @@ read_words(const char *path, wordlist *l)
 }
 
 static int
-lookup(const ac_common *c, size_t top, const ist_word_filter *wf, const ist_map *map,
+lookup(const ev_common *c, size_t top, const ist_word_filter *wf, const ist_map *map,
        const ist_store *s, const ist_store *t, const wordlist *l)
 {
     ist_matrix *xs = NULL, *zt = NULL, *q = NULL;
@@ -140,7 +140,7 @@ lookup(const ac_common *c, size_t top, const ist_word_filter *wf, const ist_map 
         if (rows[i] != SIZE_MAX)
             memcpy(qv.data + k++ * qv.stride, xv.data + rows[i] * xv.stride,
                    xv.cols * sizeof(float));
-    ist_retrieval m = c->methods == AC_COSINE ? IST_RETRIEVAL_COSINE : IST_RETRIEVAL_CSLS;
+    ist_retrieval m = c->methods == EV_COSINE ? IST_RETRIEVAL_COSINE : IST_RETRIEVAL_CSLS;
     size_t depth = top + 64 < ist_store_rows(t) ? top + 64 : ist_store_rows(t);
     if (ist_retrieve_rank(ist_matview_const(qv), xv, ist_matrix_cview(zt), m, depth,
                           c->search.csls_k, &c->search.retrieve, &tk, &err) != IST_OK) {
@@ -189,8 +189,8 @@ run(int argc, char **argv)
         {"with-variants", no_argument, NULL, OPT_VARIANTS},
         {"stop-share", required_argument, NULL, OPT_STOP},
         {"min-score", required_argument, NULL, OPT_MIN},
-        AC_OPTS_SEARCH,
-        AC_OPTS_RANK,
+        EV_OPTS_SEARCH,
+        EV_OPTS_RANK,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -200,12 +200,12 @@ run(int argc, char **argv)
     ist_store *s = NULL, *t = NULL;
     ist_map *map = NULL;
     ist_error err;
-    ac_common c;
+    ev_common c;
     ist_word_filter wf;
     double v;
     int rc;
 
-    ac_common_init(&c, AC_CSLS);
+    ev_common_init(&c, EV_CSLS);
     ist_word_filter_init(&wf);
     while ((rc = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         switch (rc) {
@@ -230,9 +230,9 @@ run(int argc, char **argv)
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (rc >= 1000) {
-                if (!ac_common_option(CMD, &c, rc, optarg))
+                if (!ev_common_option(CMD, &c, rc, optarg))
                     return CLI_EXIT_USAGE;
-                if (c.methods == AC_BOTH)
+                if (c.methods == EV_BOTH)
                     return cli_usage_error(CMD, "--rank-by: expected cosine or csls");
                 break;
             }
@@ -256,7 +256,7 @@ run(int argc, char **argv)
         rc = cli_report(CMD, &err);
         goto done;
     }
-    if ((rc = ac_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)
+    if ((rc = ev_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)
         goto done;
     if (ist_map_check(map, s, t, &err) != IST_OK) {
         rc = cli_report(CMD, &err);

@@ -3,7 +3,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "align_cli.h"
+#include "eval_cli.h"
 
 #define CMD "propose"
 #define MAX_LISTS 64
@@ -50,7 +50,7 @@ help(FILE *out)
           "                          order [default: a block of their own at the end, most\n"
           "                          frequent first, to accept in bulk]\n",
           out);
-    ac_common_help(out, AC_HELP_SEARCH, "csls");
+    ev_common_help(out, EV_HELP_SEARCH, "csls");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Write accept, reject or 'use WORD' in the decision column, then merge the file\n"
@@ -90,15 +90,15 @@ parse(int argc, char **argv, args *a)
         {"min-score", required_argument, NULL, OPT_MIN_SCORE},
         {"mixed-order", no_argument, NULL, OPT_MIXED},
         {"with-variants", no_argument, NULL, OPT_WITH_VARIANTS},
-        AC_OPTS_SEARCH,
+        EV_OPTS_SEARCH,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
     static const char *const orders[] = {"informative", "certain", NULL};
-    ac_common c;
+    ev_common c;
     int o, ord;
 
-    ac_common_init(&c, AC_CSLS);
+    ev_common_init(&c, EV_CSLS);
     ist_propose_opts_init(&a->po);
     while ((o = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
         switch (o) {
@@ -145,7 +145,7 @@ parse(int argc, char **argv, args *a)
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (o >= 1000) {
-                if (!ac_common_option(CMD, &c, o, optarg))
+                if (!ev_common_option(CMD, &c, o, optarg))
                     return CLI_EXIT_USAGE;
                 break;
             }
@@ -230,7 +230,7 @@ run(int argc, char **argv)
         rc = cli_report(CMD, &err);
         goto done;
     }
-    if ((rc = ac_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
+    if ((rc = ev_open_stores(CMD, a.src, a.tgt, &s, &t)) != 0)
         goto done;
     rc = propose(&a, map, s, t, lists);
 done:

@@ -3,7 +3,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "align_cli.h"
+#include "eval_cli.h"
 
 #define CMD "score"
 
@@ -23,7 +23,7 @@ help(FILE *out)
           "      --stage=WHICH       final (after refinement), seed (Procrustes on the seeds\n"
           "                          only) or both [default: final]\n",
           out);
-    ac_common_help(out, AC_HELP_SEARCH | AC_HELP_RANK | AC_HELP_SCORING | AC_HELP_DIAG, "both");
+    ev_common_help(out, EV_HELP_SEARCH | EV_HELP_RANK | EV_HELP_SCORING | EV_HELP_DIAG, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
           "Test source words that are also seed source words (recorded in the map) make the\n"
@@ -44,10 +44,10 @@ run(int argc, char **argv)
         {"map", required_argument, NULL, OPT_MAP},
         {"test", required_argument, NULL, OPT_TEST},
         {"stage", required_argument, NULL, OPT_STAGE},
-        AC_OPTS_SEARCH,
-        AC_OPTS_RANK,
-        AC_OPTS_SCORING,
-        AC_OPTS_DIAG,
+        EV_OPTS_SEARCH,
+        EV_OPTS_RANK,
+        EV_OPTS_SCORING,
+        EV_OPTS_DIAG,
         {"help", no_argument, NULL, 'h'},
         {NULL, 0, NULL, 0},
     };
@@ -61,10 +61,10 @@ run(int argc, char **argv)
     ist_evaluate_opts eo;
     size_t shared = 0;
     ist_error err;
-    ac_common c;
+    ev_common c;
     int rc, stage = 0;
 
-    ac_common_init(&c, AC_BOTH);
+    ev_common_init(&c, EV_BOTH);
     while ((rc = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
         switch (rc) {
         case OPT_MAP: mpath = optarg; break;
@@ -76,7 +76,7 @@ run(int argc, char **argv)
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (rc >= 1000) {
-                if (!ac_common_option(CMD, &c, rc, optarg))
+                if (!ev_common_option(CMD, &c, rc, optarg))
                     return CLI_EXIT_USAGE;
                 break;
             }
@@ -93,24 +93,24 @@ run(int argc, char **argv)
         return rc;
     if (ist_map_load(mpath, &map, &err) != IST_OK)
         return cli_report(CMD, &err);
-    if ((rc = ac_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)
+    if ((rc = ev_open_stores(CMD, argv[optind], argv[optind + 1], &s, &t)) != 0)
         goto done;
     if (ist_map_check(map, s, t, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }
-    if ((rc = ac_read_pairs(CMD, "test", tpath, s, t, &test, &cov)) != 0)
+    if ((rc = ev_read_pairs(CMD, "test", tpath, s, t, &test, &cov)) != 0)
         goto done;
-    if ((rc = ac_check_overlap(CMD, ist_map_seeds(map), test, c.allow_overlap, &shared)) != 0)
+    if ((rc = ev_check_overlap(CMD, ist_map_seeds(map), test, c.allow_overlap, &shared)) != 0)
         goto done;
-    ac_evaluate_opts(&c, &eo);
+    ev_evaluate_opts(&c, &eo);
     eo.command = CMD;
     eo.stages = stage == 0 ? IST_STAGE_FINAL : stage == 1 ? IST_STAGE_SEED
                                                            : IST_STAGE_SEED | IST_STAGE_FINAL;
     eo.source_path = argv[optind];
     eo.target_path = argv[optind + 1];
     eo.map_path = mpath;
-    if ((rc = ac_evaluate(CMD, map, s, t, test, &cov, &eo, &res)) != 0)
+    if ((rc = ev_evaluate(CMD, map, s, t, test, &cov, &eo, &res)) != 0)
         goto done;
     if (c.json_out && ist_result_write(res, c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);

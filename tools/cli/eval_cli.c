@@ -1,6 +1,6 @@
-/* align_cli.c - option handling, evaluation and tables shared by the commands that
+/* eval_cli.c - option handling, evaluation and tables shared by the commands that
  * read two vector files. */
-#include "align_cli.h"
+#include "eval_cli.h"
 
 #include <stdlib.h>
 #include <string.h>
@@ -8,7 +8,7 @@
 #define OVERLAP_SHOWN 8
 
 void
-ac_common_init(ac_common *c, ac_methods dflt)
+ev_common_init(ev_common *c, ev_methods dflt)
 {
     memset(c, 0, sizeof *c);
     c->methods = dflt;
@@ -43,42 +43,42 @@ parse_bands(const char *cmd, const char *arg, ist_eval_opts *e)
 }
 
 bool
-ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
+ev_common_option(const char *cmd, ev_common *c, int opt, const char *arg)
 {
     static const char *const methods[] = {"cosine", "csls", "both", NULL};
     size_t v;
     int m;
 
     switch (opt) {
-    case AC_OPT_RANK_BY:
+    case EV_OPT_RANK_BY:
         if (!cli_parse_choice(cmd, "--rank-by", arg, methods, &m))
             return false;
-        c->methods = (ac_methods)(m + 1);
+        c->methods = (ev_methods)(m + 1);
         return true;
-    case AC_OPT_CSLS_K:
+    case EV_OPT_CSLS_K:
         return cli_parse_size(cmd, "--csls-k", arg, 1, IST_CSLS_K_MAX, &c->search.csls_k);
-    case AC_OPT_MEMORY:
+    case EV_OPT_MEMORY:
         if (!cli_parse_size(cmd, "--memory", arg, 1, (size_t)1 << 20, &v))
             return false;
         c->search.retrieve.budget = v << 20;
         return true;
-    case AC_OPT_THREADS:
+    case EV_OPT_THREADS:
         return cli_parse_threads(cmd, arg, &c->search.retrieve.threads);
-    case AC_OPT_BANDS:
+    case EV_OPT_BANDS:
         return parse_bands(cmd, arg, &c->eval);
-    case AC_OPT_ALLOW_OVERLAP:
+    case EV_OPT_ALLOW_OVERLAP:
         c->allow_overlap = true;
         return true;
-    case AC_OPT_JSON_OUT:
+    case EV_OPT_JSON_OUT:
         c->json_out = arg;
         return true;
-    case AC_OPT_NO_DIAG:
+    case EV_OPT_NO_DIAG:
         c->diagnostics = false;
         return true;
-    case AC_OPT_DIAG_WORDS:
+    case EV_OPT_DIAG_WORDS:
         return cli_parse_size(cmd, "--diagnostics-words", arg, 1, (size_t)1 << 24,
                               &c->diag.queries);
-    case AC_OPT_ISO_WORDS:
+    case EV_OPT_ISO_WORDS:
         return cli_parse_size(cmd, "--isometry-words", arg, 0, 4000, &c->diag.isometry_words);
     default:
         return false;
@@ -86,13 +86,13 @@ ac_common_option(const char *cmd, ac_common *c, int opt, const char *arg)
 }
 
 void
-ac_common_help(FILE *out, unsigned groups, const char *rank_default)
+ev_common_help(FILE *out, unsigned groups, const char *rank_default)
 {
-    if (groups & AC_HELP_RANK)
+    if (groups & EV_HELP_RANK)
         fprintf(out, "      --rank-by=METHOD    rank target words by %s [default: %s]\n",
                 strcmp(rank_default, "both") == 0 ? "cosine, csls or both" : "cosine or csls",
                 rank_default);
-    if (groups & AC_HELP_SCORING)
+    if (groups & EV_HELP_SCORING)
         fputs("      --bands=R1,R2,...   upper frequency ranks of the bands reported [default:\n"
               "                          the first tenth and third of the source rows, to two\n"
               "                          digits: 250,830 for 2482 rows]\n"
@@ -100,7 +100,7 @@ ac_common_help(FILE *out, unsigned groups, const char *rank_default)
               "                          source words (the result says so) [default: refuse]\n"
               "      --json-out=FILE     write every figure as JSON ('-': standard output)\n",
               out);
-    if (groups & AC_HELP_DIAG)
+    if (groups & EV_HELP_DIAG)
         fputs("      --no-diagnostics    leave the diagnostics (hubness, isometry, worst misses,\n"
               "                          similarity histograms) out of the JSON result\n"
               "      --diagnostics-words=N  hubness queries: the N most frequent source words\n"
@@ -108,7 +108,7 @@ ac_common_help(FILE *out, unsigned groups, const char *rank_default)
               "      --isometry-words=N  isometry: the N most frequent words of each side,\n"
               "                          0 to skip, at most 4000 [default: 1000]\n",
               out);
-    if (groups & AC_HELP_SEARCH)
+    if (groups & EV_HELP_SEARCH)
         fputs("      --csls-k=K          neighbours averaged in the CSLS hub penalty, 1..1000\n"
               "                          [default: 10]\n"
               "      --memory=MIB        memory for score tiles, MiB [default: 256]\n"
@@ -117,7 +117,7 @@ ac_common_help(FILE *out, unsigned groups, const char *rank_default)
 }
 
 int
-ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s, ist_store **t)
+ev_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s, ist_store **t)
 {
     ist_store_opts so;
     ist_error err;
@@ -146,7 +146,7 @@ ac_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s,
 }
 
 void
-ac_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c)
+ev_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c)
 {
     printf("%-10s %s: %zu pairs read, %zu kept; %zu of %zu source words covered\n", what, path,
            c->read, c->kept, c->sources_kept, c->sources_read);
@@ -162,7 +162,7 @@ ac_print_coverage(const char *what, const char *path, const ist_pairs_coverage *
 }
 
 void
-ac_swap_hint(const char *cmd, const char *path, const ist_store *s, const ist_store *t,
+ev_swap_hint(const char *cmd, const char *path, const ist_store *s, const ist_store *t,
              size_t kept)
 {
     ist_pairs *again = NULL;
@@ -179,7 +179,7 @@ ac_swap_hint(const char *cmd, const char *path, const ist_store *s, const ist_st
 }
 
 int
-ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_store *s,
+ev_read_pairs(const char *cmd, const char *what, const char *path, const ist_store *s,
               const ist_store *t, ist_pairs **out, ist_pairs_coverage *cov)
 {
     ist_error err;
@@ -191,7 +191,7 @@ ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
         *out = NULL;
         return cli_report(cmd, &err);
     }
-    ac_print_coverage(what, path, cov);
+    ev_print_coverage(what, path, cov);
     if (cov->kept == 0) {
         cli_progress_done();
         if (cov->read == 0)
@@ -202,7 +202,7 @@ ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
                     "(%zu source, %zu target and %zu both words missing)\n", cmd, path,
                     cov->read, cov->missing_source, cov->missing_target, cov->missing_both);
         if (cov->read)
-            ac_swap_hint(cmd, path, s, t, 0);
+            ev_swap_hint(cmd, path, s, t, 0);
         ist_pairs_free(*out);
         *out = NULL;
         return CLI_EXIT_ERROR;
@@ -211,7 +211,7 @@ ac_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
 }
 
 int
-ac_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test, bool allow,
+ev_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test, bool allow,
                  size_t *shared)
 {
     const char *first[OVERLAP_SHOWN];
@@ -294,7 +294,7 @@ print_intervals(const ist_result *res)
 }
 
 void
-ac_print_runs(const ist_result *res)
+ev_print_runs(const ist_result *res)
 {
     printf("\n%-12s %-9s %8s %9s %7s %7s %7s\n", "map", "retrieval", "queries", "coverage",
            "P@1", "P@5", "P@10");
@@ -324,20 +324,20 @@ ac_print_runs(const ist_result *res)
 }
 
 void
-ac_evaluate_opts(const ac_common *c, ist_evaluate_opts *o)
+ev_evaluate_opts(const ev_common *c, ist_evaluate_opts *o)
 {
     ist_evaluate_opts_init(o);
     o->eval = c->eval;
     o->eval.search = c->search;
-    o->methods = (c->methods & AC_COSINE ? IST_RESULT_COSINE : 0u) |
-                 (c->methods & AC_CSLS ? IST_RESULT_CSLS : 0u);
+    o->methods = (c->methods & EV_COSINE ? IST_RESULT_COSINE : 0u) |
+                 (c->methods & EV_CSLS ? IST_RESULT_CSLS : 0u);
     o->allow_overlap = c->allow_overlap;
     o->diagnostics = c->diagnostics && c->json_out;
     o->diag = c->diag;
 }
 
 int
-ac_evaluate(const char *cmd, const ist_map *map, const ist_store *s, const ist_store *t,
+ev_evaluate(const char *cmd, const ist_map *map, const ist_store *s, const ist_store *t,
             const ist_pairs *test, const ist_pairs_coverage *cov, const ist_evaluate_opts *o,
             ist_result **out)
 {
@@ -347,7 +347,7 @@ ac_evaluate(const char *cmd, const ist_map *map, const ist_store *s, const ist_s
     if (ist_evaluate(map, s, t, test, cov, o, out, &err) != IST_OK)
         return cli_report(cmd, &err);
     if ((*out)->nruns)
-        ac_print_runs(*out);
+        ev_print_runs(*out);
     const ist_diag *d = (*out)->diagnostics;
     if (d) {
         printf("\n%-10s hubness skewness (k=10, %zu queries): cosine %.2f, csls %.2f", "diagnose",
