@@ -83,11 +83,11 @@ help(FILE *out)
           "                          prepare' [default: keep]\n"
           "  -h, --help              show this help and exit\n"
           "\n"
-          "Progress (percent, words/s, learning rate, recent loss, time left; for PPMI the stage\n"
-          "and time left) is shown on a terminal; a summary line goes to standard error unless\n"
-          "-q. Ctrl-C stops the training\n"
-          "and leaves no output file. The environment variable ISTHMUS_SIMD=portable forces the\n"
-          "portable kernels.\n"
+          "Progress is shown on a terminal: the pass and the number of passes, the share done,\n"
+          "the recent loss, the step size (learning rate) now, tokens a second and the time to\n"
+          "go (for PPMI the stage, the share done and the time to go). A summary line goes to\n"
+          "standard error unless -q. Ctrl-C stops the training and leaves no output file.\n"
+          "The environment variable ISTHMUS_SIMD=portable forces the portable kernels.\n"
           "\n"
           "Example:\n"
           "  isthmus train --dimension 50 -o tillwick-en.isv data-samples/tillwick-en.txt.gz\n"
@@ -109,14 +109,30 @@ typedef struct train_args {
     const char *out, *ctx_out, *text_out;
 } train_args;
 
+/* "h:mm:ss" or "m:ss" of a count of seconds. */
+static void
+clock_text(double sec, char *buf, size_t cap)
+{
+    long t = sec > 0 && sec < 1e7 ? (long)(sec + 0.5) : 0;
+    if (t >= 3600)
+        snprintf(buf, cap, "%ld:%02ld:%02ld", t / 3600, t / 60 % 60, t % 60);
+    else
+        snprintf(buf, cap, "%ld:%02ld", t / 60, t % 60);
+}
+
+/* The training line: which pass of how many, the share of all passes done, the recent
+ * loss, the step size (learning rate) now, whole tokens a second and the time to go. */
 static int
 on_progress(void *ctx, const ist_sgns_progress *p)
 {
-    (void)ctx;
-    int eta = (int)(p->eta_sec + 0.5);
-    cli_progress_update("train: %5.1f%%  %6.0fk words/s  rate %.5f  loss %.3f  left %d:%02d",
-                        100.0 * p->fraction, p->words_per_sec / 1000.0, p->lr, p->loss, eta / 60,
-                        eta % 60);
+    size_t passes = *(const size_t *)ctx, pass = (size_t)(p->fraction * (double)passes) + 1;
+    char togo[24];
+    if (pass > passes)
+        pass = passes;
+    clock_text(p->eta_sec, togo, sizeof togo);
+    cli_progress_update("train: pass %zu/%zu, %.1f%% done, loss %.3f, step %.5f, %.0f tokens/s, "
+                        "%s to go", pass, passes, 100.0 * p->fraction, p->loss, p->lr,
+                        p->words_per_sec, togo);
     return 0;
 }
 
@@ -125,9 +141,10 @@ on_ppmi_progress(void *ctx, const ist_ppmi_progress *p)
 {
     (void)ctx;
     static const char *const stages[] = {"counting pairs", "weighting", "factoring"};
-    int eta = (int)(p->eta_sec + 0.5);
-    cli_progress_update("train (PPMI): %5.1f%%  %s  left %d:%02d", 100.0 * p->fraction,
-                        stages[p->stage], eta / 60, eta % 60);
+    char togo[24];
+    clock_text(p->eta_sec, togo, sizeof togo);
+    cli_progress_update("train (PPMI): %s, %.1f%% done, %s to go", stages[p->stage],
+                        100.0 * p->fraction, togo);
     return 0;
 }
 
@@ -415,8 +432,10 @@ train_sgns(train_args *a, const ist_corpus *corpus, const uint64_t *counts, ist_
     const ist_vocab *v = ist_corpus_vocab(corpus);
     size_t types = ist_vocab_size(v);
     char *text_json = NULL;
-    if (cli_progress_enabled())
+    if (cli_progress_enabled()) {
         a->so.progress = on_progress;
+        a->so.progress_ctx = &a->so.epochs;
+    }
     cli_info("isthmus train: %llu tokens, %zu words, %zu pass%s, dimension %zu, %zu thread%s, "
              "%s kernel (%s)\n", (unsigned long long)ist_vocab_total(v), types, a->so.epochs,
              a->so.epochs == 1 ? "" : "es", a->so.dim, a->so.threads,
