@@ -117,9 +117,11 @@ for cmd in commands:
         continue
     offered = complete("isthmus %s --" % cmd)
     helped = long_options(program("help", cmd).stdout)
+    # the global options but --help and --version are taken after the command too
+    helped.update({n: v for n, v in glob.items() if n not in ("--help", "--version")})
     want = sorted(n + ("=" if v else "") for n, v in helped.items())
     check(sorted(offered) == want, "%s: offers exactly the long options of 'isthmus help %s' "
-          "(%d)" % (cmd, cmd, len(want)),
+          "and the global -q, -v, --progress (%d)" % (cmd, cmd, len(want)),
           "missing %s\nextra %s" % (sorted(set(want) - set(offered)),
                                     sorted(set(offered) - set(want))))
     refused = []

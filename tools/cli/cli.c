@@ -1,6 +1,8 @@
 /* cli.c - shared helpers of the isthmus subcommands. */
 #include "cli.h"
 
+#include <ctype.h>
+
 #include <errno.h>
 #include <fcntl.h>
 #include <poll.h>
@@ -13,7 +15,9 @@
 #include <time.h>
 #include <unistd.h>
 
-cli_globals cli_g = {0, CLI_PROGRESS_AUTO};
+#include "spell.h"
+
+cli_globals cli_g = {0, CLI_PROGRESS_AUTO, NULL};
 
 int
 cli_usage_error(const char *cmd, const char *fmt, ...)
@@ -463,3 +467,168 @@ cli_info(const char *fmt, ...)
     va_end(ap);
 }
 
+
+bool
+cli_global_option(const char *cmd, int c, const char *arg)
+{
+    static const char *const when[] = {"auto", "always", "never", NULL};
+    int w;
+
+    switch (c) {
+    case 'q': cli_g.verbosity = -1; return true;
+    case 'v': cli_g.verbosity++; return true;
+    case CLI_OPT_PROGRESS:
+        if (!cli_parse_choice(cmd, "--progress", arg, when, &w))
+            return false;
+        cli_g.progress = (cli_progress_mode)w;
+        return true;
+    default: return false;
+    }
+}
+
+static const char *
+option_name(const void *ctx, size_t i)
+{
+    return ((const struct option *)ctx)[i].name;
+}
+
+static const char *
+list_name(const void *ctx, size_t i)
+{
+    return ((const char *const *)ctx)[i];
+}
+
+/* ", --a, --b or --c" of the chosen names into buf (prefix before each, "or" last). */
+static void
+or_list(char *buf, size_t cap, const char *prefix, const char *(*get)(const void *, size_t),
+        const void *ctx, const size_t *ix, size_t n)
+{
+    size_t len = strlen(buf);
+    for (size_t i = 0; i < n && len + 1 < cap; i++) {
+        int k = snprintf(buf + len, cap - len, "%s%s%s", i == 0 ? "" : i + 1 == n ? " or " : ", ",
+                         prefix, get(ctx, ix[i]));
+        if (k < 0)
+            break;
+        len += (size_t)k;
+    }
+    if (len >= cap)
+        buf[cap - 1] = '\0';
+}
+
+/* Options whose help text mentions word (at least 3 letters, any case): the help is
+ * read line by line; a line starting with "-x, --name" or "--name" opens an option,
+ * deeper indented lines continue it. */
+static size_t
+help_mentions(const char *word, const struct option *opts, size_t nopts, size_t *out, size_t cap)
+{
+    char *text = NULL, *line, *save = NULL;
+    size_t size = 0, found = 0, len = strlen(word);
+    ptrdiff_t current = -1;
+    FILE *f;
+
+    if (!cli_g.help || len < 3 || !(f = open_memstream(&text, &size)))
+        return 0;
+    cli_g.help(f);
+    fclose(f);
+    for (line = strtok_r(text, "\n", &save); line; line = strtok_r(NULL, "\n", &save)) {
+        const char *p = line + strspn(line, " ");
+        if (p - line <= 6 && p[0] == '-') {   /* an option line: find which */
+            const char *dd = strstr(p, "--");
+            current = -1;
+            for (size_t i = 0; dd && i < nopts; i++) {
+                size_t nl = strlen(opts[i].name);
+                if (strncmp(dd + 2, opts[i].name, nl) == 0 && !isalnum((unsigned char)dd[2 + nl]) &&
+                    dd[2 + nl] != '-')
+                    current = (ptrdiff_t)i;
+            }
+            p = dd ? dd + strcspn(dd, " ") : p;   /* the description, past the name */
+        } else if (p - line <= 6) {
+            current = -1;   /* prose, a heading or an example */
+        }
+        if (current < 0 || opts[current].val == 'h')
+            continue;
+        for (const char *q = p; *q && found < cap; q++)
+            if (strncasecmp(q, word, len) == 0) {
+                bool dup = false;
+                for (size_t k = 0; k < found; k++)
+                    dup |= out[k] == (size_t)current;
+                if (!dup)
+                    out[found++] = (size_t)current;
+                break;
+            }
+    }
+    free(text);
+    return found;
+}
+
+bool
+cli_other_option(const char *cmd, int c, const struct option *opts, char **argv)
+{
+    const char *arg = argv[optind - 1];
+    size_t nopts = 0, near[4], nn, nm, ix[8];
+    char name[128], hint[512] = "";
+
+    if (c == 'q' || c == 'v' || c == CLI_OPT_PROGRESS)
+        return cli_global_option(cmd, c, optarg);
+    while (opts[nopts].name)
+        nopts++;
+    if (strncmp(arg, "--", 2) != 0) {   /* a short option: getopt names it in optopt */
+        for (size_t i = 0; optopt && i < nopts; i++)
+            if (opts[i].val == optopt && opts[i].has_arg == required_argument)
+                return !cli_usage_error(cmd, "-%c: expected a value (-%c VALUE)", optopt,
+                                       optopt);
+        return !cli_usage_error(cmd, "unknown option '-%c'", optopt ? optopt : '?');
+    }
+    size_t len = strcspn(arg + 2, "=");
+    bool has_value = arg[2 + len] == '=';
+    snprintf(name, sizeof name, "%.*s", (int)(len < 100 ? len : 100), arg + 2);
+    nm = 0;
+    for (size_t i = 0; *name && i < nopts; i++)
+        if (strncmp(opts[i].name, name, strlen(name)) == 0) {
+            if (strcmp(opts[i].name, name) == 0) {
+                ix[0] = i;
+                nm = 1;
+                break;
+            }
+            if (nm < 8)
+                ix[nm++] = i;
+        }
+    if (nm == 1 && *name) {
+        const struct option *o = &opts[ix[0]];
+        if (has_value && o->has_arg == no_argument)
+            return !cli_usage_error(cmd, "--%s takes no value, got '%s'", o->name, arg);
+        if (!has_value && o->has_arg == required_argument)
+            return !cli_usage_error(cmd, "--%s: expected a value (--%s=VALUE)", o->name, o->name);
+    }
+    if (nm > 1) {
+        or_list(hint, sizeof hint, "--", option_name, opts, ix, nm);
+        return !cli_usage_error(cmd, "'--%s' is ambiguous: it could be %s", name, hint);
+    }
+    nn = spell_nearest(name, option_name, opts, nopts, near, 3);
+    if (nn > 0) {
+        or_list(hint, sizeof hint, "--", option_name, opts, near, nn);
+        return !cli_usage_error(cmd, "unknown option '--%s'; did you mean %s?", name, hint);
+    }
+    nn = help_mentions(name, opts, nopts, ix, 3);
+    if (nn > 0) {
+        or_list(hint, sizeof hint, "--", option_name, opts, ix, nn);
+        return !cli_usage_error(cmd, "unknown option '--%s'; the help of %s mentions '%s'", name,
+                               hint, name);
+    }
+    return !cli_usage_error(cmd, "unknown option '--%s'", name);
+}
+
+int
+cli_unknown_name(const char *cmd, const char *what, const char *name, const char *const *names)
+{
+    size_t n = 0, near[3], nn;
+    char hint[256] = "";
+
+    while (names[n])
+        n++;
+    nn = spell_nearest(name, list_name, names, n, near, 3);
+    if (nn == 0)
+        return cli_usage_error(cmd, "no %s named '%s'", what, name);
+    or_list(hint, sizeof hint, "", list_name, names, near, nn);
+    return cli_usage_error(cmd, "no %s named '%s'; did you mean %s?", what, name, hint);
+}

@@ -4,6 +4,7 @@
 #ifndef ISTHMUS_CLI_H
 #define ISTHMUS_CLI_H
 
+#include <getopt.h>
 #include <stdbool.h>
 #include <stddef.h>
 #include <stdint.h>
@@ -25,10 +26,11 @@ enum {
 
 typedef enum cli_progress_mode { CLI_PROGRESS_AUTO, CLI_PROGRESS_ALWAYS, CLI_PROGRESS_NEVER } cli_progress_mode;
 
-/* Global settings, parsed before the subcommand name. */
+/* Global settings, given before the subcommand name or among its options. */
 typedef struct cli_globals {
     int verbosity;                 /* -q: -1, default 0, -v: 1.. */
     cli_progress_mode progress;
+    void (*help)(FILE *out);       /* the running command's help, read for hints */
 } cli_globals;
 
 extern cli_globals cli_g;
@@ -39,6 +41,31 @@ typedef struct cli_command {
     int (*run)(int argc, char **argv);     /* argv[0] is the command name */
     void (*help)(FILE *out);               /* full help text */
 } cli_command;
+
+/* The global options (-q, -v, --progress) are taken after the command name too: a
+ * command's getopt table lists CLI_OPTS_GLOBAL among its rows and CLI_SHORT_GLOBAL among
+ * its short options, and hands every value it does not handle itself to
+ * cli_other_option(). */
+#define CLI_OPT_PROGRESS 900
+#define CLI_SHORT_GLOBAL "qv"
+#define CLI_OPTS_GLOBAL                                                                           \
+    {"quiet", no_argument, NULL, 'q'},                                                            \
+    {"verbose", no_argument, NULL, 'v'},                                                          \
+    {"progress", required_argument, NULL, CLI_OPT_PROGRESS}
+
+/* Apply a global option (c is 'q', 'v' or CLI_OPT_PROGRESS); false after a usage error. */
+bool cli_global_option(const char *cmd, int c, const char *arg);
+
+/* After getopt_long() returned c, which the command does not handle: apply a global
+ * option and return true, or print what was wrong with argv[optind - 1] (unknown,
+ * ambiguous, missing or unwanted value) with the nearest option names by spelling
+ * or else the options whose help mentions the word, and return false (exit 2). */
+bool cli_other_option(const char *cmd, int c, const struct option *opts, char **argv);
+
+/* "no command named 'X'" with the nearest command names; names ends with NULL.
+ * Returns CLI_EXIT_USAGE. */
+int cli_unknown_name(const char *cmd, const char *what, const char *name,
+                     const char *const *names);
 
 /* Print "isthmus CMD: message" and the hint to stderr; returns CLI_EXIT_USAGE. */
 int cli_usage_error(const char *cmd, const char *fmt, ...) __attribute__((format(printf, 2, 3)));

@@ -125,12 +125,13 @@ parse(int argc, char **argv, args *a)
         EV_OPTS_SCORING,
         EV_OPTS_DIAG,
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     ist_error err;
     int c;
 
-    while ((c = getopt_long(argc, argv, "o:h", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "o:h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'o': a->out = optarg; break;
         case OPT_SEEDS: a->seeds = optarg; break;
@@ -177,7 +178,9 @@ parse(int argc, char **argv, args *a)
                     return CLI_EXIT_USAGE;
                 break;
             }
-            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+            if (!cli_other_option(CMD, c, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind != 2)

@@ -40,6 +40,7 @@ run(int argc, char **argv)
         {"rows-line", no_argument, NULL, 'r'},
         {"max-rows", required_argument, NULL, 'm'},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     static const char *const formats[] = {"native", "text", NULL};
@@ -50,7 +51,7 @@ run(int argc, char **argv)
     ist_store_save_opts_init(&sv);
     ist_store_opts_init(&so);
     so.verify = true;   /* never pass damage on */
-    while ((c = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 't':
             if (!cli_parse_choice("convert", "--to", optarg, formats, &f))
@@ -64,7 +65,10 @@ run(int argc, char **argv)
                 return CLI_EXIT_USAGE;
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error("convert", "unknown option '%s'", argv[optind - 1]);
+        default:
+            if (!cli_other_option("convert", c, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind != 2)

@@ -116,11 +116,12 @@ parse_args(int argc, char **argv, args *a)
         EV_OPTS_RANK,
         EV_OPTS_SCORING,
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     int o;
 
-    while ((o = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+    while ((o = getopt_long(argc, argv, "h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (o) {
         case OPT_THRESHOLDS: a->thresholds = optarg; break;
         case OPT_BASELINE: a->baseline = optarg; break;
@@ -142,7 +143,9 @@ parse_args(int argc, char **argv, args *a)
                 break;
             if (o >= 1000)
                 return CLI_EXIT_USAGE;
-            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+            if (!cli_other_option(CMD, o, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (!a->thresholds)

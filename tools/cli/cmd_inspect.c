@@ -38,19 +38,23 @@ run(int argc, char **argv)
     static const struct option opts[] = {
         {"words", required_argument, NULL, 'w'},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     size_t show = 0;
     int c;
 
-    while ((c = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'w':
             if (!cli_parse_size("inspect", "--words", optarg, 0, 1000000, &show))
                 return CLI_EXIT_USAGE;
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error("inspect", "unknown option '%s'", argv[optind - 1]);
+        default:
+            if (!cli_other_option("inspect", c, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (optind + 1 != argc)

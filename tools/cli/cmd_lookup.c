@@ -192,6 +192,7 @@ run(int argc, char **argv)
         EV_OPTS_SEARCH,
         EV_OPTS_RANK,
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     const char *mpath = NULL, *wpath = NULL;
@@ -207,7 +208,7 @@ run(int argc, char **argv)
 
     ev_common_init(&c, EV_CSLS);
     ist_word_filter_init(&wf);
-    while ((rc = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+    while ((rc = getopt_long(argc, argv, "h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (rc) {
         case OPT_MAP: mpath = optarg; break;
         case OPT_WORDS: wpath = optarg; break;
@@ -236,7 +237,9 @@ run(int argc, char **argv)
                     return cli_usage_error(CMD, "--rank-by: expected cosine or csls");
                 break;
             }
-            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+            if (!cli_other_option(CMD, rc, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind < 2)

@@ -75,6 +75,7 @@ run(int argc, char **argv)
         {"skip-conflicts", no_argument, NULL, OPT_SKIP_CONFLICTS},
         {"target-vectors", required_argument, NULL, OPT_TARGET_VECTORS},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     const char *out = NULL, *tpath = NULL;
@@ -86,7 +87,7 @@ run(int argc, char **argv)
 
     ist_merge_opts_init(&mo);
     mo.on_conflict = print_conflict;
-    while ((o = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+    while ((o = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (o) {
         case 'o': out = optarg; break;
         case OPT_ONE_TARGET: mo.one_target = true; break;
@@ -94,7 +95,10 @@ run(int argc, char **argv)
         case OPT_SKIP_CONFLICTS: mo.skip_conflicts = true; break;
         case OPT_TARGET_VECTORS: tpath = optarg; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        default:
+            if (!cli_other_option(CMD, o, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind < 2)

@@ -121,12 +121,13 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
         {"dedup-lines", no_argument, NULL, 'd'},
         {"threads", required_argument, NULL, 't'},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     int c;
     unsigned threads = 0;
 
-    while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'o': *out = optarg; break;
         case 'm':
@@ -159,7 +160,10 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
                 return CLI_EXIT_USAGE;
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error("prepare", "unknown option '%s'", argv[optind - 1]);
+        default:
+            if (!cli_other_option("prepare", c, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     o->threads = threads ? threads : cli_processors();

@@ -92,6 +92,7 @@ parse(int argc, char **argv, args *a)
         {"with-variants", no_argument, NULL, OPT_WITH_VARIANTS},
         EV_OPTS_SEARCH,
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     static const char *const orders[] = {"informative", "certain", NULL};
@@ -100,7 +101,7 @@ parse(int argc, char **argv, args *a)
 
     ev_common_init(&c, EV_CSLS);
     ist_propose_opts_init(&a->po);
-    while ((o = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+    while ((o = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (o) {
         case OPT_MAP: a->map = optarg; break;
         case 'o': a->out = optarg; break;
@@ -149,7 +150,9 @@ parse(int argc, char **argv, args *a)
                     return CLI_EXIT_USAGE;
                 break;
             }
-            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+            if (!cli_other_option(CMD, o, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind != 2)

@@ -40,18 +40,22 @@ run(int argc, char **argv)
         {"output", required_argument, NULL, 'o'},
         {"verdict", required_argument, NULL, OPT_VERDICT},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     const char *out = NULL, *verdict = NULL;
     ist_error err;
     int c;
 
-    while ((c = getopt_long(argc, argv, "o:h", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "o:h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'o': out = optarg; break;
         case OPT_VERDICT: verdict = optarg; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+        default:
+            if (!cli_other_option(CMD, c, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind != 1)

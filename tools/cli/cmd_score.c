@@ -49,6 +49,7 @@ run(int argc, char **argv)
         EV_OPTS_SCORING,
         EV_OPTS_DIAG,
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     static const char *const stages[] = {"final", "seed", "both", NULL};
@@ -65,7 +66,7 @@ run(int argc, char **argv)
     int rc, stage = 0;
 
     ev_common_init(&c, EV_BOTH);
-    while ((rc = getopt_long(argc, argv, "h", opts, NULL)) != -1) {
+    while ((rc = getopt_long(argc, argv, "h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (rc) {
         case OPT_MAP: mpath = optarg; break;
         case OPT_TEST: tpath = optarg; break;
@@ -80,7 +81,9 @@ run(int argc, char **argv)
                     return CLI_EXIT_USAGE;
                 break;
             }
-            return cli_usage_error(CMD, "unknown option '%s'", argv[optind - 1]);
+            if (!cli_other_option(CMD, rc, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (argc - optind != 2)

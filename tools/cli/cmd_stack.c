@@ -63,16 +63,20 @@ run(int argc, char **argv)
         {"output", required_argument, NULL, 'o'},
         {"block-weights", required_argument, NULL, 'w'},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     const char *out = NULL, *wspec = NULL;
     int c;
-    while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'o': out = optarg; break;
         case 'w': wspec = optarg; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error("stack", "unknown option '%s'", argv[optind - 1]);
+        default:
+            if (!cli_other_option("stack", c, opts, argv))
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     size_t n = (size_t)(argc - optind);

@@ -219,6 +219,7 @@ parse(int argc, char **argv, train_args *a)
         {"oversample", required_argument, NULL, 1009},
         {"pair-buffer", required_argument, NULL, 1010},
         {"help", no_argument, NULL, 'h'},
+        CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
     static const char *const kernels[] = {"fast", "reference", NULL};
@@ -236,7 +237,7 @@ parse(int argc, char **argv, train_args *a)
     a->weights[0] = a->weights[1] = 1.0;
     a->method = METHOD_BOTH;   /* measured best: docs/defaults.md */
     a->passes_auto = true;
-    while ((c = getopt_long(argc, argv, "ho:", opts, NULL)) != -1) {
+    while ((c = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         bool ok = true;
         switch (c) {
         case 'o': a->out = optarg; break;
@@ -328,7 +329,7 @@ parse(int argc, char **argv, train_args *a)
             ok = cli_parse_size(cmd, "--pair-buffer", optarg, 1, 1048576, &a->po.buffer_mb);
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: return cli_usage_error(cmd, "unknown option '%s'", argv[optind - 1]);
+        default: ok = cli_other_option(cmd, c, opts, argv); break;
         }
         if (!ok)
             return CLI_EXIT_USAGE;

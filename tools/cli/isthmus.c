@@ -27,6 +27,23 @@ static const cli_command *const commands[] = {
 };
 
 static void
+help_help(FILE *out)
+{
+    fputs("Usage: isthmus help [COMMAND]\n"
+          "Explain a command: its arguments, every option with its default, and an example.\n"
+          "Without COMMAND, list the commands and the global options.\n"
+          "\n"
+          "Arguments:\n"
+          "  COMMAND                 a command name, as listed by 'isthmus help'\n"
+          "\n"
+          "'isthmus COMMAND --help' prints the same text.\n"
+          "\n"
+          "Example:\n"
+          "  isthmus help align\n",
+          out);
+}
+
+static void
 usage(FILE *out)
 {
     fprintf(out,
@@ -46,6 +63,7 @@ usage(FILE *out)
             "      --progress=WHEN     auto (stderr is a terminal), always or never [default: auto]\n"
             "  -h, --help              show this help and exit\n"
             "      --version           show the version and exit\n"
+            "The options -q, -v and --progress may also follow the command.\n"
             "\n"
             "'isthmus help COMMAND' or 'isthmus COMMAND --help' explains one command.\n"
             "Exit status: 0 ok, 1 error (bad input, I/O, numeric failure), 2 bad usage,\n"
@@ -62,35 +80,43 @@ find_command(const char *name)
     return NULL;
 }
 
+/* "no command named 'algin'; did you mean align?" */
+static int
+no_command(const char *name)
+{
+    const char *names[sizeof commands / sizeof commands[0] + 1];
+    size_t n = 0;
+
+    for (int i = 0; commands[i]; i++)
+        names[n++] = commands[i]->name;
+    names[n++] = "help";
+    names[n] = NULL;
+    return cli_unknown_name(NULL, "command", name, names);
+}
+
 static int
 dispatch(int argc, char **argv)
 {
     static const struct option opts[] = {
         {"quiet", no_argument, NULL, 'q'},
         {"verbose", no_argument, NULL, 'v'},
-        {"progress", required_argument, NULL, 'P'},
+        {"progress", required_argument, NULL, CLI_OPT_PROGRESS},
         {"help", no_argument, NULL, 'h'},
         {"version", no_argument, NULL, 'V'},
         {NULL, 0, NULL, 0},
     };
-    static const char *const when[] = {"auto", "always", "never", NULL};
     const cli_command *cmd;
-    int c, w;
+    int c;
 
     opterr = 0;
     while ((c = getopt_long(argc, argv, "+qvh", opts, NULL)) != -1) {
         switch (c) {
-        case 'q': cli_g.verbosity = -1; break;
-        case 'v': cli_g.verbosity++; break;
-        case 'P':
-            if (!cli_parse_choice(NULL, "--progress", optarg, when, &w))
-                return CLI_EXIT_USAGE;
-            cli_g.progress = (cli_progress_mode)w;
-            break;
         case 'h': usage(stdout); return CLI_EXIT_OK;
         case 'V': printf("isthmus %s\n", ist_version()); return CLI_EXIT_OK;
         default:
-            return cli_usage_error(NULL, "unknown option '%s'", argv[optind - 1]);
+            if (!cli_other_option(NULL, c, opts, argv))   /* -q, -v, --progress or a mistake */
+                return CLI_EXIT_USAGE;
+            break;
         }
     }
     if (optind >= argc) {
@@ -102,15 +128,22 @@ dispatch(int argc, char **argv)
             usage(stdout);
             return CLI_EXIT_OK;
         }
+        if (optind + 2 < argc)
+            return cli_usage_error(NULL, "help: expected one COMMAND, got %d", argc - optind - 1);
+        if (strcmp(argv[optind + 1], "help") == 0) {
+            help_help(stdout);
+            return CLI_EXIT_OK;
+        }
         cmd = find_command(argv[optind + 1]);
         if (!cmd)
-            return cli_usage_error(NULL, "no command named '%s'", argv[optind + 1]);
+            return no_command(argv[optind + 1]);
         cmd->help(stdout);
         return CLI_EXIT_OK;
     }
     cmd = find_command(argv[optind]);
     if (!cmd)
-        return cli_usage_error(NULL, "no command named '%s'", argv[optind]);
+        return no_command(argv[optind]);
+    cli_g.help = cmd->help;
     cli_install_signals();
     ist_output_hold();   /* every output of the command is committed as one group */
     argv += optind;

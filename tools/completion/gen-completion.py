@@ -138,6 +138,10 @@ def main():
     commands = [l.split()[0] for l in block.splitlines() if l.strip()]
     glob = options(top.split("Global options:", 1)[1])
     per = {c: options(help_text(exe, "help", c)) for c in commands if c != "help"}
+    # -q, -v and --progress are taken after the command name too
+    after = {n: v for n, v in glob.items() if n not in ("-h", "--help", "--version")}
+    for c in per:
+        per[c] = {**after, **per[c]}
     pos = {c: positionals(help_text(exe, "help", c), c) for c in commands if c != "help"}
 
     def q(s):
