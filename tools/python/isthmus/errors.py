@@ -9,6 +9,12 @@ program prints after its command name ("en.isv: byte 8: native vector file versi
 class IsthmusError(Exception):
     """A file could not be read or written, or an argument does not fit."""
 
+    # status: the C library's name of the failure ("format", "io", ...) when it came from
+    # the library (isthmus.native), else None; text: the library's own wording of the whole
+    # message, file and errno text included, which str() then gives as it is
+    status = None
+    text = None
+
     def __init__(self, message, path=None, line=None, offset=None):
         super().__init__(message)
         self.message = message
@@ -17,6 +23,8 @@ class IsthmusError(Exception):
         self.offset = offset
 
     def __str__(self):
+        if self.text is not None:
+            return self.text
         if self.path is None:
             return self.message
         if self.line:
@@ -33,3 +41,8 @@ class FormatError(IsthmusError):
 class MismatchError(IsthmusError):
     """Files that do not belong together, such as a map and vectors it was not fitted on
     (the library's IST_ERR_INVALID)."""
+
+
+class LibraryNotFound(IsthmusError):
+    """isthmus.native could not find or load the C library, or found one it does not fit;
+    the message says how to point at it (ISTHMUS_LIBRARY)."""

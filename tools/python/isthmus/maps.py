@@ -121,8 +121,8 @@ class Map:
         return self.target.standardise(tgt.matrix if hasattr(tgt, "matrix") else tgt)
 
     def __repr__(self):
-        return "<isthmus.Map %s: dim %d, %s -> %s>" % (self.path, self.dim, self.source.spec,
-                                                      self.target.spec)
+        return "<isthmus.Map %s: dim %d, %s -> %s>" % (self.path or "(in memory)", self.dim,
+                                                      self.source.spec, self.target.spec)
 
 
 def read_map(path):

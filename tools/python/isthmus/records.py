@@ -126,7 +126,11 @@ def _run(obj):
 
 def read_result(path):
     """A result JSON written by 'isthmus score' or 'isthmus align --json-out'."""
-    d = _load_json(path, "an isthmus result JSON")
+    return result_from_json(_load_json(path, "an isthmus result JSON"), path)
+
+
+def result_from_json(d, path):
+    """A Result from the parsed result JSON d; path names it in messages."""
     fmt = d.get("format") if isinstance(d, dict) else None
     if fmt != "isthmus result":
         raise FormatError('expected "format": "isthmus result", found %s'
