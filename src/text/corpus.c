@@ -1075,8 +1075,8 @@ ist_corpus_meta_json(const ist_corpus *c, char **json, ist_error *err)
     ist_jw_str(&w, "kind", "isthmus prepared corpus");
     ist_jw_raw(&w, "text", text);
     ist_jw_obj_begin(&w, "prune");
-    ist_jw_uint(&w, "min_count", c->min_count);
-    ist_jw_uint(&w, "max_vocab", c->max_vocab);
+    ist_jw_uint(&w, "min-freq", c->min_count);        /* the option names of prepare */
+    ist_jw_uint(&w, "vocab-limit", c->max_vocab);
     ist_jw_obj_end(&w);
     ist_jw_obj_begin(&w, "stats");
     ist_jw_uint(&w, "lines", c->st.lines);

@@ -363,8 +363,10 @@ load_meta(ist_corpus *c, const unsigned char *p, const header *h, const char *pa
     c->st.tokens_kept = count_of(st, "tokens_kept", &ok);
     c->st.replaced_utf8 = count_of(st, "replaced_utf8", &ok);
     c->st.types_before_prune = count_of(st, "types_before_prune", &ok);
-    c->min_count = count_of(pr, "min_count", &ok);
-    c->max_vocab = (size_t)count_of(pr, "max_vocab", &ok);
+    /* files written before the keys took the option names spell them min_count, max_vocab */
+    c->min_count = count_of(pr, ist_jv_get(pr, "min-freq") ? "min-freq" : "min_count", &ok);
+    c->max_vocab = (size_t)count_of(pr, ist_jv_get(pr, "vocab-limit") ? "vocab-limit"
+                                                                       : "max_vocab", &ok);
     if (rc == IST_OK && ist_jv_type(src) == IST_JARR)
         rc = load_sources(c, src, &ok, err);
     ist_jv_free(root);
