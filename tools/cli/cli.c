@@ -148,6 +148,41 @@ cli_parse_choice(const char *cmd, const char *opt, const char *s, const char *co
     return false;
 }
 
+static bool
+ends_in(const char *s, const char *end)
+{
+    size_t n = strlen(s), k = strlen(end);
+    return n > k && strcmp(s + n - k, end) == 0;
+}
+
+bool
+cli_vector_format(const char *cmd, const char *opt, const char *path, const char *choose,
+                  ist_store_format *out)
+{
+    struct stat st;
+    const char *dot = strrchr(path, '.'), *slash = strrchr(path, '/');
+
+    if (strcmp(path, "-") == 0 || ends_in(path, ".txt") || ends_in(path, ".gz")) {
+        *out = IST_STORE_TEXT;
+        return true;
+    }
+    /* an existing device, pipe or directory has no name to go by: the writer speaks of it */
+    if (ends_in(path, ".isv") || (stat(path, &st) == 0 && !S_ISREG(st.st_mode))) {
+        *out = IST_STORE_NATIVE;
+        return true;
+    }
+    if (dot && slash && dot < slash)
+        dot = NULL;
+    char why[112];
+    if (dot)
+        snprintf(why, sizeof why, "the ending '%.40s' names no vector format", dot);
+    else
+        snprintf(why, sizeof why, "the name has no ending to tell the vector format by");
+    cli_usage_error(cmd, "%s '%s': %s; name it .isv (native file), .txt or .gz (text table)%s%s",
+                    opt, path, why, choose ? ", or choose with " : "", choose ? choose : "");
+    return false;
+}
+
 static volatile sig_atomic_t signals_seen;
 
 static void

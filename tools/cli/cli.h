@@ -93,6 +93,13 @@ unsigned cli_processors(void);
 bool cli_parse_choice(const char *cmd, const char *opt, const char *s,
                       const char *const *choices, int *out);
 
+/* The vector format an output's name asks for: ".isv" the native file; ".txt", ".gz" or
+ * "-" a text table; an existing device, pipe or directory the native file (the writer
+ * speaks of it). Any other ending is refused with a usage error naming opt, the endings
+ * that exist and, when choose is not NULL, the option that chooses instead (false). */
+bool cli_vector_format(const char *cmd, const char *opt, const char *path, const char *choose,
+                       ist_store_format *out);
+
 /* Ctrl-C and SIGTERM ask the library to stop (ist_cancel_request); a second
  * Ctrl-C exits at once. */
 void cli_install_signals(void);

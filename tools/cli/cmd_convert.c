@@ -17,8 +17,8 @@ help(FILE *out)
           "  OUT                     output path; '-' writes a text table to standard output\n"
           "\n"
           "Options:\n"
-          "      --to=FORMAT         native or text [default: text when OUT ends in .txt or .gz\n"
-          "                          or is '-', else native]\n"
+          "      --to=FORMAT         native or text [default: from OUT: .isv native; .txt, .gz\n"
+          "                          or '-' text; another ending is refused]\n"
           "      --gzip              compress a text table [default: when OUT ends in .gz]\n"
           "      --rows-line         begin a text table with a line 'ROWS DIM'\n"
           "      --max-rows=N        keep only the first N rows [default: all]\n"
@@ -79,6 +79,9 @@ run(int argc, char **argv)
         return cli_usage_error("convert", "the native format is not written to standard output");
     if (strcmp(out, "-") == 0 && sv.gzip && isatty(STDOUT_FILENO))
         return cli_usage_error("convert", "refusing to write gzip data to a terminal");
+    if (sv.format == IST_STORE_AUTO && !sv.gzip &&
+        !cli_vector_format("convert", "OUT", out, "--to=native or --to=text", &sv.format))
+        return CLI_EXIT_USAGE;
     if (strcmp(in, out) == 0)
         return cli_usage_error("convert", "IN and OUT are the same file");
     int fc = cli_check_files("convert", &in, 1, &out, 1);

@@ -82,6 +82,9 @@ run(int argc, char **argv)
     size_t n = (size_t)(argc - optind);
     if (!out)
         return cli_usage_error("stack", "expected --output OUT");
+    ist_store_format fmt;
+    if (!cli_vector_format("stack", "-o", out, NULL, &fmt))
+        return CLI_EXIT_USAGE;
     if (n < 2 || n > MAX_BLOCKS)
         return cli_usage_error("stack", "expected 2 to %d vector files, got %zu", MAX_BLOCKS, n);
     double w[MAX_BLOCKS];

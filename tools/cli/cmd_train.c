@@ -22,7 +22,8 @@ help(FILE *out)
           "                          text files, plain or gzip, one sentence or document a line\n"
           "\n"
           "Training options:\n"
-          "  -o, --output=OUT        vector file to write (required)\n"
+          "  -o, --output=OUT        vector file to write (required): .isv native, .txt or\n"
+          "                          .gz a text table\n"
           "      --method=M          skip-gram, ppmi, or skip-gram+ppmi (the two blocks side by\n"
           "                          side) [default: skip-gram+ppmi, measured best on both\n"
           "                          real-data checks: docs/defaults.md]\n"
@@ -350,6 +351,10 @@ parse(int argc, char **argv, train_args *a)
     if (strcmp(a->out, "-") == 0)
         return cli_usage_error(cmd, "the native vector file is binary; give a file name to "
                                     "--output, not '-' (use --text-copy for a text table)");
+    ist_store_format fmt;
+    if (!cli_vector_format(cmd, "-o", a->out, NULL, &fmt) ||
+        (a->ctx_out && !cli_vector_format(cmd, "--keep-context", a->ctx_out, NULL, &fmt)))
+        return CLI_EXIT_USAGE;
     if (optind >= argc)
         return cli_usage_error(cmd, "expected a prepared corpus or at least one text file");
     for (int i = optind; i < argc; i++)
