@@ -87,7 +87,7 @@ typedef struct ist_ppmi_result {
     uint64_t words;          /* stream words read */
     uint64_t nonzeros;       /* distinct (word, context) pairs counted (both orders) */
     uint64_t positive;       /* entries of the PPMI matrix above zero */
-    size_t rank;             /* columns returned (min(dim, vocabulary)) */
+    size_t rank;             /* columns factored: min(dim, vocabulary); the rest are zero */
     double sv_max, sv_min;   /* largest and smallest singular value kept */
     double seconds;          /* wall-clock time */
     double count_seconds;    /* of which counting */
@@ -99,9 +99,12 @@ typedef struct ist_ppmi_result {
  *  Success: *vectors is a new vocab_size x dim matrix (row = id; a word that never
  *  co-occurs gets a zero row) owned by the caller (ist_matrix_free); when singular (may be
  *  NULL) is given, *singular is a new array of the dim singular values kept, largest first
- *  (release with ist_ppmi_free). res (may be NULL) gets counts and timings.
- *  Errors: IST_ERR_INVALID for options out of range, an empty stream, an id >= vocab_size,
- *  or a dimension above the vocabulary size; IST_ERR_NOMEM; IST_ERR_CANCELLED when
+ *  (release with ist_ppmi_free). A vocabulary smaller than dim has only vocab_size singular
+ *  vectors: the columns (and singular values) past them are zero, so that vectors of two
+ *  corpora trained with one dim always have the same width. res (may be NULL) gets counts
+ *  and timings.
+ *  Errors: IST_ERR_INVALID for options out of range, an empty stream or an id >=
+ *  vocab_size; IST_ERR_NOMEM; IST_ERR_CANCELLED when
  *  ist_cancel_requested() or the progress callback asked to stop; IST_ERR_NUMERIC when
  *  LAPACK fails or no pair co-occurs. */
 IST_API ist_status ist_ppmi_train(const uint32_t *ids, size_t n_ids, size_t vocab_size,

@@ -760,10 +760,6 @@ check_opts(const ist_ppmi_opts *o, size_t n_ids, size_t vocab_size, ist_error *e
     if (vocab_size == 0 || vocab_size >= ((size_t)1 << 31))
         return ist_error_set(err, IST_ERR_INVALID, "vocabulary size: expected 1 to 2^31 words, "
                              "found %zu", vocab_size);
-    if (o->dim > vocab_size)
-        return ist_error_set(err, IST_ERR_INVALID, "dimension %zu is above the vocabulary size "
-                             "%zu: choose a dimension of at most %zu", o->dim, vocab_size,
-                             vocab_size);
     if (n_ids == 0)
         return ist_error_set(err, IST_ERR_INVALID, "the token stream is empty");
     return IST_OK;
@@ -774,7 +770,9 @@ ist_ppmi_train(const uint32_t *ids, size_t n_ids, size_t vocab_size, const ist_p
                ist_matrix **vectors, double **singular, ist_ppmi_result *res, ist_error *err)
 {
     uint64_t *keys = NULL, *vals = NULL, words = 0, positive = 0;
-    size_t np = 0, peak = 0, k = o->dim;
+    /* a matrix of vocab_size rows has at most vocab_size singular vectors: the columns past
+     * them stay zero, so the width is the asked dimension whatever the corpus */
+    size_t np = 0, peak = 0, dim = o->dim, k = dim < vocab_size ? dim : vocab_size;
     double *u = NULL, *sv = NULL;
     ist_matrix *out = NULL;
     csr m;
@@ -819,14 +817,14 @@ ist_ppmi_train(const uint32_t *ids, size_t n_ids, size_t vocab_size, const ist_p
     wt.stage = IST_PPMI_FACTORING;
     wt.base = 0.5, wt.span = 0.5;
     u = ist_malloc(vocab_size * k * sizeof *u);
-    sv = ist_malloc(k * sizeof *sv);
+    sv = ist_calloc(dim, sizeof *sv);
     if (!u || !sv) {
         rc = ist_error_nomem(err);
         goto done;
     }
     if ((rc = rsvd(&m, k, o, &wt, u, sv, &peak, err)) != IST_OK)
         goto done;
-    if ((rc = ist_matrix_new(vocab_size, k, &out, err)) != IST_OK)
+    if ((rc = ist_matrix_new(vocab_size, dim, &out, err)) != IST_OK)
         goto done;
     ist_matview v = ist_matrix_view(out);
     for (size_t c = 0; c < k; c++) {

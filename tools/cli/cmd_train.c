@@ -59,7 +59,8 @@ help(FILE *out)
           "\n",
           out);
     fputs("PPMI options:\n"
-          "      --ppmi-dimension=N  components kept by the truncated SVD [default: 300]\n"
+          "      --ppmi-dimension=N  components kept by the truncated SVD; past the vocabulary\n"
+          "                          size they are zero, the width stays N [default: 300]\n"
           "      --ppmi-context=N    words counted on each side [default: 10]\n"
           "      --ppmi-weighting=W  linear (weight (N-d+1)/N at distance d) or flat\n"
           "                          [default: linear]\n"
@@ -472,11 +473,12 @@ train_ppmi(train_args *a, const ist_corpus *corpus, ist_matrix **m, char **prov,
     ist_ppmi_result res;
     a->po.threads = a->so.threads;
     a->po.seed = a->so.seed;
-    if (a->po.dim > types) {
-        cli_info("isthmus train: the vocabulary has %zu words: PPMI dimension %zu lowered to "
-                 "%zu\n", types, a->po.dim, types);
-        a->po.dim = types;
-    }
+    /* the width stays --ppmi-dimension whatever the vocabulary, so that the vectors of two
+     * small corpora can be aligned: the components past the vocabulary size are zero */
+    if (a->po.dim > types)
+        cli_info("isthmus train: the vocabulary has %zu words, fewer than the PPMI dimension "
+                 "%zu: components %zu to %zu are zero, the width stays %zu\n", types, a->po.dim,
+                 types + 1, a->po.dim, a->po.dim);
     if (cli_progress_enabled())
         a->po.progress = on_ppmi_progress;
     cli_info("isthmus train: PPMI, %llu tokens, %zu words, context %zu (%s), dimension %zu, "
