@@ -1,10 +1,8 @@
 /* ppmi_prov.c - the provenance record of count-based vectors (what, from what, how). */
 #include <isthmus/isthmus.h>
 
-#include <stdio.h>
-
 #include "alloc_int.h"
-#include "json_int.h"
+#include "train_prov_int.h"
 
 ist_status
 ist_ppmi_provenance_json(const ist_ppmi_opts *o, const ist_ppmi_result *res,
@@ -12,26 +10,9 @@ ist_ppmi_provenance_json(const ist_ppmi_opts *o, const ist_ppmi_result *res,
                          size_t types, char **json, ist_error *err)
 {
     ist_jw w;
-    char producer[64];
 
     *json = NULL;
-    snprintf(producer, sizeof producer, "isthmus %s", ist_version());
-    ist_jw_init(&w, false);
-    ist_jw_obj_begin(&w, NULL);
-    ist_jw_str(&w, "producer", producer);
-    ist_jw_str(&w, "command", "train");
-    if (text_json)
-        ist_jw_raw(&w, "text", text_json);
-    else
-        ist_jw_null(&w, "text");
-    ist_jw_obj_begin(&w, "corpus");
-    if (sources_json)
-        ist_jw_raw(&w, "sources", sources_json);
-    else
-        ist_jw_null(&w, "sources");
-    ist_jw_uint(&w, "tokens", tokens);
-    ist_jw_uint(&w, "types", types);
-    ist_jw_obj_end(&w);
+    ist_train_prov_begin(&w, text_json, sources_json, tokens, types);
     ist_jw_obj_begin(&w, "training");
     ist_jw_str(&w, "method", "PPMI truncated SVD");
     ist_jw_uint(&w, "dimension", o->dim);

@@ -1,5 +1,6 @@
-/* sgns.c - skip-gram with negative sampling: options, samplers, threads, the two update
- * kernels (formulas and citations in include/isthmus/sgns.h and docs/methods.md). */
+/* sgns.c - skip-gram with negative sampling: options, their checks, the setup of a run, its
+ * threads and ranks (the walk and the kernels are in sgns_walk.c, the samplers in
+ * sgns_sample.c; formulas and citations in include/isthmus/sgns.h and docs/methods.md). */
 #include <isthmus/sgns.h>
 
 #include <math.h>
@@ -7,8 +8,6 @@
 #include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/mman.h>
-#include <time.h>
 #include <unistd.h>
 
 #include <isthmus/cancel.h>
@@ -17,13 +16,8 @@
 #include "cluster_int.h"
 #include "error_int.h"
 #include "matrix_int.h"
-#include "sgns_int.h"
+#include "sgns_run_int.h"
 
-#define SENT_MAX 1024          /* kept words per window unit; longer lines are cut */
-#define PUBLISH_EVERY 10000    /* stream words between updates of the shared counters */
-#define SIG_RANGE 8.0f         /* sigmoid table covers [-8, 8] */
-#define SIG_SIZE 2048
-#define LOSS_EVERY_MASK 7      /* the loss (for progress only) is summed on every 8th window */
 #define MAX_THREADS 256
 #define MAX_DIM 10000
 #define MAX_WINDOW 1000
@@ -31,7 +25,6 @@
 #define HOT_ROWS 0             /* words whose rows each thread keeps a private copy of: none by
                                 * default, measured slower here (docs/performance.md) */
 #define MAX_HOT_ROWS 65536
-#define AHEAD_IDS ((size_t)1 << 22) /* ids (16 MiB) a thread asks the kernel to read ahead */
 #define MERGE_EVERY 1          /* publications between merges of the private rows */
 
 void
@@ -50,587 +43,6 @@ ist_sgns_opts_init(ist_sgns_opts *o)
     o->merge = IST_SGNS_MERGE_CHANGES;
     o->seed = 1;
     o->kernel = IST_SGNS_FAST;
-}
-
-/* ---- subsampling and noise ------------------------------------------------------------ */
-
-double
-ist_sgns_keep_prob(uint64_t count, uint64_t total, double t)
-{
-    if (t <= 0.0 || count == 0 || total == 0)
-        return 1.0;
-    double f = (double)count / (double)total;
-    double p = sqrt(t / f);
-    return p < 1.0 ? p : 1.0;
-}
-
-ist_status
-ist_sgns_keep_table(const uint64_t *counts, size_t n, double t, uint32_t **out, ist_error *err)
-{
-    uint64_t total = 0;
-    uint32_t *thr;
-
-    *out = NULL;
-    thr = ist_malloc((n ? n : 1) * sizeof *thr);
-    if (!thr)
-        return ist_error_nomem(err);
-    for (size_t i = 0; i < n; i++)
-        total += counts[i];
-    for (size_t i = 0; i < n; i++) {
-        double p = ist_sgns_keep_prob(counts[i], total, t);
-        thr[i] = p >= 1.0 ? UINT32_MAX : (uint32_t)(p * 4294967296.0);
-    }
-    *out = thr;
-    return IST_OK;
-}
-
-ist_status
-ist_sgns_noise_build(const uint64_t *counts, size_t n, double power, ist_sgns_noise *out,
-                     ist_error *err)
-{
-    double *p = NULL, sum = 0.0;
-    uint32_t *small = NULL, *large = NULL;
-    size_t ns = 0, nl = 0;
-
-    memset(out, 0, sizeof *out);
-    if (n == 0 || n >= UINT32_MAX)
-        return ist_error_set(err, IST_ERR_INVALID, "noise distribution over %zu words", n);
-    for (size_t i = 0; i < n; i++)
-        sum += pow((double)counts[i], power);
-    if (!(sum > 0.0))
-        return ist_error_set(err, IST_ERR_INVALID, "every word count is zero");
-    p = ist_malloc(n * sizeof *p);
-    small = ist_malloc(n * sizeof *small);
-    large = ist_malloc(n * sizeof *large);
-    out->cells = ist_malloc(n * sizeof *out->cells);
-    if (!p || !small || !large || !out->cells) {
-        ist_free(p), ist_free(small), ist_free(large), ist_free(out->cells);
-        out->cells = NULL;
-        return ist_error_nomem(err);
-    }
-    out->n = (uint32_t)n;
-    /* Vose's method: scale to mean 1, pair each under-full cell with an over-full one. */
-    for (size_t i = 0; i < n; i++) {
-        p[i] = pow((double)counts[i], power) * (double)n / sum;
-        if (p[i] < 1.0)
-            small[ns++] = (uint32_t)i;
-        else
-            large[nl++] = (uint32_t)i;
-    }
-    while (ns > 0 && nl > 0) {
-        uint32_t s = small[--ns], l = large[nl - 1];
-        out->cells[s].keep = (uint32_t)(p[s] * 4294967296.0);
-        out->cells[s].alias = l;
-        p[l] -= 1.0 - p[s];
-        if (p[l] < 1.0) {
-            nl--;
-            small[ns++] = l;
-        }
-    }
-    while (nl > 0) {             /* what rounding left: full cells */
-        uint32_t l = large[--nl];
-        out->cells[l].keep = UINT32_MAX;
-        out->cells[l].alias = l;
-    }
-    while (ns > 0) {
-        uint32_t s = small[--ns];
-        out->cells[s].keep = UINT32_MAX;
-        out->cells[s].alias = s;
-    }
-    ist_free(p), ist_free(small), ist_free(large);
-    return IST_OK;
-}
-
-void
-ist_sgns_noise_free(ist_sgns_noise *z)
-{
-    if (z) {
-        ist_free(z->cells);
-        z->cells = NULL;
-        z->n = 0;
-    }
-}
-
-/* ---- shared state --------------------------------------------------------------------- */
-
-typedef struct shared {
-    const uint32_t *ids;
-    size_t dim, stride, window, negatives, epochs, nthreads;
-    float *in, *out;                 /* vocab x stride each */
-    const uint32_t *keep;
-    ist_sgns_noise noise;
-    const ist_sgns_simd *simd;
-    ist_sgns_kernel kernel;
-    double lr0, lr_floor;
-    uint64_t words_per_epoch, words_total;
-    uint64_t ranks;                  /* words done here count this many times (schedule) */
-    bool final_pass;                 /* the pass being run is the last one */
-    float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
-    atomic_int stop;
-    pthread_mutex_t lock;            /* guards the counters below */
-    pthread_cond_t wake;
-    uint64_t words_done, trained, pairs;
-    double loss_sum, last_epoch_loss;
-    uint64_t loss_n, last_epoch_n;
-    size_t finished;
-    ist_status fail;
-    /* Optional, with two threads or more (ISTHMUS_SGNS_HOT): the hot words (the most frequent
-     * ones) are trained on private copies of their input and output rows in each thread,
-     * merged into the shared matrices every merge_every x PUBLISH_EVERY stream words
-     * (docs/performance.md, "Threads"). */
-    size_t n_hot, merge_every;
-    size_t page;                     /* bytes of a memory page, for read-ahead advice */
-    uint32_t *hot_ids;               /* n_hot ids, most frequent first */
-    int32_t *hot_slot;               /* vocab entries: slot of the word, or -1 */
-    pthread_mutex_t merge_lock;
-} shared;
-
-typedef struct worker {
-    char pad_head[128];              /* keeps the hot fields of neighbours off shared lines */
-    shared *sh;
-    size_t begin, end;               /* part of the stream */
-    uint64_t rng;
-    uint32_t sent[SENT_MAX];
-    /* FAST: pointers and products of one window; REFERENCE: the gradient row */
-    const float **xr, **yr;
-    float **xw, **yw, **dxr;
-    uint32_t *outs, *mult;
-    uint32_t *pre;                   /* FAST: noise words drawn ahead for the next window */
-    bool have_pre;
-    float *s, *g, *gt, *dx;
-    pthread_t thread;
-    bool started;
-    /* hot rows: the private copies (n_hot x stride, inputs then outputs) and the shared rows
-     * as they were at the last merge */
-    float *rep_in, *rep_out, *base_in, *base_out;
-    size_t publications;
-    /* since the last publication */
-    uint64_t words, trained, pairs, loss_n, windows;
-    double loss;
-    char pad_tail[128];
-} worker;
-
-static void
-sig_tables(shared *sh)
-{
-    for (int i = 0; i <= SIG_SIZE; i++) {
-        double x = ((double)i / SIG_SIZE * 2.0 - 1.0) * SIG_RANGE;
-        sh->sig[i] = (float)(1.0 / (1.0 + exp(-x)));
-        sh->logsig[i] = (float)(-log1p(exp(-x)));   /* log s(x) */
-    }
-}
-
-static inline int
-sig_index(float x)
-{
-    return (int)((x + SIG_RANGE) * (SIG_SIZE / (2.0f * SIG_RANGE)) + 0.5f);
-}
-
-/* Gradient factor (label - s(x)) and the pair's loss -log s(+-x). */
-static inline float
-grad_loss(const shared *sh, float x, int label, double *loss)
-{
-    if (x >= SIG_RANGE) {
-        *loss += label ? 0.0 : x;
-        return label ? 0.0f : -1.0f;
-    }
-    if (x <= -SIG_RANGE) {
-        *loss += label ? -x : 0.0;
-        return label ? 1.0f : 0.0f;
-    }
-    int i = sig_index(x);
-    float s = sh->sig[i];
-    /* log s(-x) = log s(x) - x */
-    *loss -= label ? sh->logsig[i] : sh->logsig[i] - x;
-    return (float)label - s;
-}
-
-/* Gradient factor alone. */
-static inline float
-grad_only(const shared *sh, float x, int label)
-{
-    if (x >= SIG_RANGE)
-        return label ? 0.0f : -1.0f;
-    if (x <= -SIG_RANGE)
-        return label ? 1.0f : 0.0f;
-    return (float)label - sh->sig[sig_index(x)];
-}
-
-static double
-current_lr(const shared *sh, uint64_t done)
-{
-    double f = 1.0 - (double)done / (double)(sh->words_total + 1);
-    return sh->lr0 * (f > sh->lr_floor ? f : sh->lr_floor);
-}
-
-/* ---- rows: shared, or this thread's copy for a hot word --------------------------------- */
-
-static inline float *
-in_row(const worker *w, uint32_t id)
-{
-    const shared *sh = w->sh;
-    if (sh->n_hot) {
-        int32_t s = sh->hot_slot[id];
-        if (s >= 0)
-            return w->rep_in + (size_t)s * sh->stride;
-    }
-    return sh->in + (size_t)id * sh->stride;
-}
-
-static inline float *
-out_row(const worker *w, uint32_t id)
-{
-    const shared *sh = w->sh;
-    if (sh->n_hot) {
-        int32_t s = sh->hot_slot[id];
-        if (s >= 0)
-            return w->rep_out + (size_t)s * sh->stride;
-    }
-    return sh->out + (size_t)id * sh->stride;
-}
-
-/* Fold this thread's changes to its hot rows into the shared rows, then start again from the
- * shared rows (which hold the other threads' merged changes too):
- *   shared += copy - base;  copy = base = shared. */
-static void
-merge_hot(worker *w)
-{
-    shared *sh = w->sh;
-    size_t len = sh->stride, dim = sh->dim;
-
-    pthread_mutex_lock(&sh->merge_lock);
-    for (size_t s = 0; s < sh->n_hot; s++) {
-        size_t off = (size_t)s * len, row = (size_t)sh->hot_ids[s] * len;
-        float *si = sh->in + row, *so = sh->out + row;
-        float *ci = w->rep_in + off, *co = w->rep_out + off;
-        float *bi = w->base_in + off, *bo = w->base_out + off;
-        for (size_t c = 0; c < dim; c++) {
-            si[c] += ci[c] - bi[c];
-            so[c] += co[c] - bo[c];
-            ci[c] = bi[c] = si[c];
-            co[c] = bo[c] = so[c];
-        }
-    }
-    pthread_mutex_unlock(&sh->merge_lock);
-}
-
-/* ---- the two kernels: one window centred on sent[i] ----------------------------------- */
-
-/* Plain per-pair loop: every (context, centre) pair draws its own noise words. The loops are
- * left to the compiler (allowed to vectorise the sums, and built for AVX2 + FMA as well, chosen
- * at run time) so that the comparison with the fast path is against a well-compiled loop. */
-#if defined(__x86_64__) && defined(__GNUC__) && !defined(__clang__)
-__attribute__((target_clones("arch=x86-64-v3", "default")))
-#endif
-static void
-window_reference(worker *w, size_t n, size_t i, size_t r, float lr)
-{
-    shared *sh = w->sh;
-    size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, dim = sh->dim;
-    uint32_t centre = w->sent[i];
-    float *grad = w->dx;
-    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;
-
-    for (size_t j = lo; j < hi; j++) {
-        if (j == i)
-            continue;
-        float *x = in_row(w, w->sent[j]);
-        memset(grad, 0, dim * sizeof *grad);
-        for (size_t d = 0; d <= sh->negatives; d++) {
-            uint32_t o = d == 0 ? centre : ist_sgns_noise_draw(&sh->noise, &w->rng);
-            if (d > 0 && o == centre)
-                continue;
-            float *y = out_row(w, o), dot = 0.0f;
-#pragma omp simd reduction(+ : dot)
-            for (size_t c = 0; c < dim; c++)
-                dot += x[c] * y[c];
-            float g = sample ? grad_loss(sh, dot, d == 0, &w->loss) : grad_only(sh, dot, d == 0);
-            g *= lr;
-#pragma omp simd
-            for (size_t c = 0; c < dim; c++)
-                grad[c] += g * y[c];
-#pragma omp simd
-            for (size_t c = 0; c < dim; c++)
-                y[c] += g * x[c];
-            w->pairs++;
-            w->loss_n += sample;
-        }
-#pragma omp simd
-        for (size_t c = 0; c < dim; c++)
-            x[c] += grad[c];
-    }
-}
-
-static inline void
-prefetch_row(const float *row, size_t len)
-{
-    for (size_t d = 0; d < len; d += 16)
-        __builtin_prefetch(row + d, 1, 3);
-}
-
-/* The window's output rows: the centre word (label 1) then the distinct noise words with
- * their multiplicities (a noise word equal to the centre is skipped). The noise words are
- * drawn one window ahead so that their rows can be fetched from memory while the current
- * window computes. Returns the number of rows; *drawn counts centre + noise words used. */
-static size_t
-window_outputs(worker *w, uint32_t centre, size_t *drawn)
-{
-    shared *sh = w->sh;
-    size_t no = 1, kn = sh->negatives, len = sh->stride;
-
-    if (!w->have_pre)
-        for (size_t d = 0; d < kn; d++)
-            w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
-    w->outs[0] = centre;
-    w->mult[0] = 1;
-    *drawn = 1;
-    for (size_t d = 0; d < kn; d++) {
-        uint32_t o = w->pre[d];
-        if (o == centre)
-            continue;
-        (*drawn)++;
-        size_t k = 1;
-        while (k < no && w->outs[k] != o)
-            k++;
-        if (k == no) {
-            w->outs[no] = o;
-            w->mult[no++] = 1;
-        } else {
-            w->mult[k]++;
-        }
-    }
-    for (size_t d = 0; d < kn; d++) {
-        w->pre[d] = ist_sgns_noise_draw(&sh->noise, &w->rng);
-        prefetch_row(out_row(w, w->pre[d]), len);
-    }
-    w->have_pre = true;
-    for (size_t k = 0; k < no; k++) {
-        float *y = out_row(w, w->outs[k]);
-        w->yr[k] = y;
-        w->yw[k] = y;
-    }
-    return no;
-}
-
-/* G = lr (L - s(S)) weighted by the output multiplicities, and its transpose; the loss is
- * summed on every 8th window. Also zeroes the dX rows. Returns whether the loss was summed. */
-static bool
-window_gradients(worker *w, size_t m, size_t no, float lr)
-{
-    const shared *sh = w->sh;
-    bool sample = (w->windows++ & LOSS_EVERY_MASK) == 0;
-
-    for (size_t j = 0; j < m; j++) {
-        for (size_t k = 0; k < no; k++) {
-            float x = w->s[j * no + k], g;
-            if (sample) {
-                double l = 0.0;
-                g = grad_loss(sh, x, k == 0, &l);
-                w->loss += l * w->mult[k];
-            } else {
-                g = grad_only(sh, x, k == 0);
-            }
-            g *= lr * (float)w->mult[k];
-            w->g[j * no + k] = g;
-            w->gt[k * m + j] = g;
-        }
-        memset(w->dxr[j], 0, sh->stride * sizeof(float));
-    }
-    return sample;
-}
-
-/* Shared noise words for the window; updates as small matrix products (Ji et al. 2016). */
-static void
-window_fast(worker *w, size_t n, size_t i, size_t r, float lr)
-{
-    shared *sh = w->sh;
-    size_t lo = i >= r ? i - r : 0, hi = i + r + 1 < n ? i + r + 1 : n, len = sh->stride;
-    size_t m = 0, drawn;
-    const ist_sgns_simd *v = sh->simd;
-
-    size_t no = window_outputs(w, w->sent[i], &drawn);
-    if (i + 1 < n)
-        prefetch_row(out_row(w, w->sent[i + 1]), len);
-    if (i + sh->window + 1 < n)
-        prefetch_row(in_row(w, w->sent[i + sh->window + 1]), len);
-    for (size_t j = lo; j < hi; j++) {
-        if (j == i)
-            continue;
-        float *x = in_row(w, w->sent[j]);
-        w->xr[m] = x;
-        w->xw[m] = x;
-        m++;
-    }
-    if (m == 0)
-        return;
-    v->dots(w->xr, m, w->yr, no, len, w->s);
-    bool sample = window_gradients(w, m, no, lr);
-    v->acc(w->dxr, m, w->yr, no, w->g, len);       /* dX = G Y          */
-    v->acc(w->yw, no, w->xr, m, w->gt, len);       /* Y += G^T X        */
-    for (size_t j = 0; j < m; j++)                 /* X += dX, row by row: contexts may repeat */
-        v->add(w->xw[j], w->dxr[j], len);
-    w->pairs += m * drawn;
-    if (sample)
-        w->loss_n += m * drawn;
-}
-
-/* ---- threads ---------------------------------------------------------------------------- */
-
-/* Add this worker's counts to the shared ones; returns the learning rate to use next. */
-static float
-publish(worker *w, bool last_epoch)
-{
-    shared *sh = w->sh;
-    double lr;
-
-    pthread_mutex_lock(&sh->lock);
-    sh->words_done += w->words * sh->ranks;
-    sh->trained += w->trained;
-    sh->pairs += w->pairs;
-    sh->loss_sum += w->loss;
-    sh->loss_n += w->loss_n;
-    if (last_epoch) {
-        sh->last_epoch_loss += w->loss;
-        sh->last_epoch_n += w->loss_n;
-    }
-    lr = current_lr(sh, sh->words_done);
-    pthread_mutex_unlock(&sh->lock);
-    w->words = w->trained = w->pairs = w->loss_n = 0;
-    w->loss = 0.0;
-    if (sh->n_hot && ++w->publications % sh->merge_every == 0)
-        merge_hot(w);
-    return (float)lr;
-}
-
-/* Ask for the next AHEAD_IDS ids of this thread's part to be read in (the stream may be a
- * memory-mapped file larger than memory, on a slow disk): advice only, results unchanged. */
-static void
-read_ahead(const worker *w, size_t pos)
-{
-    size_t page = w->sh->page, end = pos + AHEAD_IDS < w->end ? pos + AHEAD_IDS : w->end;
-    uintptr_t a = (uintptr_t)(w->sh->ids + pos) & ~(uintptr_t)(page - 1);
-    uintptr_t b = (uintptr_t)(w->sh->ids + end);
-    if (b > a)
-        posix_madvise((void *)a, (size_t)(b - a), POSIX_MADV_WILLNEED);
-}
-
-static void *
-worker_main(void *arg)
-{
-    worker *w = arg;
-    shared *sh = w->sh;
-    float lr = (float)current_lr(sh, sh->words_done);   /* lr0 at the start; a slice of
-                                                         * a rank's share goes on from there */
-    uint64_t since = 0;
-    uint32_t win = (uint32_t)sh->window;
-
-    for (size_t e = 0; e < sh->epochs && !atomic_load_explicit(&sh->stop, memory_order_relaxed);
-         e++) {
-        bool last = e + 1 == sh->epochs && sh->final_pass;
-        size_t pos = w->begin, ahead = pos;
-        while (pos < w->end) {
-            size_t n = 0;
-            if (pos >= ahead) {
-                read_ahead(w, pos);
-                ahead = pos + AHEAD_IDS / 2;
-            }
-            while (pos < w->end) {
-                uint32_t id = sh->ids[pos++];
-                if (id == IST_CORPUS_EOL)
-                    break;
-                w->words++;
-                since++;
-                if (ist_sgns_keep(sh->keep, id, &w->rng)) {
-                    w->sent[n++] = id;
-                    if (n == SENT_MAX)
-                        break;
-                }
-            }
-            for (size_t i = 0; i < n; i++) {
-                size_t r = win - ist_sgns_below(ist_sgns_rand(&w->rng), win);
-                if (sh->kernel == IST_SGNS_FAST)
-                    window_fast(w, n, i, r, lr);
-                else
-                    window_reference(w, n, i, r, lr);
-            }
-            w->trained += n;
-            if (since >= PUBLISH_EVERY) {
-                since = 0;
-                lr = publish(w, last);
-                if (atomic_load_explicit(&sh->stop, memory_order_relaxed))
-                    break;
-            }
-        }
-        lr = publish(w, last);
-    }
-    if (sh->n_hot)
-        merge_hot(w);                /* whatever the last publication left */
-    pthread_mutex_lock(&sh->lock);
-    sh->finished++;
-    pthread_cond_signal(&sh->wake);
-    pthread_mutex_unlock(&sh->lock);
-    return NULL;
-}
-
-static double
-now_sec(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double)ts.tv_sec + (double)ts.tv_nsec * 1e-9;
-}
-
-/* The calling thread waits, reports progress every 0.25 s and passes on a stop request. */
-static void
-monitor(shared *sh, const ist_sgns_opts *o, double t0)
-{
-    uint64_t last_done = 0, last_n = 0;
-    double last_loss = 0.0, last_t = t0;
-
-    pthread_mutex_lock(&sh->lock);
-    while (sh->finished < sh->nthreads) {
-        struct timespec ts;
-        clock_gettime(CLOCK_REALTIME, &ts);
-        ts.tv_nsec += 250000000L;
-        if (ts.tv_nsec >= 1000000000L) {
-            ts.tv_sec++;
-            ts.tv_nsec -= 1000000000L;
-        }
-        pthread_cond_timedwait(&sh->wake, &sh->lock, &ts);
-        if (sh->finished >= sh->nthreads)
-            break;
-        if (ist_cancel_requested() && sh->fail == IST_OK) {
-            sh->fail = IST_ERR_CANCELLED;
-            atomic_store(&sh->stop, 1);
-        }
-        if (!o->progress || sh->fail != IST_OK)
-            continue;
-        double t = now_sec();
-        ist_sgns_progress p;
-        p.words_done = sh->words_done;
-        p.fraction = (double)sh->words_done / (double)sh->words_total;
-        p.words_per_sec = t > t0 ? (double)sh->words_done / (t - t0) : 0.0;
-        double recent = t > last_t ? (double)(sh->words_done - last_done) / (t - last_t) : 0.0;
-        double rate = recent > 0.0 ? recent : p.words_per_sec;
-        p.eta_sec = rate > 0.0 ? (double)(sh->words_total - sh->words_done) / rate : 0.0;
-        p.lr = current_lr(sh, sh->words_done);
-        p.loss = sh->loss_n > last_n ? (sh->loss_sum - last_loss) / (double)(sh->loss_n - last_n)
-                                     : 0.0;
-        if (sh->words_done != last_done) {
-            last_done = sh->words_done;
-            last_t = t;
-        }
-        last_loss = sh->loss_sum;
-        last_n = sh->loss_n;
-        pthread_mutex_unlock(&sh->lock);
-        int stop = o->progress(o->progress_ctx, &p);
-        pthread_mutex_lock(&sh->lock);
-        if (stop && sh->fail == IST_OK) {
-            sh->fail = IST_ERR_CANCELLED;
-            atomic_store(&sh->stop, 1);
-        }
-    }
-    pthread_mutex_unlock(&sh->lock);
 }
 
 /* ---- setup ------------------------------------------------------------------------------ */
@@ -854,13 +266,13 @@ set_parts(shared *sh, worker *ws, size_t lo, size_t hi)
 static ist_status
 run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_error *err)
 {
-    double t0 = now_sec();
+    double t0 = ist_sgns_now();
     ist_status rc = IST_OK;
 
     (void)n_ids;
     sh->finished = 0;
     for (size_t t = 0; t < sh->nthreads; t++) {
-        if (pthread_create(&ws[t].thread, NULL, worker_main, &ws[t]) != 0) {
+        if (pthread_create(&ws[t].thread, NULL, ist_sgns_worker_main, &ws[t]) != 0) {
             rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start training thread %zu",
                                t + 1);
             pthread_mutex_lock(&sh->lock);
@@ -871,7 +283,7 @@ run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_er
         }
         ws[t].started = true;
     }
-    monitor(sh, o, t0);
+    ist_sgns_monitor(sh, o, t0);
     for (size_t t = 0; t < sh->nthreads; t++)
         if (ws[t].started)
             pthread_join(ws[t].thread, NULL);
@@ -923,7 +335,7 @@ shared_setup(shared *sh, const uint32_t *ids, const ist_sgns_opts *o, ist_matrix
     sh->words_total = words * o->epochs;
     sh->ranks = 1;
     sh->final_pass = true;
-    sig_tables(sh);
+    ist_sgns_sig_tables(sh);
     long page = sysconf(_SC_PAGESIZE);
     sh->page = page > 0 ? (size_t)page : 4096;
     atomic_init(&sh->stop, 0);
@@ -992,10 +404,10 @@ train_ranks(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t
                       lo + part_start(sh->ids + lo, hi - lo, c + 1, x));
             sh->final_pass = e + 1 == epochs;
             rc = run_threads(sh, ws, o, n_ids, err);
-            double t = now_sec();
+            double t = ist_sgns_now();
             rc = ist_cluster_agree(rc, err);
-            wsec += now_sec() - t;
-            t = now_sec();
+            wsec += ist_sgns_now() - t;
+            t = ist_sgns_now();
             /* the schedule counted this rank's words n times; count every rank's once */
             mine = (sh->words_done - before) / n;
             if (rc == IST_OK)
@@ -1010,7 +422,7 @@ train_ranks(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t
                 add_changes(sh->out, base + cells, cells, (float)n);
             }
             hot_refresh(ws, sh);
-            xsec += now_sec() - t;
+            xsec += ist_sgns_now() - t;
             count++;
         }
     }
@@ -1053,7 +465,7 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
     shared *sh = NULL;
     uint64_t words = 0;
     ist_status rc;
-    double t0 = now_sec();
+    double t0 = ist_sgns_now();
 
     *in_vectors = NULL;
     if (ctx_vectors)
@@ -1108,7 +520,7 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         res->words_seen = sh->words_done;
         res->words_trained = sh->trained;
         res->pairs = sh->pairs;
-        res->seconds = now_sec() - t0;
+        res->seconds = ist_sgns_now() - t0;
         res->words_per_sec = res->seconds > 0 ? (double)sh->words_done / res->seconds : 0.0;
         res->final_loss = sh->last_epoch_n ? sh->last_epoch_loss / (double)sh->last_epoch_n : 0.0;
     }
