@@ -49,26 +49,38 @@ check "... the provenance records the ranks, the exchanges per pass and the merg
 check "... a whole file: its checksums hold" grep -q 'checksums: *intact' inspect.out
 check "... only rank 0 spoke: one summary line" \
     sh -c 'test "$(grep -c "words seen" train.err)" -eq 1'
-# a job far too long to finish (100000 passes), then SIGINT to rank 1 alone once it trains
+# A job far too long to finish (100000 passes of 50,000 tokens: hours on any machine, far
+# beyond the test's timeout), then SIGINT to rank 1 alone. The signal goes only once rank 1
+# has installed its SIGINT handler (the SigCgt mask of /proc/PID/status): from then on the
+# stop flag is sticky and the trainer polls it at its start and throughout, so the outcome
+# does not depend on how fast the machine is or how loaded. No sleep decides anything here;
+# the deadline (120 s) only ends a wait for a rank that never appears.
 ASAN_OPTIONS="${ASAN_OPTIONS:-}:detect_leaks=0" "$mpirun" -np 2 "$isthmus" train \
     --dimension=16 --passes=100000 --exchanges=2 --threads=1 -o stopped.isv en.prep \
     >stop.out 2>stop.err &
 job=$!
+catches_sigint() {   # pid: 0 when the process has its own SIGINT handler installed
+    mask=$(sed -n 's/^SigCgt:[[:space:]]*//p' "/proc/$1/status" 2>/dev/null)
+    last=${mask#"${mask%?}"}   # the last hex digit holds signals 1-4; SIGINT (2) is its 2
+    [ -n "$last" ] && [ $(( 0x$last & 2 )) -ne 0 ]
+}
 victim=
-for i in $(seq 1 200); do
+deadline=$(( $(date +%s) + 120 ))
+while [ -z "$victim" ] && [ "$(date +%s)" -lt "$deadline" ] && kill -0 "$job" 2>/dev/null; do
     # rank 1 of this job: our program writing stopped.isv in this directory
     for p in $(pgrep -f "train .*-o stopped.isv" 2>/dev/null); do
         [ "$(readlink /proc/$p/cwd 2>/dev/null)" = "$(pwd -P)" ] || continue
         [ "$(readlink /proc/$p/exe 2>/dev/null)" = "$(readlink -f "$isthmus")" ] || continue
-        if tr '\0' '\n' < /proc/$p/environ 2>/dev/null | grep -qx 'OMPI_COMM_WORLD_RANK=1'; then
-            victim=$p
-        fi
+        tr '\0' '\n' < /proc/$p/environ 2>/dev/null | grep -qx 'OMPI_COMM_WORLD_RANK=1' ||
+            continue
+        catches_sigint "$p" && victim=$p
     done
-    [ -n "$victim" ] && break
-    sleep 0.1
+    [ -n "$victim" ] || sleep 0.05
 done
-sleep 1
-if [ -n "$victim" ]; then kill -INT "$victim"; else kill -TERM "$job"; fi
+if [ -n "$victim" ]; then kill -INT "$victim"; else
+    echo "# rank 1 never installed its handler within 120 s; stopping mpirun"
+    kill -TERM "$job"
+fi
 wait $job
 rc=$?
 check "a rank stopped alone: the job stops with the status of a stop, 130 ($rc)" test $rc -eq 130
