@@ -83,6 +83,8 @@ help(FILE *out)
           "      --dedup-lines       as for 'isthmus prepare'\n"
           "      --numbers=POLICY    number-shaped words: keep, mask or drop, as for 'isthmus\n"
           "                          prepare' [default: keep]\n"
+          "      (--threads also sets the threads that prepare raw text; the prepared text is\n"
+          "      the same for any count)\n"
           "  -h, --help              show this help and exit\n"
           "\n"
           "Progress is shown on a terminal: the pass and the number of passes, the share done,\n"
@@ -337,6 +339,7 @@ parse(int argc, char **argv, train_args *a)
             return CLI_EXIT_USAGE;
     }
     a->so.threads = threads ? threads : cli_processors();
+    a->co.threads = a->so.threads;   /* raw text is prepared on as many threads */
     if (!a->out)
         return cli_usage_error(cmd, "expected --output OUT");
     /* the PPMI trainer does not run across ranks: under mpirun the default is skip-gram */
