@@ -33,7 +33,7 @@ counted() {   # name, command...: run it with the module, keep its thread count 
 count() { cat "$1.count" 2>/dev/null || echo x; }
 echo "1..4"
 gzip -dc "$src/data-samples/tillwick-en.txt.gz" | head -c 400000 > en.txt
-"$isthmus" -q prepare --threads=1 -o en.prep en.txt || exit 1
+"$isthmus" -q prepare --threads=1 -o en.prep en.txt >/dev/null 2>&1 || exit 1
 for t in 1 3; do
     counted "prepare$t" "$isthmus" -q prepare --threads=$t -o "p$t.prep" en.txt
     counted "trainprep$t" "$isthmus" -q train --method=skip-gram --dimension=8 --passes=1 \
