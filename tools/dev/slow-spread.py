@@ -2,12 +2,12 @@
 """Measure how the figures of the slow checks on trained vectors spread over training seeds and
 kernel families, to set their floors with a stated margin.
 
-Runs tests/slow/{real_neighbours,real_align,propose_demo}.py once per seed and kernel family
+Runs tests/slow/{real_neighbours,real_align,real_defaults,propose_demo}.py once per seed and kernel family
 (ISTHMUS_CHECK_SEED, ISTHMUS_SIMD), collects their '# figure NAME VALUE' lines and prints, per
 figure, min / mean / max for each family and over all runs.
 
 usage: tools/dev/slow-spread.py ISTHMUS WORK-DIR [--seeds 1,2,3,4,5] [--kernels native,portable]
-                                [--checks real_neighbours,real_align,propose_demo]
+                                [--checks real_neighbours,real_align,real_defaults,propose_demo]
 """
 import argparse
 import collections
@@ -23,7 +23,7 @@ def main():
     ap.add_argument("work")
     ap.add_argument("--seeds", default="1,2,3,4,5")
     ap.add_argument("--kernels", default="native,portable")
-    ap.add_argument("--checks", default="real_neighbours,real_align,propose_demo")
+    ap.add_argument("--checks", default="real_neighbours,real_align,real_defaults,propose_demo")
     a = ap.parse_args()
     src = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
     isthmus = os.path.abspath(a.isthmus)
