@@ -26,15 +26,15 @@ test_thresholds_parse(void **state)
     (void)state;
     ist_thresholds *t = parse_ok("# release rules\n"
                                  "\n"
-                                 "min precision@1 csls refined 0.60   # the headline\n"
+                                 "min p@1 csls refined 0.60   # the headline\n"
                                  "  min   coverage\t0.80\n"
-                                 "max drop precision@1 csls 0.03\n"
-                                 "min precision@10 cosine band 1-5000 85%\n"
-                                 "min precision@5 procrustes csls band 20001+ 0.5");
+                                 "max drop p@1 csls 0.03\n"
+                                 "min p@10 cosine band 1-5000 85%\n"
+                                 "min p@5 procrustes csls band 20001+ 0.5");
     assert_int_equal(ist_thresholds_count(t), 5);
     const ist_gate_rule *r = ist_thresholds_rule(t, 0);
     assert_int_equal(r->line, 3);
-    assert_string_equal(r->text, "min precision@1 csls refined 0.60");
+    assert_string_equal(r->text, "min p@1 csls refined 0.60");
     assert_int_equal(r->bound_kind, IST_GATE_MIN);
     assert_int_equal(r->figure, IST_GATE_PRECISION);
     assert_int_equal(r->k, 1);
@@ -66,6 +66,14 @@ test_thresholds_parse(void **state)
     assert_int_equal(r->band_to, 0);
     assert_null(ist_thresholds_rule(t, 5));
     ist_thresholds_free(t);
+
+    /* rules files written before p@K became the one spelling said precision@K */
+    t = parse_ok("min precision@5 csls 0.5\nmax drop precision@10 cosine 2%\n");
+    assert_int_equal(ist_thresholds_rule(t, 0)->figure, IST_GATE_PRECISION);
+    assert_int_equal(ist_thresholds_rule(t, 0)->k, 5);
+    assert_int_equal(ist_thresholds_rule(t, 1)->figure, IST_GATE_DROP);
+    assert_int_equal(ist_thresholds_rule(t, 1)->k, 10);
+    ist_thresholds_free(t);
 }
 
 static void
@@ -79,22 +87,23 @@ test_thresholds_errors(void **state)
     } cases[] = {
         {"# only a comment\n\n", 0, "expected at least one rule, found none"},
         {"min coverage 0.8\nminimum coverage 0.8\n", 2, "expected 'min', 'max' or 'refuse'*found 'minimum'"},
-        {"min precison@1 csls 0.5\n", 1, "expected precision@1, precision@5, precision@10, "
+        {"min precison@1 csls 0.5\n", 1, "expected p@1, p@5, p@10, "
                                          "coverage or drop, found 'precison@1'"},
+        {"min p@2 csls 0.5\n", 1, "*found 'p@2'"},
         {"min precision@2 csls 0.5\n", 1, "*found 'precision@2'"},
-        {"min precision@1 csls\n", 1, "expected a bound between 0 and 1*found 'csls'"},
-        {"min precision@1 csls 1.5\n", 1, "expected a bound between 0 and 1*found '1.5'"},
-        {"min precision@1 csls 0.5x\n", 1, "*found '0.5x'"},
-        {"min precision@1 0.5\n", 1, "expected the retrieval method (cosine or csls)*"},
-        {"min precision@1 csls cosine 0.5\n", 1, "expected one retrieval method, found 'cosine'"},
-        {"min precision@1 csls fancy 0.5\n", 1, "expected cosine, csls, procrustes, refined, "
+        {"min p@1 csls\n", 1, "expected a bound from 0% to 100%*found 'csls'"},
+        {"min p@1 csls 1.5\n", 1, "expected a bound from 0% to 100%*found '1.5'"},
+        {"min p@1 csls 0.5x\n", 1, "*found '0.5x'"},
+        {"min p@1 0.5\n", 1, "expected the retrieval method (cosine or csls)*"},
+        {"min p@1 csls cosine 0.5\n", 1, "expected one retrieval method, found 'cosine'"},
+        {"min p@1 csls fancy 0.5\n", 1, "expected cosine, csls, procrustes, refined, "
                                                 "band or the bound, found 'fancy'"},
-        {"min precision@1 csls band 0.5\n", 1, "expected a band of frequency ranks*"},
-        {"min precision@1 csls band 50-10 0.5\n", 1, "*found '50-10'"},
-        {"min drop precision@1 csls 0.03\n", 1, "expected 'max drop'*"},
-        {"max drop csls 0.03\n", 1, "expected precision@1, precision@5 or precision@10 after "
+        {"min p@1 csls band 0.5\n", 1, "expected a band of frequency ranks*"},
+        {"min p@1 csls band 50-10 0.5\n", 1, "*found '50-10'"},
+        {"min drop p@1 csls 0.03\n", 1, "expected 'max drop'*"},
+        {"max drop csls 0.03\n", 1, "expected p@1, p@5 or p@10 after "
                                     "'drop', found 'csls'"},
-        {"max drop precision@1 csls band 1-5000 0.03\n", 1, "expected no band*"},
+        {"max drop p@1 csls band 1-5000 0.03\n", 1, "expected no band*"},
         {"min coverage band 1-10 0.5\n", 1, "expected no band*"},
         {"min\n", 1, "*found the end of the line"},
     };
@@ -127,7 +136,7 @@ test_thresholds_file(void **state)
 {
     (void)state;
     char *dir = harness_tmpdir(), *path = harness_path(dir, "demo.thresholds");
-    static const char text[] = "min coverage 0.9\n# next\nmax drop precision@5 csls\n";
+    static const char text[] = "min coverage 0.9\n# next\nmax drop p@5 csls\n";
     ist_thresholds *t;
     ist_error err;
     char buf[600];
@@ -377,12 +386,12 @@ test_verdict_logic(void **state)
     ist_result *far = synthetic(400, 360, "0000000000000001", true);    /* 0.90 */
     ist_result *other = synthetic(400, 300, "0000000000000002", true);
     ist_result *bare = synthetic(400, 300, "0000000000000001", false);
-    static const char rules[] = "min precision@1 csls refined 0.75\n"    /* equal: pass */
-                                "min precision@1 csls 0.76\n"            /* fail */
-                                "max precision@5 csls 0.70\n"            /* 0.75 > 0.70: fail */
+    static const char rules[] = "min p@1 csls refined 0.75\n"    /* equal: pass */
+                                "min p@1 csls 0.76\n"            /* fail */
+                                "max p@5 csls 0.70\n"            /* 0.75 > 0.70: fail */
                                 "min coverage 0.9\n"                     /* pass */
-                                "min precision@1 csls band 1+ 0.7\n"     /* pass */
-                                "max drop precision@1 csls 0.03\n";
+                                "min p@1 csls band 1+ 0.7\n"     /* pass */
+                                "max drop p@1 csls 0.03\n";
 
     /* without a baseline the drop rule is not checked */
     ist_verdict *v = evaluate(rules, res, NULL, IST_OK, NULL);
@@ -401,29 +410,32 @@ test_verdict_logic(void **state)
     assert_string_equal(c->run, "refined csls");
     char line[512];
     ist_verdict_line(v, 1, line, sizeof line);
-    if (!strstr(line, "FAIL  rules.txt:2  min precision@1 csls 0.76: 0.750 ["))
+    if (!strstr(line, "FAIL  rules.txt:2  min p@1 csls 0.76: 75.0% [") ||
+        !strstr(line, "(refined csls); bound >= 76.0%"))
         fail_msg("line: %s", line);
     ist_verdict_free(v);
 
     /* A drop of 0.025 over 10 discordant queries of 400: the paired interval is about
      * -0.025 +- 0.015 (binomial, as in test_bootstrap_paired), so it straddles -0.03 and
      * the rule passes; a drop of 0.15 lies wholly below and fails. */
-    v = evaluate("max drop precision@1 csls 0.03\n", res, base, IST_OK, NULL);
+    v = evaluate("max drop p@1 csls 0.03\n", res, base, IST_OK, NULL);
     c = ist_verdict_check(v, 0);
     assert_true(fabs(c->figure + 0.025) < 1e-12);
     assert_true(c->lo < -0.03 && c->hi > -0.03);
     assert_int_equal(c->outcome, IST_GATE_PASS);
     assert_true(fabs(c->new_value - 0.75) < 1e-12 && fabs(c->baseline_value - 0.775) < 1e-12);
     ist_verdict_free(v);
-    v = evaluate("max drop precision@1 csls 0.03\n", res, far, IST_OK, NULL);
+    v = evaluate("max drop p@1 csls 0.03\n", res, far, IST_OK, NULL);
     c = ist_verdict_check(v, 0);
     assert_true(c->hi < -0.03);
     assert_int_equal(c->outcome, IST_GATE_FAIL);
     ist_verdict_line(v, 0, line, sizeof line);
-    assert_non_null(strstr(line, "change -0.150 ["));
+    if (!strstr(line, "change -15.0 points [") || !strstr(line, "(75.0% vs baseline 90.0%") ||
+        !strstr(line, "wholly below -3.0 points"))
+        fail_msg("line: %s", line);
     ist_verdict_free(v);
     /* identical results: change 0, interval [0, 0] */
-    v = evaluate("max drop precision@1 csls 0\n", res, res, IST_OK, NULL);
+    v = evaluate("max drop p@1 csls 0\n", res, res, IST_OK, NULL);
     c = ist_verdict_check(v, 0);
     assert_true(c->figure == 0 && c->lo == 0 && c->hi == 0);
     assert_int_equal(c->outcome, IST_GATE_PASS);
@@ -431,9 +443,9 @@ test_verdict_logic(void **state)
 
     /* refusals */
     evaluate("min coverage 0.5\n", res, other, IST_ERR_INVALID, "different test lists");
-    evaluate("max drop precision@1 csls 0.03\n", bare, base, IST_ERR_INVALID, "no per_query");
-    evaluate("min precision@1 cosine 0.5\n", res, NULL, IST_ERR_INVALID, "no run");
-    evaluate("min precision@1 csls band 1-5000 0.5\n", res, NULL, IST_ERR_INVALID,
+    evaluate("max drop p@1 csls 0.03\n", bare, base, IST_ERR_INVALID, "no per_query");
+    evaluate("min p@1 cosine 0.5\n", res, NULL, IST_ERR_INVALID, "no run");
+    evaluate("min p@1 csls band 1-5000 0.5\n", res, NULL, IST_ERR_INVALID,
              "no band 1-5000");
     ist_result_free(res);
     ist_result_free(base);
@@ -448,7 +460,7 @@ test_verdict_json(void **state)
     (void)state;
     char *dir = harness_tmpdir(), *path = harness_path(dir, "verdict.json");
     ist_result *res = synthetic(100, 80, "0000000000000001", true);
-    ist_verdict *v = evaluate("min precision@1 csls 0.9\nmax drop precision@1 csls 0.1\n", res,
+    ist_verdict *v = evaluate("min p@1 csls 0.9\nmax drop p@1 csls 0.1\n", res,
                               NULL, IST_OK, NULL);
     ist_jv *root;
     ist_error err;
@@ -486,8 +498,8 @@ static const char *fault_new, *fault_old, *fault_out;
 static ist_status
 gate_once(void)
 {
-    static const char rules[] = "min precision@1 csls 0.5\nmin coverage 0.5\n"
-                                "max drop precision@1 csls 0.03\n";
+    static const char rules[] = "min p@1 csls 0.5\nmin coverage 0.5\n"
+                                "max drop p@1 csls 0.03\n";
     ist_thresholds *t = NULL;
     ist_result *a = NULL, *b = NULL;
     ist_verdict *v = NULL;

@@ -64,7 +64,7 @@ main(int argc, char **argv)
             rc = fail(&err);
             goto done;
         }
-        printf("%-6s P@1 %5.1f%% of %zu test words (%zu hits)\n", ist_retrieval_name(eo.method),
+        printf("%-6s p@1 %5.1f%% of %zu test words (%zu hits)\n", ist_retrieval_name(eo.method),
                100 * res.p[0], res.queries, res.hits[0]);
         ist_metrics_release(&res);
     }

@@ -15,7 +15,7 @@
 #define MAX_WORDS 12
 #define MAX_LINE 4096
 
-static const char figure_help[] = "precision@1, precision@5, precision@10, coverage or drop";
+static const char figure_help[] = "p@1, p@5, p@10, coverage or drop";
 static const char selector_help[] = "cosine, csls, procrustes, refined, band or the bound";
 
 void
@@ -42,18 +42,23 @@ ist_thresholds_rule(const ist_thresholds *t, size_t i)
     return i < t->n ? &t->rules[i] : NULL;
 }
 
-/* "precision@K" with K one of the reported k; 0 when word is not one. */
+/* "p@K" (the spelling of the tables, the JSON and the report) with K one of the reported
+ * k; "precision@K", the spelling of files written before 2026-12-03, is read too. 0 when
+ * word is neither. */
 static size_t
 precision_k(const char *word)
 {
-    static const char pre[] = "precision@";
-    if (strncmp(word, pre, sizeof pre - 1) != 0)
-        return 0;
-    for (size_t j = 0; j < IST_METRICS_NK; j++) {
-        char buf[24];
-        snprintf(buf, sizeof buf, "%s%zu", pre, ist_metrics_k(j));
-        if (strcmp(word, buf) == 0)
-            return ist_metrics_k(j);
+    static const char *const pre[] = {"p@", "precision@"};
+    for (size_t i = 0; i < sizeof pre / sizeof pre[0]; i++) {
+        size_t len = strlen(pre[i]);
+        if (strncmp(word, pre[i], len) != 0)
+            continue;
+        for (size_t j = 0; j < IST_METRICS_NK; j++) {
+            char buf[24];
+            snprintf(buf, sizeof buf, "%zu", ist_metrics_k(j));
+            if (strcmp(word + len, buf) == 0)
+                return ist_metrics_k(j);
+        }
     }
     return 0;
 }
@@ -179,7 +184,7 @@ check_rule(const ctx *c, const ist_gate_rule *r)
 {
     if (r->figure != IST_GATE_COVERAGE && r->retrieval < 0)
         return ist_error_at(c->err, IST_ERR_FORMAT, c->name, c->line,
-                            "expected the retrieval method (cosine or csls) of precision@%zu",
+                            "expected the retrieval method (cosine or csls) of p@%zu",
                             r->k);
     if (r->figure != IST_GATE_PRECISION && r->has_band)
         return ist_error_at(c->err, IST_ERR_FORMAT, c->name, c->line,
@@ -237,7 +242,7 @@ parse_line(const ctx *c, char *line, ist_gate_rule *r, bool *has_rule)
         if (r->bound_kind != IST_GATE_MAX)
             return bad(c, "'max drop' (a drop rule bounds the largest drop)", "min drop");
         if (n < 3 || (r->k = precision_k(w[2])) == 0)
-            return bad(c, "precision@1, precision@5 or precision@10 after 'drop'",
+            return bad(c, "p@1, p@5 or p@10 after 'drop'",
                        n < 3 ? NULL : w[2]);
         at = 2;
     } else {
@@ -245,7 +250,7 @@ parse_line(const ctx *c, char *line, ist_gate_rule *r, bool *has_rule)
     }
     at++;
     if (n <= at || !parse_bound(w[n - 1], &r->bound))
-        return bad(c, "a bound between 0 and 1 (or 0% to 100%) at the end of the rule",
+        return bad(c, "a bound from 0% to 100% (or a fraction from 0 to 1) at the end of the rule",
                    n <= at ? NULL : w[n - 1]);
     if ((rc = parse_selectors(c, w + at, n - 1 - at, r)) != IST_OK)
         return rc;

@@ -54,10 +54,12 @@ figure_name(const ist_gate_rule *r, char *buf, size_t cap)
         return "leakage";
     if (r->figure == IST_GATE_UNCHECKED)
         return "unchecked rules";
-    snprintf(buf, cap, "%sprecision@%zu", r->figure == IST_GATE_DROP ? "drop " : "", r->k);
+    snprintf(buf, cap, "%sp@%zu", r->figure == IST_GATE_DROP ? "drop " : "", r->k);
     return buf;
 }
 
+/* For people: figures in percent with the sign and one decimal, the interval beside in
+ * the same unit; a change (new - baseline) in percentage points. The JSON keeps fractions. */
 void
 ist_verdict_line(const ist_verdict *v, size_t i, char *buf, size_t cap)
 {
@@ -66,19 +68,20 @@ ist_verdict_line(const ist_verdict *v, size_t i, char *buf, size_t cap)
     char detail[256], iv[64] = "";
 
     if (c->has_interval)
-        snprintf(iv, sizeof iv, " [%.3f, %.3f]", c->lo, c->hi);
+        snprintf(iv, sizeof iv, " [%.1f, %.1f]", 100 * c->lo, 100 * c->hi);
     if (c->outcome == IST_GATE_SKIP)
         snprintf(detail, sizeof detail, "not checked: %s", c->note);
     else if (r->figure == IST_GATE_LEAKAGE || r->figure == IST_GATE_UNCHECKED)
         snprintf(detail, sizeof detail, "%s", c->note);
     else if (r->figure == IST_GATE_DROP)
         snprintf(detail, sizeof detail,
-                 "change %+.3f%s (%.3f vs baseline %.3f, %s); fails when the interval lies "
-                 "wholly below %.3f",
-                 c->figure, iv, c->new_value, c->baseline_value, c->run, -r->bound);
+                 "change %+.1f points%s (%.1f%% vs baseline %.1f%%, %s); fails when the "
+                 "interval lies wholly below %+.1f points",
+                 100 * c->figure, iv, 100 * c->new_value, 100 * c->baseline_value, c->run,
+                 -100 * r->bound);
     else
-        snprintf(detail, sizeof detail, "%.3f%s (%s); bound %s %.3f", c->figure, iv, c->run,
-                 r->bound_kind == IST_GATE_MIN ? ">=" : "<=", r->bound);
+        snprintf(detail, sizeof detail, "%.1f%%%s (%s); bound %s %.1f%%", 100 * c->figure, iv,
+                 c->run, r->bound_kind == IST_GATE_MIN ? ">=" : "<=", 100 * r->bound);
     snprintf(buf, cap, "%-4s  %s:%zu  %s: %s", c->outcome == IST_GATE_FAIL ? "FAIL"
                                                 : outcome_name(c->outcome),
              v->rules_name, r->line, r->text, detail);

@@ -10,9 +10,9 @@
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 
 static const char rules_text[] =
-    "min precision@1 csls refined 0.5\n"
+    "min p@1 csls refined 0.5\n"
     "min coverage 0.9\n"
-    "max drop precision@1 csls refined 0.03\n";
+    "max drop p@1 csls refined 0.03\n";
 
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)

@@ -159,7 +159,7 @@ out = p.stdout
 print("# fit_and_score output:")
 for line in out.splitlines():
     print("#   " + line)
-check(p.returncode == 0 and re.search(r"^csls +P@1 ", out, re.M), "the example runs", p.stderr)
+check(p.returncode == 0 and re.search(r"^csls +p@1 ", out, re.M), "the example runs", p.stderr)
 p2 = sh(["ldd", "./fit_and_score"], env=run_env, cwd=ex)
 check(so + "." + major in p2.stdout.replace(os.path.realpath(lib), lib) or
       (lib + "/libisthmus.so." + major) in p2.stdout,
@@ -169,12 +169,12 @@ sc = sh([prog, "score", "src.isv", "tgt.isv", "--map=m.map", "--test=test.pairs"
 want = {}
 for line in sc.splitlines():
     f = line.split()
-    if len(f) == 7 and f[0] == "refined" and f[3].endswith("%"):
-        want[f[1]] = (f[4], f[2])
+    if len(f) >= 7 and f[0] == "refined" and f[3].endswith("%"):
+        want[f[1]] = (f[4].rstrip("%"), f[2])
 got = dict((m.group(1), (m.group(2), m.group(3))) for m in
-           re.finditer(r"^(\w+) +P@1 +([\d.]+)% of (\d+) test words", out, re.M))
+           re.finditer(r"^(\w+) +p@1 +([\d.]+)% of (\d+) test words", out, re.M))
 check(want and got == want and 0 < float(want["csls"][0]) < 100,
-      "its P@1 under cosine and CSLS is what 'isthmus align' then 'isthmus score' print: %s"
+      "its p@1 under cosine and CSLS is what 'isthmus align' then 'isthmus score' print: %s"
       % want, "example %s\nscore %s\n%s" % (got, want, sc))
 
 # --- exported symbols ------------------------------------------------------------------

@@ -181,12 +181,13 @@ check(np.array_equal(r1.W, isthmus.read_map("cli0.map").W) and not r1.rounds,
 # --- score ---------------------------------------------------------------------------------
 out = run("score", "en.isv", "es.isv", "--map=cli.map", "--test=" + test, "--stage=both",
           "--json-out=cli-result.json").stdout
-table = [f for f in (ln.split() for ln in out.splitlines())
-         if len(f) == 7 and f[0] in ("procrustes", "refined") and f[3].endswith("%")]
+# a row: map, retrieval, queries, coverage, then each p@k in percent with its interval beside
+table = [f[:4] + [t for t in f[4:] if t.endswith("%")] for f in (ln.split() for ln in out.splitlines())
+         if len(f) >= 7 and f[0] in ("procrustes", "refined") and f[3].endswith("%")]
 res = lib.score("en.isv", "es.isv", "cli.map", test, stage="both", diagnostics=True,
                 json_out="py-result.json")
 have = [[r.label, r.retrieval, str(r.queries), "%.1f%%" % (100 * r.coverage)] +
-        ["%.1f" % (100 * r.precision[k]) for k in (1, 5, 10)] for r in res.runs]
+        ["%.1f%%" % (100 * r.precision[k]) for k in (1, 5, 10)] for r in res.runs]
 check(len(table) == 4 and have == table,
       "score through ctypes: P@1/5/10 by cosine and CSLS, both stages, as the program "
       "printed them", "printed %s\nctypes  %s" % (table, have))
@@ -205,13 +206,14 @@ check([r.precision for r in mine.runs] == [r.precision for r in res.runs[2:]] an
       "the Map align() returned scores as its file does (stage final by default)")
 out = run("score", "en.isv", "es.isv", "--map=cli.map", "--test=" + test, "--rank-by=cosine",
           "--bands=100,1000", "--csls-k=5").stdout
-bands = [f for f in (ln.split() for ln in out.splitlines())
-         if len(f) == 7 and f[:2] == ["refined", "cosine"] and
+bands = [f[:4] + [t for t in f[4:] if t.endswith("%")]
+         for f in (ln.split() for ln in out.splitlines())
+         if len(f) >= 7 and f[:2] == ["refined", "cosine"] and
          re.fullmatch(r"\d+(-\d+|\+)", f[2])]
 r = lib.score("en.isv", "es.isv", "cli.map", test, rank_by="cosine", bands=[100, 1000],
               csls_k=5)
 mine = [["refined", "cosine", "%d-%s" % (bd.rank_from, bd.rank_to) if bd.rank_to else
-         "%d+" % bd.rank_from, str(bd.queries)] + ["%.1f" % (100 * bd.precision[k])
+         "%d+" % bd.rank_from, str(bd.queries)] + ["%.1f%%" % (100 * bd.precision[k])
                                                    for k in (1, 5, 10)]
         for bd in r.runs[0].bands if bd.queries]
 check(len(r.runs) == 1 and mine == bands and len(bands) == 3,

@@ -174,15 +174,16 @@ res = isthmus.read_result(os.path.join(work, "result.json"))
 table = []
 for line in out.splitlines():
     f = line.split()
-    if len(f) == 7 and f[0] in ("procrustes", "refined") and f[3].endswith("%"):
+    # map, retrieval, queries, coverage, then each p@k as "86.6% [83.2, 90.0]"
+    if len(f) == 13 and f[0] in ("procrustes", "refined") and f[3].endswith("%"):
         table.append(f)
 check(len(table) == len(res.runs) == 4, "one printed line per run (%d)" % len(table))
 agree = True
 for f, r in zip(table, res.runs):
-    want = (f[0], f[1], int(f[2]), f[3], f[4], f[5], f[6])
-    have = (r.label, r.retrieval, r.queries, "%.1f%%" % (100 * r.coverage),
-            "%.1f" % (100 * r.precision[1]), "%.1f" % (100 * r.precision[5]),
-            "%.1f" % (100 * r.precision[10]))
+    want = (f[0], f[1], int(f[2]), f[3]) + tuple(" ".join(f[i:i + 3]) for i in (4, 7, 10))
+    have = (r.label, r.retrieval, r.queries, "%.1f%%" % (100 * r.coverage)) + tuple(
+        "%.1f%% [%.1f, %.1f]" % (100 * r.precision[k], 100 * r.ci.bounds[k][0],
+                                 100 * r.ci.bounds[k][1]) for k in (1, 5, 10))
     if want != have:
         agree = False
         print("# printed %s, read %s" % (want, have))
@@ -197,8 +198,8 @@ check(hits == csls.hits[1], "per-query places add up to the hits at 1 (%d)" % hi
 
 # --- verdict --------------------------------------------------------------------------
 with open(os.path.join(work, "syn.thresholds"), "w") as f:
-    f.write("min precision@1 csls refined 0.10\nmin coverage 0.5\n"
-            "min precision@10 cosine 0.999\nmax drop precision@1 csls 0.02\n")
+    f.write("min p@1 csls refined 0.10\nmin coverage 0.5\n"
+            "min p@10 cosine 0.999\nmax drop p@1 csls 0.02\n")
 g = run("gate", "--thresholds=syn.thresholds", "--verdict-out=verdict.json", "result.json",
         ok=(3,)).stdout
 ver = isthmus.read_verdict(os.path.join(work, "verdict.json"))
@@ -228,7 +229,7 @@ check(tally == [len(ver.rules), ver.rules_failed, ver.rules_skipped, 0] and
       xroot.get("failures") == suites[0].get("failures"),
       "the testsuite counts agree with the verdict %s" % tally)
 fail = [c for c in cases_xml if c.find("failure") is not None][0].find("failure")
-check("0.999" in fail.get("message") and "%.3f" % ver.rules[2].figure in fail.get("message"),
+check("99.9%" in fail.get("message") and "%.1f%%" % (100 * ver.rules[2].figure) in fail.get("message"),
       "the failure message gives the figure and the bound", fail.get("message"))
 
 # --- the pipeline step of docs/ci.md, as printed there ---------------------------------

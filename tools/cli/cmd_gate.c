@@ -172,8 +172,9 @@ report(const args *a, const ist_verdict *v)
     }
     bool ok = ist_verdict_passed(v);
     const char *cond = ist_verdict_condition(v, 0);
-    printf("gate: %s%s (%zu rules: %zu passed, %zu failed, %zu not checked", ok ? "PASS" : "FAIL",
-           ok && cond ? " with conditions" : "", ist_verdict_count(v),
+    size_t n = ist_verdict_count(v);
+    printf("gate: %s%s (%zu rule%s: %zu passed, %zu failed, %zu not checked", ok ? "PASS" : "FAIL",
+           ok && cond ? " with conditions" : "", n, n == 1 ? "" : "s",
            ist_verdict_tally(v, IST_GATE_PASS),
            ist_verdict_tally(v, IST_GATE_FAIL), ist_verdict_tally(v, IST_GATE_SKIP));
     printf(")\n");

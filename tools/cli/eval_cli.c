@@ -247,80 +247,89 @@ band_name(const ist_band *b, char *buf, size_t cap)
         snprintf(buf, cap, "%zu+", b->lo);
 }
 
+/* One figure for people: percent with the sign and one decimal, the interval beside it
+ * in the same unit when there is one ("86.6% [83.2, 90.0]"). */
 static void
-print_interval_row(const char *label, const ist_metrics *m, const char *band, const double *p,
-                   const double *lo, const double *hi)
+figure_cell(double p, bool has_ci, double lo, double hi, char *buf, size_t cap)
 {
-    printf("%-12s %-9s %-14s", label, ist_retrieval_name(m->method), band);
-    for (size_t j = 0; j < IST_METRICS_NK; j++) {
-        char cell[64];
-        snprintf(cell, sizeof cell, "%5.1f [%.1f, %.1f]", 100 * p[j], 100 * lo[j], 100 * hi[j]);
-        printf(j + 1 < IST_METRICS_NK ? " %-20s" : " %s", cell);
-    }
-    printf("\n");
+    if (has_ci)
+        snprintf(buf, cap, "%.1f%% [%.1f, %.1f]", 100 * p, 100 * lo, 100 * hi);
+    else
+        snprintf(buf, cap, "%.1f%%", 100 * p);
 }
 
-/* The bootstrap intervals of every figure (the same ones the result records). */
+/* Columns as wide as a cell with its interval when any run has intervals. */
 static void
-print_intervals(const ist_result *res)
+print_figures(const double *p, bool has_ci, const double *lo, const double *hi, int width)
 {
-    const ist_result_run *first = NULL;
+    for (size_t j = 0; j < IST_METRICS_NK; j++) {
+        char cell[64];
+        figure_cell(p[j], has_ci, has_ci ? lo[j] : 0, has_ci ? hi[j] : 0, cell, sizeof cell);
+        if (j + 1 < IST_METRICS_NK)
+            printf("  %-*s", width, cell);
+        else
+            printf("  %s\n", cell);
+    }
+}
 
-    for (size_t i = 0; i < res->nruns && !first; i++)
-        if (res->runs[i].has_ci)
-            first = &res->runs[i];
-    if (!first)
-        return;
-    printf("\n%.0f%% intervals (percentile bootstrap, %zu resamples of the queries, seed %llu)\n",
-           100 * first->ci_opts.level, first->ci_opts.resamples,
-           (unsigned long long)first->ci_opts.seed);
-    printf("%-12s %-9s %-14s %-20s %-20s %s\n", "map", "retrieval", "frequency rank", "  P@1",
-           "  P@5", "  P@10");
-    for (size_t i = 0; i < res->nruns; i++) {
-        const ist_result_run *run = &res->runs[i];
-        const ist_metrics *m = &run->m;
-        if (!run->has_ci)
-            continue;   /* no per-query outcomes kept */
-        print_interval_row(run->label, m, "all", m->p, run->ci.lo, run->ci.hi);
-        for (size_t b = 0; b < m->nbands; b++) {
-            char name[48];
-            if (m->band[b].queries == 0 || !run->band_has_ci[b])
-                continue;
-            band_name(&m->band[b], name, sizeof name);
-            print_interval_row(run->label, m, name, m->band[b].p, run->ci.band_lo[b],
-                               run->ci.band_hi[b]);
-        }
+static void
+print_figure_heads(int width)
+{
+    for (size_t j = 0; j < IST_METRICS_NK; j++) {
+        char head[16];
+        snprintf(head, sizeof head, "p@%zu", ist_metrics_k(j));
+        if (j + 1 < IST_METRICS_NK)
+            printf("  %-*s", width, head);
+        else
+            printf("  %s\n", head);
     }
 }
 
 void
 ev_print_runs(const ist_result *res)
 {
-    printf("\n%-12s %-9s %8s %9s %7s %7s %7s\n", "map", "retrieval", "queries", "coverage",
-           "P@1", "P@5", "P@10");
+    const ist_result_run *with_ci = NULL;
+    bool all_ci = res->nruns > 0;
+
     for (size_t i = 0; i < res->nruns; i++) {
-        const ist_metrics *m = &res->runs[i].m;
-        printf("%-12s %-9s %8zu %8.1f%% %7.1f %7.1f %7.1f\n", res->runs[i].label,
-               ist_retrieval_name(m->method), m->queries, 100 * m->coverage, 100 * m->p[0],
-               100 * m->p[1], 100 * m->p[2]);
+        if (res->runs[i].has_ci && !with_ci)
+            with_ci = &res->runs[i];
+        all_ci = all_ci && res->runs[i].has_ci;
     }
-    printf("\n%-12s %-9s %-14s %8s %7s %7s %7s\n", "map", "retrieval", "frequency rank",
-           "queries", "P@1", "P@5", "P@10");
+    bool ci = with_ci != NULL;
+    int width = ci ? 21 : 6;
+    printf("\n%-12s %-9s %8s %9s", "map", "retrieval", "queries", "coverage");
+    print_figure_heads(width);
     for (size_t i = 0; i < res->nruns; i++) {
-        const ist_metrics *m = &res->runs[i].m;
+        const ist_result_run *run = &res->runs[i];
+        const ist_metrics *m = &run->m;
+        printf("%-12s %-9s %8zu %8.1f%%", run->label, ist_retrieval_name(m->method), m->queries,
+               100 * m->coverage);
+        print_figures(m->p, run->has_ci, run->ci.lo, run->ci.hi, width);
+    }
+    printf("\n%-12s %-9s %-14s %8s", "map", "retrieval", "frequency rank", "queries");
+    print_figure_heads(width);
+    for (size_t i = 0; i < res->nruns; i++) {
+        const ist_result_run *run = &res->runs[i];
+        const ist_metrics *m = &run->m;
         for (size_t b = 0; b < m->nbands; b++) {
             char name[48];
             band_name(&m->band[b], name, sizeof name);
             if (m->band[b].queries == 0)
                 continue;   /* the JSON result lists every band */
-            printf("%-12s %-9s %-14s %8zu %7.1f %7.1f %7.1f\n", res->runs[i].label,
-                   ist_retrieval_name(m->method), name, m->band[b].queries,
-                   100 * m->band[b].p[0], 100 * m->band[b].p[1], 100 * m->band[b].p[2]);
+            bool has = run->has_ci && run->band_has_ci[b];
+            printf("%-12s %-9s %-14s %8zu", run->label, ist_retrieval_name(m->method), name,
+                   m->band[b].queries);
+            print_figures(m->band[b].p, has, run->ci.band_lo[b], run->ci.band_hi[b], width);
         }
     }
-    print_intervals(res);
-    printf("(precision in percent over covered queries; a query is right at k when any of\n"
-           " its gold targets is among its k best targets)\n");
+    printf("\n(p@k: the share of covered queries with a gold target among their k best targets");
+    if (ci)
+        printf(";\n [lo, hi]: %.0f%% interval, percentile bootstrap over the queries, %zu "
+               "resamples, seed %llu%s", 100 * with_ci->ci_opts.level, with_ci->ci_opts.resamples,
+               (unsigned long long)with_ci->ci_opts.seed,
+               all_ci ? "" : "; none where no per-query outcomes were kept");
+    printf(")\n");
 }
 
 void

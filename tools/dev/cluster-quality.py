@@ -26,7 +26,7 @@ MPI_ENV = {
     "OMPI_MCA_rmaps_base_oversubscribe": "1", "OMPI_MCA_hwloc_base_binding_policy": "none",
     "OMPI_MCA_mpi_yield_when_idle": "1",
 }
-RULES = "max drop precision@1 csls refined 1.0\n"   # never fails: we read the interval
+RULES = "max drop p@1 csls refined 1.0\n"   # never fails: we read the interval
 
 
 def run(cmd, env=None):

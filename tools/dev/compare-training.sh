@@ -13,7 +13,7 @@ a=$1 b=$2 data=$3 work=$4
 shift 4
 seeds=${*:-1 2 3}
 mkdir -p "$work"
-printf 'max drop precision@1 csls refined 0.05\n' > "$work/drop.thresholds"
+printf 'max drop p@1 csls refined 0.05\n' > "$work/drop.thresholds"
 for lang in en es; do
     [ -s "$work/$lang.prep" ] || "$a" -q prepare -o "$work/$lang.prep" "$data/$lang.txt" > /dev/null
 done
