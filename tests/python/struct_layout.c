@@ -31,6 +31,9 @@ main(void)
     AT(ist_align_opts, refine_keep_seeds); AT(ist_align_opts, min_gain);
     AT(ist_align_opts, min_seed_pairs); AT(ist_align_opts, search);
     AT(ist_align_opts, on_round); AT(ist_align_opts, ctx);
+    SIZE(ist_align_round);
+    AT(ist_align_round, round); AT(ist_align_round, pairs); AT(ist_align_round, mean_csls);
+    AT(ist_align_round, seed_cos); AT(ist_align_round, orth_error); AT(ist_align_round, kept);
     SIZE(ist_eval_opts);
     AT(ist_eval_opts, method); AT(ist_eval_opts, band_edges); AT(ist_eval_opts, nedges);
     AT(ist_eval_opts, bands_auto); AT(ist_eval_opts, keep_queries); AT(ist_eval_opts, search);
@@ -60,8 +63,8 @@ main(void)
     AT(ist_word_filter, numbers); AT(ist_word_filter, min_score);
     AT(ist_word_filter, stop_share); AT(ist_word_filter, variants);
     /* the status codes the package maps to its exceptions */
-    printf("IST_OK %d\nIST_ERR_FORMAT %d\nIST_ERR_INVALID %d\n", (int)IST_OK,
-           (int)IST_ERR_FORMAT, (int)IST_ERR_INVALID);
+    printf("IST_OK %d\nIST_ERR_FORMAT %d\nIST_ERR_INVALID %d\nIST_ERR_CANCELLED %d\n",
+           (int)IST_OK, (int)IST_ERR_FORMAT, (int)IST_ERR_INVALID, (int)IST_ERR_CANCELLED);
     printf("IST_METRICS_MAX_BANDS %d\nIST_FILTER_SHAPE %d\nIST_SHAPE_WORD %d\n",
            IST_METRICS_MAX_BANDS, (int)IST_FILTER_SHAPE, (int)IST_SHAPE_WORD);
     printf("IST_RESULT_COSINE %d\nIST_RESULT_CSLS %d\nIST_STAGE_SEED %d\nIST_STAGE_FINAL %d\n",

@@ -18,12 +18,14 @@ stays on (as the environment sets it), with two frames kept per allocation so th
 tests/python/lsan-python.supp can pass over what the interpreter and numpy hold at exit by
 the allocating module alone: a handle of the library that the package forgets to release
 is still a leak. When the runtime cannot be preloaded the test is skipped (exit 77)."""
+import _thread
 import ctypes
 import os
 import re
 import shutil
 import subprocess
 import sys
+import time
 
 try:
     import numpy as np
@@ -120,6 +122,15 @@ check(isinstance(e, isthmus.LibraryNotFound) and "ISTHMUS_LIBRARY" in str(e) and
 e = raised(native.load, os.path.join(work, "no-such-libisthmus.so"))
 check(isinstance(e, isthmus.LibraryNotFound) and "no-such-libisthmus.so" in str(e) and
       "ISTHMUS_LIBRARY" in str(e), "a wrong path names itself and the way out", e)
+probe = ("import sys; sys.path.insert(0, sys.argv[1]); from isthmus import native; "
+         "print(native.load().version)")
+env = {k: v for k, v in os.environ.items() if k != "ISTHMUS_LIBRARY"}
+env["LD_LIBRARY_PATH"] = os.path.dirname(lib_path)
+p = subprocess.run([sys.executable, "-c", probe, os.path.join(root, "tools", "python")],
+                   capture_output=True, text=True, env=env)
+check(p.returncode == 0 and re.fullmatch(r"\d+\.\d+\.\d+\n", p.stdout),
+      "without ISTHMUS_LIBRARY the library is found by name where the linker looks "
+      "(ctypes.util.find_library, here through LD_LIBRARY_PATH)", p.stdout + p.stderr)
 lib = native.load()
 check(lib.path == lib_path and re.fullmatch(r"\d+\.\d+\.\d+", lib.version),
       "the library is found through ISTHMUS_LIBRARY (%s)" % lib)
@@ -173,6 +184,42 @@ with open(seeds, encoding="utf-8") as f:
 fromlist = lib.align("en.isv", "es.isv", listed)
 check(np.array_equal(fromlist.W, cli_map.W), "seed pairs given as a Python list give the "
       "same map as the file (%d pairs)" % len(listed))
+seen = []
+lib.align("en.isv", "es.isv", seeds, on_round=seen.append)
+check(seen == cli_map.rounds, "on_round reports each refinement round as the map records "
+      "it (%d rounds)" % len(seen), "%s\n%s" % (seen, cli_map.rounds))
+one, two = (lib.align("en.isv", "es.isv", seeds, threads=n) for n in (1, 2))
+check(np.array_equal(one.W, two.W) and np.array_equal(one.W, cli_map.W),
+      "threads=1 and threads=2 fit the same map bitwise")
+
+
+def stop_after_first_round(r):
+    """Ctrl-C while the library refines: then wait until the main thread has passed the
+    stop on to the library, so that the next round's search sees it."""
+    seen.append(r)
+    if len(seen) == 1:
+        _thread.interrupt_main()
+        for _ in range(3000):
+            if lib._lib.ist_cancel_requested():
+                break
+            time.sleep(0.01)
+
+
+seen = []
+try:
+    lib.align("en.isv", "es.isv", seeds, output="stopped.map", mapped_out="stopped.isv",
+              on_round=stop_after_first_round)
+    stopped = "no KeyboardInterrupt"
+except KeyboardInterrupt as e:
+    stopped = str(e)
+left = [f for f in os.listdir(".") if f.startswith((".stopped", "stopped"))]
+check("the library stopped" in stopped and len(seen) == 1 and not left,
+      "Ctrl-C during align reaches the library: it stops after the round under way, "
+      "KeyboardInterrupt, no file and no temporary left", "%s; rounds %d; %s"
+      % (stopped, len(seen), left))
+check(not lib._lib.ist_cancel_requested() and
+      np.array_equal(lib.align("en.isv", "es.isv", seeds).W, cli_map.W),
+      "the stop is cleared: the next call fits the whole map again")
 r1 = lib.align("en.isv", "es.isv", seeds, refine_rounds=0)
 run("align", "en.isv", "es.isv", "--seeds=" + seeds, "--refine-rounds=0", "-o", "cli0.map")
 check(np.array_equal(r1.W, isthmus.read_map("cli0.map").W) and not r1.rounds,
@@ -197,6 +244,9 @@ check(res.data == cli_res.data and res.data["diagnostics"],
       "per-query places, diagnostics, inputs")
 check(open("py-result.json", "rb").read() == open("cli-result.json", "rb").read(),
       "json_out writes the file the program writes, byte for byte")
+check(lib.score("en.isv", "es.isv", "cli.map", test, threads=1, stage="both").runs ==
+      lib.score("en.isv", "es.isv", "cli.map", test, threads=2, stage="both").runs,
+      "threads=1 and threads=2 score the same, per-query places and intervals included")
 csls = res.run("csls")
 print("# refined csls: %d queries, P@1 %.3f, P@5 %.3f, P@10 %.3f" % (
     csls.queries, csls.precision[1], csls.precision[5], csls.precision[10]))

@@ -33,6 +33,7 @@ import ctypes.util
 import json
 import os
 import tempfile
+import threading
 import weakref
 
 import numpy as np
@@ -44,7 +45,7 @@ from .records import result_from_json
 ENV_VAR = "ISTHMUS_LIBRARY"
 
 # ist_status (include/isthmus/error.h)
-IST_OK, IST_ERR_FORMAT, IST_ERR_INVALID = 0, 3, 4
+IST_OK, IST_ERR_FORMAT, IST_ERR_INVALID, IST_ERR_CANCELLED = 0, 3, 4, 6
 _CLASS_OF = {IST_ERR_FORMAT: FormatError, IST_ERR_INVALID: MismatchError}
 
 _size, _u64, _bool, _int, _uint = (ctypes.c_size_t, ctypes.c_uint64, ctypes.c_bool,
@@ -76,7 +77,13 @@ class _SearchOpts(ctypes.Structure):            # ist_search_opts
     _fields_ = [("csls_k", _size), ("retrieve", _RetrieveOpts)]
 
 
-_ROUND_FN = ctypes.CFUNCTYPE(None, _ptr, _ptr)
+class _Round(ctypes.Structure):                 # ist_align_round
+    _fields_ = [("round", _size), ("pairs", _size), ("mean_csls", ctypes.c_double),
+                ("seed_cos", ctypes.c_double), ("orth_error", ctypes.c_double),
+                ("kept", _bool)]
+
+
+_ROUND_FN = ctypes.CFUNCTYPE(None, ctypes.POINTER(_Round), _ptr)
 
 
 class _AlignOpts(ctypes.Structure):             # ist_align_opts
@@ -134,12 +141,12 @@ _FILTER_SHAPE, _SHAPE_WORD = 2, 0
 # what tests/python/struct_layout.c checks against the headers
 MIRRORS = {"ist_error": _Error, "ist_cmatview": _CMatView, "ist_store_opts": _StoreOpts,
            "ist_retrieve_opts": _RetrieveOpts, "ist_search_opts": _SearchOpts,
-           "ist_align_opts": _AlignOpts, "ist_eval_opts": _EvalOpts,
+           "ist_align_opts": _AlignOpts, "ist_align_round": _Round, "ist_eval_opts": _EvalOpts,
            "ist_diag_opts": _DiagOpts, "ist_ci_opts": _CiOpts,
            "ist_evaluate_opts": _EvaluateOpts, "ist_pairs_coverage": _Coverage,
            "ist_word_filter": _WordFilter}
 CONSTANTS = {"IST_OK": IST_OK, "IST_ERR_FORMAT": IST_ERR_FORMAT,
-             "IST_ERR_INVALID": IST_ERR_INVALID, "IST_METRICS_MAX_BANDS": _MAX_BANDS,
+             "IST_ERR_INVALID": IST_ERR_INVALID, "IST_ERR_CANCELLED": IST_ERR_CANCELLED, "IST_METRICS_MAX_BANDS": _MAX_BANDS,
              "IST_FILTER_SHAPE": _FILTER_SHAPE, "IST_SHAPE_WORD": _SHAPE_WORD,
              "IST_RESULT_COSINE": _METHODS["cosine"], "IST_RESULT_CSLS": _METHODS["csls"],
              "IST_STAGE_SEED": _STAGES["seed"], "IST_STAGE_FINAL": _STAGES["final"],
@@ -150,6 +157,8 @@ CONSTANTS = {"IST_OK": IST_OK, "IST_ERR_FORMAT": IST_ERR_FORMAT,
 _P = ctypes.POINTER
 _SIGNATURES = {
     "ist_version": (_cstr, []),
+    "ist_cancel_request": (None, []),
+    "ist_cancel_reset": (None, []),
     "ist_status_name": (_cstr, [_int]),
     "ist_error_format": (_cstr, [_P(_Error), ctypes.c_char_p, _size]),
     "ist_store_opts_init": (None, [_ptr]),
@@ -194,6 +203,10 @@ _SIGNATURES = {
                                     _P(_Error)]),
     "ist_word_shape_of": (_int, [_cstr, _size]),
 }
+
+# the calls that may run long enough to be interrupted (they poll the library's stop flag)
+_LONG = {"ist_store_open", "ist_align_fit", "ist_map_apply", "ist_evaluate",
+         "ist_retrieve_rank", "ist_map_save", "ist_map_save_mapped", "ist_result_write"}
 
 _HOW_TO_POINT = ("pass its path to isthmus.native.load(PATH), set %s=/path/to/libisthmus.so, "
                  "or install it where the system's linker finds it (meson install, then "
@@ -259,8 +272,52 @@ class Library:
 
     def _call(self, name, *args):
         err = _Error()
-        if getattr(self._lib, name)(*args, ctypes.byref(err)) != IST_OK:
+        fn = getattr(self._lib, name)
+        if name in _LONG and threading.current_thread() is threading.main_thread():
+            status = self._interruptible(fn, args + (ctypes.byref(err),))
+        else:
+            status = fn(*args, ctypes.byref(err))
+        if status != IST_OK:
             self._raise(err)
+
+    def _interruptible(self, fn, args):
+        """fn(*args) in a worker thread, so that Ctrl-C (KeyboardInterrupt, which Python
+        raises only in the main thread and only between its own steps) reaches the main
+        thread while the library works: it then asks the library to stop (the library's
+        process-wide stop flag), waits for it to clean up, and raises KeyboardInterrupt."""
+        box, done = [], threading.Event()
+
+        def work():
+            try:
+                box.append((True, fn(*args)))
+            except BaseException as e:          # a ctypes argument error, say
+                box.append((False, e))
+            done.set()
+
+        self._lib.ist_cancel_reset()
+        threading.Thread(target=work, daemon=True).start()
+        try:
+            while not done.wait(0.05):
+                pass
+        except KeyboardInterrupt:
+            self._lib.ist_cancel_request()
+            # the handles the call uses are released after it, so wait for it whatever
+            # else is pressed meanwhile
+            while True:
+                try:
+                    if done.wait(0.05):
+                        break
+                except KeyboardInterrupt:
+                    pass
+            self._lib.ist_cancel_reset()
+            if box[0] == (True, IST_ERR_CANCELLED):
+                raise KeyboardInterrupt("isthmus: the library stopped and removed the "
+                                        "file it was writing, if any") from None
+            raise
+        ok, value = box[0]
+        if not ok:
+            raise value
+        return value
 
     def _init(self, struct, name):
         """struct() filled by the library's NAME(); refused when the library writes past
@@ -344,12 +401,15 @@ class Library:
     # --- the three jobs -----------------------------------------------------------------
     def align(self, src, tgt, seeds, output=None, mapped_out=None, standardise=None,
               refine_rounds=None, refine_vocab=None, refine_keep_seeds=False, min_seeds=None,
-              csls_k=None, threads=None, memory_mib=None):
+              csls_k=None, threads=None, memory_mib=None, on_round=None):
         """Fit a map from src onto tgt (vector files) on seed pairs (a pair file or a list
         of (source, target) words), refined as `isthmus align` refines it by default.
         output: write the map file there (atomically); mapped_out: also the mapped source
         vectors. Returns the Map (isthmus.read_map's object); its matrices are the ones
-        the library fitted, bit for bit, and score()/lookup() take it as it is."""
+        the library fitted, bit for bit, and score()/lookup() take it as it is.
+        on_round(dict) is called after each refinement round with the keys the map
+        records for it (round, pairs, mean_csls, mean_cosine, orthogonality_error, kept);
+        an exception it raises is printed and ignored, as ctypes does with callbacks."""
         own = []
         try:
             s, t = self._stores(own, src, tgt)
@@ -365,6 +425,15 @@ class Library:
             if min_seeds is not None:
                 ao.min_seed_pairs = min_seeds
             self._search(ao.search, csls_k, threads, memory_mib)
+            if on_round is not None:
+                def report(r, _ctx):
+                    r = r.contents
+                    def num(x):
+                        return None if x != x else x    # NaN: refit not run, as in the map
+                    on_round({"round": r.round, "pairs": r.pairs, "mean_csls": r.mean_csls,
+                              "mean_cosine": num(r.seed_cos),
+                              "orthogonality_error": num(r.orth_error), "kept": r.kept})
+                ao.on_round = _ROUND_FN(report)     # kept alive by ao until the call ends
             h = _ptr()
             self._call("ist_align_fit", s, t, p, ctypes.byref(ao), ctypes.byref(h))
             keep = [(self._lib.ist_map_free, h)]
