@@ -481,18 +481,33 @@ ist_ofile_abort(ist_ofile *f)
     release(f);
 }
 
-ist_status
-ist_ofile_write_all(const char *path, const void *buf, size_t n, ist_error *err)
+/* Write a then b (nb may be 0) to path atomically, plain. */
+static ist_status
+write_whole(const char *path, const void *a, size_t na, const void *b, size_t nb, ist_error *err)
 {
     ist_ofile *f;
     ist_status rc = ist_ofile_open(path, false, &f, err);
 
     if (rc != IST_OK)
         return rc;
-    rc = ist_ofile_write(f, buf, n, err);
+    rc = ist_ofile_write(f, a, na, err);
+    if (rc == IST_OK && nb > 0)
+        rc = ist_ofile_write(f, b, nb, err);
     if (rc != IST_OK) {
         ist_ofile_abort(f);
         return rc;
     }
     return ist_ofile_commit(f, err);
+}
+
+ist_status
+ist_ofile_write_all(const char *path, const void *buf, size_t n, ist_error *err)
+{
+    return write_whole(path, buf, n, NULL, 0, err);
+}
+
+ist_status
+ist_ofile_write_text(const char *path, const char *text, ist_error *err)
+{
+    return write_whole(path, text, strlen(text), "\n", 1, err);
 }

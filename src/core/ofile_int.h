@@ -40,4 +40,7 @@ void ist_ofile_abort(ist_ofile *f);
 /* Write a whole buffer to path atomically (plain). */
 ist_status ist_ofile_write_all(const char *path, const void *buf, size_t n, ist_error *err);
 
+/* Write a text and one closing newline to path atomically (plain): a JSON document. */
+ist_status ist_ofile_write_text(const char *path, const char *text, ist_error *err);
+
 #endif

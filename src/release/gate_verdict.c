@@ -189,17 +189,7 @@ ist_verdict_write(const ist_verdict *v, const char *path, ist_error *err)
     ist_jw_obj_end(&w);
     if ((rc = ist_jw_finish(&w, &text, err)) != IST_OK)
         return rc;
-    ist_ofile *f;
-    rc = ist_ofile_open(path, false, &f, err);
-    if (rc == IST_OK) {
-        rc = ist_ofile_write(f, text, strlen(text), err);
-        if (rc == IST_OK)
-            rc = ist_ofile_write(f, "\n", 1, err);
-        if (rc == IST_OK)
-            rc = ist_ofile_commit(f, err);
-        else
-            ist_ofile_abort(f);
-    }
+    rc = ist_ofile_write_text(path, text, err);
     ist_free(text);
     return rc;
 }
