@@ -10,10 +10,12 @@ Procrustes on the rest, refines, and scores with CSLS.
 Skips (exit 77) when the extraction script or the Debian packages are missing.
 Usage: doc_align.py ISTHMUS SOURCE-DIR WORK-DIR
 """
-import json
 import os
 import subprocess
 import sys
+
+import trained
+from trained import run, skip
 
 # Floors, measured 2026-12-02 with tools/dev/measure-defaults.py (docs/defaults.md,
 # "Count-based and combined vectors"): default settings (skip-gram + PPMI side by side), one
@@ -30,25 +32,13 @@ FLOORS = {
 }
 
 
-def skip(why):
-    print("1..0 # SKIP " + why)
-    sys.exit(77)   # the test runs with protocol exitcode: 77 = skipped
-
-
-def run(cmd, **kw):
-    print("# " + " ".join(cmd))
-    return subprocess.run(cmd, check=True, **kw)
-
-
 def main():
     isthmus, src, work = sys.argv[1:4]
     fetch = os.path.join(src, "tests", "fetch-doc-data.sh")
     if subprocess.run(["sh", fetch, "--check"], capture_output=True).returncode != 0:
         skip("Debian manual pages / FreeDict eng-deu packages not installed")
     data = os.path.join(work, "doc-data")
-    r = subprocess.run(["sh", fetch, data], capture_output=True, text=True)
-    if r.returncode != 0:
-        skip("documentation data not available: " + r.stderr.strip().replace("\n", " "))
+    trained.extract(fetch, data, "documentation data")
     for lang in ("en", "de"):
         vec = os.path.join(work, lang + "-doc.isv")
         if not os.path.exists(vec):
@@ -57,13 +47,10 @@ def main():
     checks = []
     for s, t in (("en", "de"), ("de", "en")):
         name = s + "-" + t
-        out = os.path.join(work, name + "-doc.json")
-        run([isthmus, "-q", "align", os.path.join(work, s + "-doc.isv"),
-             os.path.join(work, t + "-doc.isv"), "--seeds=" + os.path.join(data, name + ".pairs"),
-             "--hold-out=0.3333", "--split-seed=1", "--threads=1",
-             "-o", os.path.join(work, name + "-doc.map"), "--json-out=" + out],
-            stdout=subprocess.DEVNULL)
-        res = json.load(open(out))
+        res = trained.align_held_out(
+            isthmus, os.path.join(work, s + "-doc.isv"), os.path.join(work, t + "-doc.isv"),
+            os.path.join(data, name + ".pairs"), os.path.join(work, name + "-doc.map"),
+            os.path.join(work, name + "-doc.json"), "--threads=1")
         csls = [x for x in res["runs"] if x["retrieval"] == "csls"]
         for x in csls:
             print("# %s %-10s queries %d  P@1 %.1f  P@10 %.1f" % (
@@ -74,16 +61,8 @@ def main():
             floor = FLOORS[name][label]
             checks.append(("%s CSLS P@1 %s %.1f >= %.1f" % (name, label, got, floor),
                            got >= floor))
-        test = res["test"]
-        checks.append(("%s no overlap, %d test words" % (name, test["source_words"]),
-                       test["overlap_with_seeds"] == 0 and test["source_words"] > 200))
-    print("1..%d" % len(checks))
-    failed = 0
-    for i, (what, ok) in enumerate(checks, 1):
-        print("%s %d - %s" % ("ok" if ok else "not ok", i, what))
-        failed += not ok
-    print("# doc-align: %d passed, %d failed" % (len(checks) - failed, failed))
-    return 1 if failed else 0
+        checks.append(trained.no_overlap(name, res, 200))
+    return trained.report("doc-align", checks)
 
 
 if __name__ == "__main__":

@@ -22,6 +22,7 @@ import subprocess
 import sys
 
 import trained
+from trained import run, skip
 
 # Floors, measured 2026-12-01 on a 2-core machine (d100, defaults otherwise, 1 training thread):
 # first candidate gold for 360 of 441 test words (81.6%, equal to score's CSLS P@1), a gold
@@ -30,16 +31,6 @@ import trained
 # half 65.6%. The floors sit about 5 points below (441 words: a 95% interval is about +-4).
 FLOOR_TOP1 = 75.0
 FLOOR_TOP3 = 85.0
-
-
-def skip(why):
-    print("1..0 # SKIP " + why)
-    sys.exit(77)
-
-
-def run(cmd, **kw):
-    print("# " + " ".join(cmd))
-    return subprocess.run(cmd, check=True, **kw)
 
 
 def read_gold(path):
@@ -163,13 +154,7 @@ def main():
                    "kitchen" in before and "kitchen" not in srcs))
     checks.append(("no word of the excluded test list is proposed (%d were before)"
                    % len(before & set(gold)), not (srcs & set(gold)) and before & set(gold)))
-    print("1..%d" % len(checks))
-    failed = 0
-    for i, (what, ok) in enumerate(checks, 1):
-        print("%s %d - %s" % ("ok" if ok else "not ok", i, what))
-        failed += not ok
-    print("# propose-demo: %d passed, %d failed" % (len(checks) - failed, failed))
-    return 1 if failed else 0
+    return trained.report("propose-demo", checks)
 
 
 if __name__ == "__main__":

@@ -9,12 +9,12 @@ refines, and scores both maps with cosine and CSLS.
 Skips (exit 77) when the extraction script, the trainer or the Debian packages are missing.
 Usage: real_align.py ISTHMUS SOURCE-DIR WORK-DIR
 """
-import json
 import os
 import subprocess
 import sys
 
 import trained
+from trained import run, skip
 
 # Floors, measured 2026-12-01 on a 2-core machine (d300, context 10, 20 passes, 2 training
 # threads, so training is not bit-reproducible). Three runs, CSLS P@1:
@@ -28,16 +28,6 @@ FLOORS = {
 }
 
 
-def skip(why):
-    print("1..0 # SKIP " + why)
-    sys.exit(77)   # the test runs with protocol exitcode: 77 = skipped
-
-
-def run(cmd, **kw):
-    print("# " + " ".join(cmd))
-    return subprocess.run(cmd, check=True, **kw)
-
-
 def main():
     isthmus, src, work = sys.argv[1:4]
     fetch = os.path.join(src, "tests", "fetch-real-data.sh")
@@ -46,9 +36,7 @@ def main():
     if subprocess.run([isthmus, "help", "train"], capture_output=True).returncode != 0:
         skip("this isthmus has no train command")
     data = os.path.join(work, "real-data")
-    r = subprocess.run(["sh", fetch, data], capture_output=True, text=True)
-    if r.returncode != 0:
-        skip("real data not available: " + r.stderr.strip().replace("\n", " "))
+    trained.extract(fetch, data, "real data")
     tw = trained.workdir(work)
     for lang in ("en", "es"):
         vec = os.path.join(tw, lang + "-d300.isv")
@@ -59,12 +47,10 @@ def main():
     checks = []
     for s, t in (("en", "es"), ("es", "en")):
         name = s + "-" + t
-        out = os.path.join(tw, name + ".json")
-        run([isthmus, "-q", "align", os.path.join(tw, s + "-d300.isv"),
-             os.path.join(tw, t + "-d300.isv"), "--seeds=" + os.path.join(data, name + ".pairs"),
-             "--hold-out=0.3333", "--split-seed=1", "-o", os.path.join(tw, name + ".map"),
-             "--json-out=" + out], stdout=subprocess.DEVNULL)
-        res = json.load(open(out))
+        res = trained.align_held_out(
+            isthmus, os.path.join(tw, s + "-d300.isv"), os.path.join(tw, t + "-d300.isv"),
+            os.path.join(data, name + ".pairs"), os.path.join(tw, name + ".map"),
+            os.path.join(tw, name + ".json"))
         runs = {(x["label"], x["retrieval"]): x for x in res["runs"]}
         for (label, method), x in sorted(runs.items()):
             print("# %s %-10s %-6s queries %d  P@1 %.1f  P@5 %.1f  P@10 %.1f" % (
@@ -85,16 +71,8 @@ def main():
             name, p1[("refined", "csls")], p1[("procrustes", "csls")]),
             p1[("refined", "csls")] >= p1[("procrustes", "csls")] - 2))
         # the split kept seed and test apart and the test list is recorded
-        test = res["test"]
-        checks.append(("%s no overlap, %d test words" % (name, test["source_words"]),
-                       test["overlap_with_seeds"] == 0 and test["source_words"] > 250))
-    print("1..%d" % len(checks))
-    failed = 0
-    for i, (what, ok) in enumerate(checks, 1):
-        print("%s %d - %s" % ("ok" if ok else "not ok", i, what))
-        failed += not ok
-    print("# real-align: %d passed, %d failed" % (len(checks) - failed, failed))
-    return 1 if failed else 0
+        checks.append(trained.no_overlap(name, res, 250))
+    return trained.report("real-align", checks)
 
 
 if __name__ == "__main__":

@@ -19,6 +19,7 @@ import subprocess
 import sys
 
 import trained
+from trained import skip
 
 PAIRS = {
     "en": [("north", "south"), ("east", "west"), ("morning", "evening"), ("hundred", "thousand"),
@@ -38,11 +39,6 @@ PAIRS = {
 FLOOR_TOP10 = 18     # pairs whose worse rank is 10 or better: one pair below the lowest run
 FLOOR_MRR = 0.45     # mean over pairs of 1 / worse rank: 0.10 below the lowest run
 LOOSE = 100          # every single pair: worse rank at most this (3.5x the worst seen)
-
-
-def skip(why):
-    print("1..0 # SKIP " + why)
-    sys.exit(77)
 
 
 def load(path, np):
@@ -67,9 +63,7 @@ def main():
     isthmus, src, work = sys.argv[1:4]
     fetch = os.path.join(src, "tests", "fetch-real-data.sh")
     data = os.path.join(work, "real-data")
-    r = subprocess.run(["sh", fetch, data], capture_output=True, text=True)
-    if r.returncode != 0:
-        skip("real data not available: " + r.stderr.strip().replace("\n", " "))
+    trained.extract(fetch, data, "real data")
     checks = []
     tw = trained.workdir(work)
     close, total, rr = 0, 0, 0.0
@@ -107,13 +101,7 @@ def main():
                    close >= FLOOR_TOP10))
     checks.append((f"mean reciprocal rank of the worse side {rr / max(1, total):.3f} "
                    f"(at least {FLOOR_MRR})", rr / max(1, total) >= FLOOR_MRR))
-    print(f"1..{len(checks)}")
-    failed = 0
-    for i, (name, ok) in enumerate(checks, 1):
-        print(("ok" if ok else "not ok") + f" {i} - {name}")
-        failed += not ok
-    print(f"# real-neighbours: {len(checks) - failed} passed, {failed} failed")
-    return 1 if failed else 0
+    return trained.report("real-neighbours", checks)
 
 
 if __name__ == "__main__":

@@ -7,8 +7,60 @@ Thread count: only 1-thread training is bit-identical from run to run (docs/reli
 "Determinism"); across machines even 1-thread vectors differ in the last bits where the kernels
 use FMA or another summation order, so the checks judge figures against floors set below the
 spread measured over 5 seeds and both kernel families (tools/dev/slow-spread.py), never exact
-values."""
+values.
+
+It also holds what the checks do alike: skipping, running a command, extracting the Debian data,
+aligning with a held-out third, and printing the checks as TAP."""
+import json
 import os
+import subprocess
+import sys
+
+
+def skip(why):
+    print("1..0 # SKIP " + why)
+    sys.exit(77)   # the checks run with protocol exitcode: 77 = skipped
+
+
+def run(cmd, **kw):
+    """Run a command (echoed as a TAP comment); a failure raises."""
+    print("# " + " ".join(cmd))
+    return subprocess.run(cmd, check=True, **kw)
+
+
+def extract(script, dest, what):
+    """Run an extraction script of tests/ into dest; skip, saying why, when it fails."""
+    r = subprocess.run(["sh", script, dest], capture_output=True, text=True)
+    if r.returncode != 0:
+        skip(what + " not available: " + r.stderr.strip().replace("\n", " "))
+
+
+def align_held_out(isthmus, src_vec, tgt_vec, pairs, map_out, json_out, *extra):
+    """isthmus align on a pair list split by source word, one third test (split seed 1);
+    returns the result JSON."""
+    run([isthmus, "-q", "align", src_vec, tgt_vec, "--seeds=" + pairs, "--hold-out=0.3333",
+         "--split-seed=1", *extra, "-o", map_out, "--json-out=" + json_out],
+        stdout=subprocess.DEVNULL)
+    with open(json_out) as f:
+        return json.load(f)
+
+
+def no_overlap(name, res, least):
+    """The check that the split kept seed and test apart and the test list is recorded."""
+    test = res["test"]
+    return ("%s no overlap, %d test words" % (name, test["source_words"]),
+            test["overlap_with_seeds"] == 0 and test["source_words"] > least)
+
+
+def report(label, checks):
+    """Print (description, passed) pairs as TAP with the closing line; the exit status."""
+    print("1..%d" % len(checks))
+    failed = 0
+    for i, (what, ok) in enumerate(checks, 1):
+        print("%s %d - %s" % ("ok" if ok else "not ok", i, what))
+        failed += not ok
+    print("# %s: %d passed, %d failed" % (label, len(checks) - failed, failed))
+    return 1 if failed else 0
 
 
 def kernel():
