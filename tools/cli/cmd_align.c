@@ -85,20 +85,42 @@ typedef struct args {
     ev_common c;
 } args;
 
+/* The refinement log, from the map's history once the fit is done (after the seed fit
+ * line). Entry r measures the map that went into it (the seed fit for r = 1, else the map
+ * refitted in round r - 1) by the mutual CSLS neighbours it induces; entries 1..rounds refit
+ * on those pairs, and entry rounds + 1 only checks the last refit. */
 static void
-on_round(const ist_align_round *r, void *ctx)
+print_refinement(const ist_map *map, size_t rounds)
 {
-    (void)ctx;
-    if (!r->kept)
-        cli_info("round %zu: %zu mutual CSLS pairs, mean CSLS %.4f: did not rise; keeping the "
-                 "earlier map\n", r->round, r->pairs, r->mean_csls);
-    else if (r->seed_cos == r->seed_cos)
-        cli_info("round %zu: %zu mutual CSLS pairs, mean CSLS %.4f; refitted (mean cosine %.4f, "
-                 "orthogonality error %.2g)\n",
-                 r->round, r->pairs, r->mean_csls, r->seed_cos, r->orth_error);
-    else
-        cli_info("round %zu: %zu mutual CSLS pairs, mean CSLS %.4f: still rising; rounds used "
-                 "up\n", r->round, r->pairs, r->mean_csls);
+    for (size_t i = 0; i < ist_map_rounds(map); i++) {
+        ist_align_round r = ist_map_round(map, i);
+        char step[48], from[48];
+        if (r.round <= rounds)
+            snprintf(step, sizeof step, "round %zu/%zu", r.round, rounds);
+        else
+            snprintf(step, sizeof step, "final check");
+        if (r.round == 1)
+            snprintf(from, sizeof from, "the seed fit");
+        else
+            snprintf(from, sizeof from, "the map of round %zu", r.round - 1);
+        if (!r.kept) {
+            char back[48];
+            if (r.round == 2)
+                snprintf(back, sizeof back, "the seed fit");
+            else
+                snprintf(back, sizeof back, "the map of round %zu", r.round - 2);
+            cli_info("refine     %s: %s pairs %zu words both ways, mean CSLS %.4f, no gain; "
+                     "back to %s\n", step, from, r.pairs, r.mean_csls, back);
+        } else if (r.seed_cos == r.seed_cos) {
+            cli_info("refine     %s: %s pairs %zu words both ways, mean CSLS %.4f; refit on "
+                     "them: mean cosine %.4f, orthogonality error %.2g\n", step, from, r.pairs,
+                     r.mean_csls, r.seed_cos, r.orth_error);
+        } else {
+            cli_info("refine     %s: %s pairs %zu words both ways, mean CSLS %.4f, still "
+                     "rising; kept, all %zu rounds done\n", step, from, r.pairs, r.mean_csls,
+                     rounds);
+        }
+    }
 }
 
 static int
@@ -240,8 +262,8 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
         file = sp;
         *test = tp;
         *tcov = cov;   /* the test part comes from the same file */
-        printf("%-10s held out %zu pairs (share %.2f of the source words, split seed %" PRIu64
-               ") for testing; %zu pairs stay seeds\n",
+        cli_info("%-10s held out %zu pairs (share %.2f of the source words, split seed %" PRIu64
+                 ") for testing; %zu pairs stay seeds\n",
                "", ist_pairs_count(tp), a->hold_out, a->split_seed, ist_pairs_count(sp));
         if (a->write_test && ist_pairs_save(tp, a->write_test, &err) != IST_OK) {
             ist_pairs_free(file);
@@ -253,8 +275,8 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
             ist_pairs_free(file);
             return cli_report(CMD, &err);
         }
-        printf("%-10s %zu words spelt the same on both sides (count >= %" PRIu64 "%s)\n",
-               "alike", ist_pairs_count(ident), a->ident_min,
+        cli_info("%-10s %zu words spelt the same on both sides (count >= %" PRIu64 "%s)\n",
+                 "alike", ist_pairs_count(ident), a->ident_min,
                a->ident_marked ? ", with a letter and a digit or a capital" : "");
     }
     if (file && ident) {
@@ -269,8 +291,8 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
             ist_pairs_free(file);
             return cli_report(CMD, &err);
         }
-        printf("%-10s %zu seed pairs in all after merging (%zu duplicates dropped)\n", "",
-               cov.kept, cov.duplicates);
+        cli_info("%-10s %zu seed pairs in all after merging (%zu duplicates dropped)\n", "",
+                 cov.kept, cov.duplicates);
         *seeds = file;
     } else {
         *seeds = file ? file : ident;
@@ -369,17 +391,17 @@ run(int argc, char **argv)
     ao.refine_keep_seeds = a.keep_seeds;
     ao.min_seed_pairs = a.min_seeds;
     ao.search = a.c.search;
-    ao.on_round = on_round;
     double t0 = cli_now();
     if (ist_align_fit(s, t, seeds, &ao, &map, &err) != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }
     ist_procrustes_info fi = ist_map_seed_fit(map);
-    printf("%-10s %zu seed pairs, dimension %zu, standardised %s; mean cosine %.4f, "
-           "orthogonality error %.2g\n",
-           "fit", ist_map_seed_pairs(map), ist_map_dim(map), a.normalise, fi.seed_cos,
-           fi.orth_error);
+    cli_info("%-10s %zu seed pairs, dimension %zu, standardised %s; mean cosine %.4f, "
+             "orthogonality error %.2g\n",
+             "fit", ist_map_seed_pairs(map), ist_map_dim(map), a.normalise, fi.seed_cos,
+             fi.orth_error);
+    print_refinement(map, a.rounds);
     cli_info("fitted in %.1f s\n", cli_now() - t0);
     if (ist_map_save(map, a.out, &err) != IST_OK) {
         rc = cli_report(CMD, &err);

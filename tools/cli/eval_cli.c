@@ -146,19 +146,21 @@ ev_open_stores(const char *cmd, const char *src, const char *tgt, ist_store **s,
 }
 
 void
-ev_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c)
+ev_print_coverage(FILE *out, const char *what, const char *path, const ist_pairs_coverage *c)
 {
-    printf("%-10s %s: %zu pairs read, %zu kept; %zu of %zu source words covered\n", what, path,
-           c->read, c->kept, c->sources_kept, c->sources_read);
-    printf("%-10s dropped: %zu source word missing, %zu target word missing, %zu both, "
-           "%zu duplicate%s\n",
-           "", c->missing_source, c->missing_target, c->missing_both, c->duplicates,
-           c->duplicates == 1 ? "" : "s");
+    if (out == stderr && cli_g.verbosity < 0)
+        return;   /* a log line: -q silences it */
+    fprintf(out, "%-10s %s: %zu pairs read, %zu kept; %zu of %zu source words covered\n", what,
+            path, c->read, c->kept, c->sources_kept, c->sources_read);
+    fprintf(out, "%-10s dropped: %zu source word missing, %zu target word missing, %zu both, "
+            "%zu duplicate%s\n",
+            "", c->missing_source, c->missing_target, c->missing_both, c->duplicates,
+            c->duplicates == 1 ? "" : "s");
     if (c->source_exact || c->target_exact)
-        printf("%-10s words matched exactly (no text options recorded in the %s vectors)\n", "",
-               c->source_exact && c->target_exact ? "source and target"
-               : c->source_exact                  ? "source"
-                                                  : "target");
+        fprintf(out, "%-10s words matched exactly (no text options recorded in the %s vectors)\n",
+                "", c->source_exact && c->target_exact ? "source and target"
+                    : c->source_exact                  ? "source"
+                                                       : "target");
 }
 
 void
@@ -191,7 +193,9 @@ ev_read_pairs(const char *cmd, const char *what, const char *path, const ist_sto
         *out = NULL;
         return cli_report(cmd, &err);
     }
-    ev_print_coverage(what, path, cov);
+    /* the seed list's coverage belongs to the fitting log (standard error); a test list's
+     * is the head of the figures (standard output) */
+    ev_print_coverage(strcmp(what, "seeds") == 0 ? stderr : stdout, what, path, cov);
     if (cov->kept == 0) {
         cli_progress_done();
         if (cov->read == 0)

@@ -74,7 +74,8 @@ int ev_read_pairs(const char *cmd, const char *what, const char *path, const ist
  * `kept` it keeps now, say "did you swap SRC and TGT?" on stderr. */
 void ev_swap_hint(const char *cmd, const char *path, const ist_store *s, const ist_store *t,
                   size_t kept);
-void ev_print_coverage(const char *what, const char *path, const ist_pairs_coverage *c);
+void ev_print_coverage(FILE *out, const char *what, const char *path,
+                       const ist_pairs_coverage *c);
 
 /* Refuse (exit 1) when test source words are also seed source words, unless
  * allowed; prints the first few. *shared gets the count. Returns 0 to go on. */
