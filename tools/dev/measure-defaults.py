@@ -12,7 +12,8 @@ usage: measure-defaults.py ISTHMUS DATA_DIR WORK_DIR [--langs=en,es] [--seeds=1,
                            [--resamples=2000] [--base=NAME] NAME=SPEC ...
   SPEC is either training options for 'isthmus train' (given --threads 1 --seed S), or
   'stack:A,B[:WA,WB]' to set the vectors of settings A and B side by side with
-  'isthmus stack' (no training).
+  'isthmus stack' (no training). A NAME that starts with '_' is trained (an ingredient of a
+  stack) but not aligned or scored.
   e.g. measure-defaults.py build/tools/isthmus /tmp/rd /tmp/md \\
           "today=--method=skip-gram" "ppmi=--method=ppmi" "both=stack:today,ppmi"
 DATA_DIR holds L1.txt, L2.txt, L1-L2.pairs, L2-L1.pairs (tests/fetch-real-data.sh writes the
@@ -100,7 +101,7 @@ def main():
             for lang in langs:
                 train(isthmus, data, work, name, settings[name], lang, seed, settings)
     base = opts.get("base", order[0])
-    order = [base] + [n for n in order if n != base]
+    order = [base] + [n for n in order if n != base and not n.startswith("_")]
     print("| setting | direction | P@1 mean of %d seeds [95%% interval] | per seed | "
           "difference to %s [95%% interval] | train s (%s) | peak MiB |"
           % (len(seeds), base, langs[0]))
