@@ -14,12 +14,12 @@ default 1); the figures are judged against floors, never exact values.
 Skips (exit 77) when the extraction script, the trainer or the Debian packages are missing.
 Usage: real_defaults.py ISTHMUS SOURCE-DIR WORK-DIR
 """
-import json
 import os
 import subprocess
 import sys
 
 import trained
+from trained import run, skip
 
 # Floors, measured 2026-12-03 with tools/dev/measure-defaults.py (docs/defaults.md, "The
 # combined default on the Bible check"): the defaults, one training thread, OPENBLAS_NUM_THREADS=1,
@@ -38,16 +38,6 @@ FLOORS = {
 }
 
 
-def skip(why):
-    print("1..0 # SKIP " + why)
-    sys.exit(77)   # the test runs with protocol exitcode: 77 = skipped
-
-
-def run(cmd, **kw):
-    print("# " + " ".join(cmd))
-    return subprocess.run(cmd, check=True, **kw)
-
-
 def main():
     isthmus, src, work = sys.argv[1:4]
     fetch = os.path.join(src, "tests", "fetch-real-data.sh")
@@ -56,26 +46,21 @@ def main():
     if subprocess.run([isthmus, "help", "train"], capture_output=True).returncode != 0:
         skip("this isthmus has no train command")
     data = os.path.join(work, "real-data")
-    r = subprocess.run(["sh", fetch, data], capture_output=True, text=True)
-    if r.returncode != 0:
-        skip("real data not available: " + r.stderr.strip().replace("\n", " "))
+    trained.extract(fetch, data, "real data")
     tw = trained.workdir(work)
-    env = dict(os.environ, OPENBLAS_NUM_THREADS="1")
+    os.environ["OPENBLAS_NUM_THREADS"] = "1"   # the SVD's BLAS too, for every command below
     for lang in ("en", "es"):
         vec = os.path.join(tw, lang + "-defaults.isv")
         if not os.path.exists(vec):
             run([isthmus, "-q", "train", *trained.train_flags(), "-o", vec,
-                 os.path.join(data, lang + ".txt")], env=env)
+                 os.path.join(data, lang + ".txt")])
     checks = []
     for s, t in (("en", "es"), ("es", "en")):
         name = s + "-" + t
-        out = os.path.join(tw, name + "-defaults.json")
-        run([isthmus, "-q", "align", os.path.join(tw, s + "-defaults.isv"),
-             os.path.join(tw, t + "-defaults.isv"),
-             "--seeds=" + os.path.join(data, name + ".pairs"), "--hold-out=0.3333",
-             "--split-seed=1", "--threads=1", "-o", os.path.join(tw, name + "-defaults.map"),
-             "--json-out=" + out], stdout=subprocess.DEVNULL, env=env)
-        res = json.load(open(out))
+        res = trained.align_held_out(
+            isthmus, os.path.join(tw, s + "-defaults.isv"), os.path.join(tw, t + "-defaults.isv"),
+            os.path.join(data, name + ".pairs"), os.path.join(tw, name + "-defaults.map"),
+            os.path.join(tw, name + "-defaults.json"), "--threads=1")
         csls = [x for x in res["runs"] if x["retrieval"] == "csls"]
         for x in csls:
             print("# %s %-10s queries %d  P@1 %.1f  P@10 %.1f" % (
@@ -92,16 +77,8 @@ def main():
         # refinement does not lose (it gained 9-13 points in every measured run)
         checks.append(("%s refinement: %.1f >= Procrustes %.1f" % (
             name, got["refined"], got["procrustes"]), got["refined"] >= got["procrustes"]))
-        test = res["test"]
-        checks.append(("%s no overlap, %d test words" % (name, test["source_words"]),
-                       test["overlap_with_seeds"] == 0 and test["source_words"] > 250))
-    print("1..%d" % len(checks))
-    failed = 0
-    for i, (what, ok) in enumerate(checks, 1):
-        print("%s %d - %s" % ("ok" if ok else "not ok", i, what))
-        failed += not ok
-    print("# real-defaults: %d passed, %d failed" % (len(checks) - failed, failed))
-    return 1 if failed else 0
+        checks.append(trained.no_overlap(name, res, 250))
+    return trained.report("real-defaults", checks)
 
 
 if __name__ == "__main__":
