@@ -229,15 +229,20 @@ check(np.array_equal(r1.W, isthmus.read_map("cli0.map").W) and not r1.rounds,
 out = run("score", "en.isv", "es.isv", "--map=cli.map", "--test=" + test, "--stage=both",
           "--json-out=cli-result.json").stdout
 # a row: map, retrieval, queries, coverage, then each p@k in percent with its interval beside
-table = [f[:4] + [t for t in f[4:] if t.endswith("%")] for f in (ln.split() for ln in out.splitlines())
-         if len(f) >= 7 and f[0] in ("procrustes", "refined") and f[3].endswith("%")]
+table = [f for f in (ln.split() for ln in out.splitlines())
+         if len(f) == 13 and f[0] in ("procrustes", "refined") and f[3].endswith("%")]
 res = lib.score("en.isv", "es.isv", "cli.map", test, stage="both", diagnostics=True,
                 json_out="py-result.json")
-have = [[r.label, r.retrieval, str(r.queries), "%.1f%%" % (100 * r.coverage)] +
-        ["%.1f%%" % (100 * r.precision[k]) for k in (1, 5, 10)] for r in res.runs]
+have = []
+for r in res.runs:
+    row = [r.label, r.retrieval, str(r.queries), "%.1f%%" % (100 * r.coverage)]
+    for k in (1, 5, 10):
+        lo, hi = r.ci.bounds[k]
+        row += ["%.1f%%" % (100 * r.precision[k]), "[%.1f," % (100 * lo), "%.1f]" % (100 * hi)]
+    have.append(row)
 check(len(table) == 4 and have == table,
-      "score through ctypes: P@1/5/10 by cosine and CSLS, both stages, as the program "
-      "printed them", "printed %s\nctypes  %s" % (table, have))
+      "score through ctypes: p@1/5/10 and their intervals by cosine and CSLS, both stages, "
+      "as the program printed them", "printed %s\nctypes  %s" % (table, have))
 cli_res = isthmus.read_result("cli-result.json")
 check(res.data == cli_res.data and res.data["diagnostics"],
       "the whole result record equals the program's --json-out: figures, intervals, "
@@ -248,7 +253,7 @@ check(lib.score("en.isv", "es.isv", "cli.map", test, threads=1, stage="both").ru
       lib.score("en.isv", "es.isv", "cli.map", test, threads=2, stage="both").runs,
       "threads=1 and threads=2 score the same, per-query places and intervals included")
 csls = res.run("csls")
-print("# refined csls: %d queries, P@1 %.3f, P@5 %.3f, P@10 %.3f" % (
+print("# refined csls: %d queries, p@1 %.3f, p@5 %.3f, p@10 %.3f" % (
     csls.queries, csls.precision[1], csls.precision[5], csls.precision[10]))
 mine = lib.score("en.isv", "es.isv", m, test)
 check([r.precision for r in mine.runs] == [r.precision for r in res.runs[2:]] and
