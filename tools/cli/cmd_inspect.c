@@ -17,7 +17,8 @@ help(FILE *out)
           "  FILE                    native vector file, or text table (plain or gzip)\n"
           "\n"
           "Options:\n"
-          "      --words=N           also list the first N words with their counts [default: 0]\n"
+          "      --words=N           also list the first N words with their places (from 1,\n"
+          "                          as lookup counts) and counts [default: 0]\n"
           "  -h, --help              show this help and exit\n"
           "\n"
           "Example:\n"
@@ -111,7 +112,7 @@ run(int argc, char **argv)
     if (total)
         printf("corpus count: %llu tokens over these words\n", (unsigned long long)total);
     for (size_t i = 0; i < show && i < rows; i++)
-        printf("%8zu  %-24s %llu\n", i, ist_store_word(s, i),
+        printf("%8zu  %-24s %llu\n", i + 1, ist_store_word(s, i),   /* places from 1, as lookup */
                (unsigned long long)ist_store_count(s, i));
     free(norms);
     ist_store_free(s);

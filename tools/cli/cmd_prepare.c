@@ -59,7 +59,8 @@ on_progress(void *ctx, uint64_t done, uint64_t total)
 {
     double t0 = *(const double *)ctx, dt = cli_now() - t0;
 
-    cli_progress_update("prepare: %5.1f%% of %.1f MB, %.1f MB/s",
+    /* bytes of the files as stored (gzip compressed or not), as in the summary's headline */
+    cli_progress_update("prepare: %5.1f%% of %.1f MB read, %.1f MB/s",
                         total ? 100.0 * (double)done / (double)total : 100.0, total / 1e6,
                         dt > 0 ? done / 1e6 / dt : 0.0);
 }
@@ -74,17 +75,19 @@ static void
 summary(const ist_corpus *c, const char *out, double secs)
 {
     ist_corpus_stats st;
-    uint64_t text_bytes = 0;
+    uint64_t disk_bytes = 0;
     size_t n = ist_corpus_n_sources(c), types = ist_vocab_size(ist_corpus_vocab(c));
 
     ist_corpus_stats_get(c, &st);
     for (size_t i = 0; i < n; i++) {
         ist_corpus_source s;
         if (ist_corpus_source_get(c, i, &s, NULL) == IST_OK)
-            text_bytes += s.text_bytes;
+            disk_bytes += s.bytes;
     }
-    printf("prepared %s from %zu file%s in %.2f s (%.1f MB of text, %.1f MB/s)\n", out, n,
-           n == 1 ? "" : "s", secs, text_bytes / 1e6, secs > 0 ? text_bytes / 1e6 / secs : 0.0);
+    /* one size throughout: the files as stored, which the progress line counts too; the text
+     * each gzip file unpacks to is on its own line below */
+    printf("prepared %s from %zu file%s in %.2f s (%.1f MB read, %.1f MB/s)\n", out, n,
+           n == 1 ? "" : "s", secs, disk_bytes / 1e6, secs > 0 ? disk_bytes / 1e6 / secs : 0.0);
     printf("  lines               %llu read, %llu duplicates removed\n",
            (unsigned long long)st.lines, (unsigned long long)st.lines_dropped_dup);
     printf("  tokens              %llu segmented, %llu kept (%.1f%%)\n",
@@ -98,8 +101,13 @@ summary(const ist_corpus *c, const char *out, double secs)
         ist_corpus_source s;
         if (ist_corpus_source_get(c, i, &s, NULL) != IST_OK)
             continue;
-        printf("    %-40s %llu lines, %llu replaced%s\n", s.path, (unsigned long long)s.lines,
-               (unsigned long long)s.replaced_utf8, s.gzip ? " (gzip)" : "");
+        if (s.gzip)
+            printf("    %-40s %llu lines, %llu replaced (gzip, %.1f MB of text)\n", s.path,
+                   (unsigned long long)s.lines, (unsigned long long)s.replaced_utf8,
+                   s.text_bytes / 1e6);
+        else
+            printf("    %-40s %llu lines, %llu replaced\n", s.path, (unsigned long long)s.lines,
+                   (unsigned long long)s.replaced_utf8);
     }
 }
 
