@@ -26,6 +26,8 @@ help(FILE *out)
     ev_common_help(out, EV_HELP_SEARCH | EV_HELP_RANK | EV_HELP_SCORING | EV_HELP_DIAG, "both");
     fputs("  -h, --help              show this help and exit\n"
           "\n"
+          "With -v, every test pair that is not scored is listed on standard error with its\n"
+          "line and the word the vectors lack.\n"
           "Test source words that are also seed source words (recorded in the map) make the\n"
           "figures meaningless; score refuses such a list unless --allow-overlap is given.\n"
           "\n"
@@ -36,6 +38,37 @@ help(FILE *out)
 }
 
 enum { OPT_MAP = 1, OPT_TEST, OPT_STAGE };
+
+/* With -v: every test pair that counts for nothing, with its line and which word the
+ * vectors lack, on standard error. */
+static void
+list_uncovered(const ist_pairs *test, const ist_store *s, const ist_store *t, const char *spath,
+               const char *tpath)
+{
+    size_t n = ist_pairs_count(test), shown = 0;
+
+    for (size_t i = 0; i < n; i++) {
+        ptrdiff_t rs, rt;
+        ist_error err;
+        const char *a = ist_pairs_source(test, i), *b = ist_pairs_target(test, i);
+        if (ist_pairs_source_row(test, i) >= 0)
+            continue;
+        if (ist_pairs_find_word(s, a, &rs, &err) != IST_OK ||
+            ist_pairs_find_word(t, b, &rt, &err) != IST_OK)
+            continue;
+        if (rs >= 0 && rt >= 0)
+            continue;   /* a duplicate: the first copy counts */
+        if (shown++ == 0)
+            fprintf(stderr, "test pairs not covered (not scored):\n");
+        fprintf(stderr, "  %s:%llu  %s  %s  (%s%s%s%s%s)\n", ist_pairs_path(test),
+                (unsigned long long)ist_pairs_line(test, i), a, b,
+                rs < 0 ? "source word not in " : "", rs < 0 ? spath : "",
+                rs < 0 && rt < 0 ? ", " : "", rt < 0 ? "target word not in " : "",
+                rt < 0 ? tpath : "");
+    }
+    if (shown == 0)
+        fprintf(stderr, "test pairs not covered: none\n");
+}
 
 static int
 run(int argc, char **argv)
@@ -104,6 +137,8 @@ run(int argc, char **argv)
     }
     if ((rc = ev_read_pairs(CMD, "test", tpath, s, t, &test, &cov)) != 0)
         goto done;
+    if (cli_g.verbosity > 0)
+        list_uncovered(test, s, t, argv[optind], argv[optind + 1]);
     if ((rc = ev_check_overlap(CMD, ist_map_seeds(map), test, c.allow_overlap, &shared)) != 0)
         goto done;
     ev_evaluate_opts(&c, &eo);
