@@ -6,6 +6,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <poll.h>
+#include <pthread.h>
 #include <math.h>
 #include <signal.h>
 #include <stdarg.h>
@@ -487,6 +488,77 @@ cli_progress_done(void)
     }
     progress_shown = 0;
     last_progress = -1;
+}
+
+static struct {
+    pthread_t thread;
+    pthread_mutex_t lock;
+    pthread_cond_t wake;
+    bool running, stop;
+    char label[160];
+    double t0;
+} ticker = {.lock = PTHREAD_MUTEX_INITIALIZER, .wake = PTHREAD_COND_INITIALIZER};
+
+static void *
+tick(void *arg)
+{
+    (void)arg;
+    pthread_mutex_lock(&ticker.lock);
+    while (!ticker.stop) {
+        struct timespec until;
+        clock_gettime(CLOCK_REALTIME, &until);
+        until.tv_nsec += 250000000L;
+        if (until.tv_nsec >= 1000000000L) {
+            until.tv_sec++;
+            until.tv_nsec -= 1000000000L;
+        }
+        pthread_cond_timedwait(&ticker.wake, &ticker.lock, &until);
+        if (!ticker.stop)
+            cli_progress_update("%s, %.0f s", ticker.label, cli_now() - ticker.t0);
+    }
+    pthread_mutex_unlock(&ticker.lock);
+    return NULL;
+}
+
+void
+cli_progress_start(const char *label)
+{
+    if (!cli_progress_enabled() || ticker.running)
+        return;
+    snprintf(ticker.label, sizeof ticker.label, "%s", label);
+    ticker.t0 = cli_now();
+    ticker.stop = false;
+    last_progress = -1;
+    cli_progress_update("%s, 0 s", ticker.label);
+    ticker.running = pthread_create(&ticker.thread, NULL, tick, NULL) == 0;
+}
+
+void
+cli_progress_relabel(const char *fmt, ...)
+{
+    va_list ap;
+
+    if (!ticker.running)
+        return;
+    pthread_mutex_lock(&ticker.lock);
+    va_start(ap, fmt);
+    vsnprintf(ticker.label, sizeof ticker.label, fmt, ap);
+    va_end(ap);
+    pthread_mutex_unlock(&ticker.lock);
+}
+
+void
+cli_progress_stop(void)
+{
+    if (ticker.running) {
+        pthread_mutex_lock(&ticker.lock);
+        ticker.stop = true;
+        pthread_cond_signal(&ticker.wake);
+        pthread_mutex_unlock(&ticker.lock);
+        pthread_join(ticker.thread, NULL);
+        ticker.running = false;
+    }
+    cli_progress_done();
 }
 
 void

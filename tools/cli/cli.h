@@ -130,6 +130,15 @@ bool cli_progress_enabled(void);
 void cli_progress_update(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 void cli_progress_done(void);
 
+/* Progress of work the library does in one call (a search, a fit, a bootstrap): the
+ * line "LABEL, N s" is drawn at once and redrawn by a helper thread until
+ * cli_progress_stop(), which clears it. The same display and the same rule as above
+ * (a terminal or --progress=always, not -q); nothing else may print in between. */
+void cli_progress_start(const char *label);
+/* A new label for the running line (from any thread; e.g. a per-round callback). */
+void cli_progress_relabel(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+void cli_progress_stop(void);
+
 /* Diagnostics to stderr unless -q. */
 void cli_info(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 

@@ -89,6 +89,14 @@ typedef struct args {
  * line). Entry r measures the map that went into it (the seed fit for r = 1, else the map
  * refitted in round r - 1) by the mutual CSLS neighbours it induces; entries 1..rounds refit
  * on those pairs, and entry rounds + 1 only checks the last refit. */
+/* Progress: the rounds of refinement as they end. */
+static void
+round_done(const ist_align_round *r, void *ctx)
+{
+    cli_progress_relabel("align: refinement round %zu of at most %zu done (%zu pairs)",
+                         r->round, *(const size_t *)ctx, r->pairs);
+}
+
 static void
 print_refinement(const ist_map *map, size_t rounds)
 {
@@ -392,7 +400,12 @@ run(int argc, char **argv)
     ao.min_seed_pairs = a.min_seeds;
     ao.search = a.c.search;
     double t0 = cli_now();
-    if (ist_align_fit(s, t, seeds, &ao, &map, &err) != IST_OK) {
+    ao.on_round = round_done;
+    ao.ctx = &a.rounds;
+    cli_progress_start("align: fitting the map on the seed pairs");
+    ist_status fit = ist_align_fit(s, t, seeds, &ao, &map, &err);
+    cli_progress_stop();
+    if (fit != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }

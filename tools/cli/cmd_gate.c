@@ -220,7 +220,10 @@ run(int argc, char **argv)
         rc = cli_report(CMD, &err);
     if (rc != 0)
         goto done;
-    if (ist_gate_evaluate(rules, res, base, &a.gate, &v, &err) != IST_OK) {
+    cli_progress_start("gate: judging the rules (bootstrap of the change)");
+    ist_status judged = ist_gate_evaluate(rules, res, base, &a.gate, &v, &err);
+    cli_progress_stop();
+    if (judged != IST_OK) {
         rc = cli_report(CMD, &err);
         goto done;
     }

@@ -178,8 +178,11 @@ propose(const args *a, const ist_map *map, const ist_store *s, const ist_store *
     for (size_t i = 0; i < a->nlists; i++)
         if (ist_pairs_checksum(lists[i], &sums[i], &err) != IST_OK)
             return cli_report(CMD, &err);
-    if (ist_propose_run(map, s, t, (const ist_pairs *const *)lists, a->nlists, &a->po, &p,
-                        &err) != IST_OK)
+    cli_progress_start("propose: ranking candidates for the source words");
+    ist_status ran = ist_propose_run(map, s, t, (const ist_pairs *const *)lists, a->nlists,
+                                     &a->po, &p, &err);
+    cli_progress_stop();
+    if (ran != IST_OK)
         return cli_report(CMD, &err);
     ist_propose_inputs in = {a->src, a->tgt, a->map, ist_map_seed_checksum(map),
                              a->lists, sums, a->nlists};

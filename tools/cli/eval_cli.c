@@ -357,7 +357,13 @@ ev_evaluate(const char *cmd, const ist_map *map, const ist_store *s, const ist_s
     ist_error err;
     double t0 = cli_now();
 
-    if (ist_evaluate(map, s, t, test, cov, o, out, &err) != IST_OK)
+    char label[160];
+    snprintf(label, sizeof label, "%s: scoring %zu test pairs against %zu target words", cmd,
+             ist_pairs_kept(test), ist_store_rows(t));
+    cli_progress_start(label);
+    ist_status st = ist_evaluate(map, s, t, test, cov, o, out, &err);
+    cli_progress_stop();
+    if (st != IST_OK)
         return cli_report(cmd, &err);
     if ((*out)->nruns)
         ev_print_runs(*out);
