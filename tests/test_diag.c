@@ -37,8 +37,13 @@ random_store(size_t n, size_t d, uint64_t seed, const char *prefix)
             r[j] = (float)gauss(&st);
         unit_row(r, d);
         snprintf(w, sizeof w, "%s%zu", prefix, i);
+        if (strcmp(prefix, "n") == 0)      /* words of letters only: i in base 26, a..z */
+            for (size_t k = 0, x = i; k < 4; k++, x /= 26)
+                w[k] = (char)('a' + x % 26), w[k + 1] = 0;
         if (strcmp(prefix, "h") == 0 && i == 7)
             strcpy(w, "<hub&\"");                      /* the planted hub's row */
+        if (strcmp(prefix, "n") == 0 && i == 7)
+            strcpy(w, "4493");                         /* the same, named like a number */
         assert_int_equal(ist_store_set_word(s, i, w, 1000 - i, NULL), IST_OK);
     }
     return s;
@@ -106,7 +111,42 @@ planted_hub_has_highest_k_occurrence(void **state)
     assert_true(ist_diag_skewness(dg, IST_RETRIEVAL_COSINE) > 3);
     assert_int_equal(ist_diag_queries(dg), nq);
     assert_true(ist_diag_isometry(dg) < 0);           /* skipped */
+    uint32_t occ = 0, hub_occ = cos[hub];
+    double skew = ist_diag_skewness(dg, IST_RETRIEVAL_COSINE);
+    assert_string_equal(ist_diag_hub(dg, IST_RETRIEVAL_COSINE, 0, &occ), "<hub&\"");
+    assert_int_equal(occ, hub_occ);
+    assert_null(ist_diag_hub(dg, IST_RETRIEVAL_COSINE, o.top_hubs, NULL));
     ist_diag_free(dg);
+
+    /* the hub named like an order number: passed over in the list (and counted), unless
+     * number-shaped words are asked for; the k-occurrence figures do not change */
+    ist_store *tgt_n = random_store(nt, d, 11, "n");
+    memcpy(ist_store_row_mut(tgt_n, hub), c, sizeof c);
+    ist_diag_summary sum;
+    for (int with = 0; with < 2; with++) {
+        o.hub_numbers = with;
+        assert_int_equal(ist_diag_run(ist_store_view(src), ist_store_view(tgt_n), tgt_n, NULL,
+                                      &o, &dg, NULL),
+                         IST_OK);
+        ist_diag_summarise(dg, &sum);
+        const char *first = ist_diag_hub(dg, IST_RETRIEVAL_COSINE, 0, &occ);
+        assert_int_equal(sum.hub_numbers, with);
+        assert_int_equal(sum.hubs[0], o.top_hubs);   /* the list is still full */
+        assert_int_equal(ist_diag_k_occurrence(dg, IST_RETRIEVAL_COSINE)[hub], hub_occ);
+        assert_true(ist_diag_skewness(dg, IST_RETRIEVAL_COSINE) == skew);
+        if (with) {
+            assert_string_equal(first, "4493");
+            assert_int_equal(sum.hubs_left_out[0], 0);
+        } else {
+            assert_string_not_equal(first, "4493");
+            assert_true(occ < hub_occ);
+            assert_int_equal(sum.hubs_left_out[0], 1);
+            for (size_t i = 0; ist_diag_hub(dg, IST_RETRIEVAL_COSINE, i, NULL); i++)
+                assert_string_not_equal(ist_diag_hub(dg, IST_RETRIEVAL_COSINE, i, NULL), "4493");
+        }
+        ist_diag_free(dg);
+    }
+    ist_store_free(tgt_n);
     ist_store_free(src);
     ist_store_free(tgt);
 }

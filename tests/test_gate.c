@@ -491,6 +491,82 @@ test_verdict_json(void **state)
     harness_rmdir(dir);
 }
 
+/* A verdict written and loaded back (what the report shows) holds the same checks: rule
+ * text, line, figure kind and k, bound, outcome, figure, interval, run, note and the
+ * conditions; a verdict for another result or with a figure out of range is refused. */
+static void
+test_verdict_load(void **state)
+{
+    (void)state;
+    char *dir = harness_tmpdir(), *path = harness_path(dir, "verdict.json");
+    ist_result *res = synthetic(100, 80, "0000000000000001", true);
+    ist_result *other = synthetic(100, 80, "0000000000000002", true);
+    ist_verdict *v = evaluate("min precision@1 csls 0.7\nmin coverage 0.5\n"
+                              "max drop precision@1 csls 0.1\n", res, NULL, IST_OK, NULL);
+    ist_verdict *back = NULL;
+    ist_error err;
+
+    assert_int_equal(ist_verdict_write(v, path, &err), IST_OK);
+    assert_int_equal(ist_verdict_load(path, res, &back, &err), IST_OK);
+    assert_int_equal(ist_verdict_count(back), ist_verdict_count(v));
+    assert_int_equal(ist_verdict_passed(back), ist_verdict_passed(v));
+    assert_string_equal(ist_verdict_thresholds(back), ist_verdict_thresholds(v));
+    for (size_t i = 0; i < ist_verdict_count(v); i++) {
+        const ist_gate_check *a = ist_verdict_check(v, i), *b = ist_verdict_check(back, i);
+        assert_string_equal(a->rule->text, b->rule->text);
+        assert_int_equal(a->rule->line, b->rule->line);
+        assert_int_equal(a->rule->figure, b->rule->figure);
+        assert_int_equal(a->rule->k, b->rule->k);
+        assert_int_equal(a->rule->bound_kind, b->rule->bound_kind);
+        assert_true(a->rule->bound == b->rule->bound);
+        assert_int_equal(a->outcome, b->outcome);
+        assert_int_equal(a->has_interval, b->has_interval);
+        if (a->outcome != IST_GATE_SKIP)
+            assert_true(a->figure == b->figure);
+        if (a->has_interval)
+            assert_true(a->lo == b->lo && a->hi == b->hi);
+        assert_string_equal(a->run, b->run);
+        assert_string_equal(a->note, b->note);
+    }
+    assert_int_equal(ist_verdict_check(back, 0)->rule->figure, IST_GATE_PRECISION);
+    assert_int_equal(ist_verdict_check(back, 0)->rule->k, 1);
+    assert_int_equal(ist_verdict_check(back, 1)->rule->figure, IST_GATE_COVERAGE);
+    assert_int_equal(ist_verdict_check(back, 2)->rule->figure, IST_GATE_DROP);
+    assert_int_equal(ist_verdict_check(back, 2)->outcome, IST_GATE_SKIP);  /* no baseline */
+    assert_string_equal(ist_verdict_condition(back, 0), ist_verdict_condition(v, 0));
+    assert_null(ist_verdict_condition(back, 1));
+    char la[512], lb[512];
+    ist_verdict_line(v, 0, la, sizeof la);
+    ist_verdict_line(back, 0, lb, sizeof lb);
+    assert_string_equal(la, lb);                     /* the same line as the gate printed */
+    ist_verdict_free(back);
+    back = NULL;
+
+    /* made for another test list */
+    assert_int_equal(ist_verdict_load(path, other, &back, &err), IST_ERR_FORMAT);
+    assert_non_null(strstr(err.msg, "another result"));
+    assert_null(back);
+    /* a bound out of range names the line */
+    static const char wide[] = "{\"format\": \"isthmus verdict\", \"version\": 1, \"verdict\": "
+                               "\"pass\",\n\"rules_passed\": 1, \"rules_failed\": 0, "
+                               "\"rules_skipped\": 0, \"rules\": [\n{\"rule\": \"x\",\n"
+                               "\"bound\": 7, \"outcome\": \"pass\"}]}";
+    ist_result *bare = NULL;        /* records no identity, so only the schema is checked */
+    static const char bare_text[] = "{\"format\": \"isthmus result\"}";
+    assert_int_equal(ist_result_parse(bare_text, strlen(bare_text), "b", &bare, &err), IST_OK);
+    harness_write(path, wide, strlen(wide));
+    assert_int_equal(ist_verdict_load(path, bare, &back, &err), IST_ERR_FORMAT);
+    ist_result_free(bare);
+    assert_int_equal(err.line, 4);
+    assert_non_null(strstr(err.msg, "\"bound\""));
+    assert_null(back);
+    ist_verdict_free(v);
+    ist_result_free(res);
+    ist_result_free(other);
+    free(path);
+    harness_rmdir(dir);
+}
+
 /* Only in a fault-injection build (main registers it there): failing any one allocation of the whole gate path
  * gives IST_ERR_NOMEM and no verdict file. */
 static const char *fault_new, *fault_old, *fault_out;
@@ -558,7 +634,7 @@ test_every_failed_allocation(void **state)
         cmocka_unit_test(test_thresholds_file), cmocka_unit_test(test_bootstrap_properties), \
         cmocka_unit_test(test_bootstrap_paired), cmocka_unit_test(test_metrics_ci),       \
         cmocka_unit_test(test_verdict_logic),      \
-        cmocka_unit_test(test_verdict_json)
+        cmocka_unit_test(test_verdict_json), cmocka_unit_test(test_verdict_load)
 
 int
 main(void)

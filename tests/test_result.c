@@ -121,7 +121,14 @@ test_round_trip(void **state)
     char *dir = harness_tmpdir(), *path = harness_path(dir, "r.json"), *t1, *t2;
     ist_result *loaded;
     make_fixture(&f, 1);
+    /* how each file was made: a JSON object is kept (compact), other text is not */
+    assert_int_equal(ist_store_set_provenance(f.sy.src, "{\"training\": {\"method\": \"m\", "
+                                              "\"dimension\": 12}}", &err), IST_OK);
+    assert_int_equal(ist_store_set_provenance(f.sy.tgt, "made by hand", &err), IST_OK);
     ist_result *r = evaluate(&f, IST_STAGE_FINAL);
+    assert_string_equal(r->source.provenance,
+                        "{\"training\":{\"method\":\"m\",\"dimension\":12}}");
+    assert_null(r->target.provenance);
 
     assert_int_equal(ist_result_write(r, path, &err), IST_OK);
     if (ist_result_load(path, &loaded, &err) != IST_OK)
@@ -129,6 +136,8 @@ test_round_trip(void **state)
     assert_int_equal(ist_result_render(r, &t1, &err), IST_OK);
     assert_int_equal(ist_result_render(loaded, &t2, &err), IST_OK);
     assert_string_equal(t1, t2);
+    assert_string_equal(loaded->source.provenance, r->source.provenance);
+    assert_null(loaded->target.provenance);
     assert_int_equal(loaded->nruns, r->nruns);
     for (size_t i = 0; i < r->nruns; i++) {
         const ist_result_run *a = &r->runs[i], *b = &loaded->runs[i];

@@ -23,6 +23,7 @@
 #ifndef ISTHMUS_DIAG_H
 #define ISTHMUS_DIAG_H
 
+#include <stdbool.h>
 #include <stddef.h>
 #include <stdint.h>
 #include <isthmus/error.h>
@@ -44,6 +45,10 @@ typedef struct ist_diag_opts {
     size_t k;                 /* hubness: top-k of each query [10] */
     size_t queries;           /* hubness: the N most frequent source words [5000] */
     size_t top_hubs;          /* hubs listed per method [10] */
+    bool hub_numbers;         /* list number-shaped words and codes (6.39, 4493, 40cm,
+                                 tw-4410; ist_word_shape_of()) among the hubs too [false:
+                                 passed over in the list; the k-occurrence figures and
+                                 the skewness count every target all the same] */
     size_t isometry_words;    /* isometry: the N most frequent words of each side [1000];
                                  0 skips the isometry */
     size_t isometry_k;        /* isometry: neighbours per word in the graphs [10] */
@@ -90,6 +95,40 @@ IST_API void ist_diag_miss(const ist_diag *d, size_t i, size_t *source_row, size
  *  each; bin b covers [-1 + 0.1 b, -0.9 + 0.1 b), the last includes 1). */
 IST_API const size_t *ist_diag_gold_hist(const ist_diag *d);
 IST_API const size_t *ist_diag_random_hist(const ist_diag *d);
+
+/** One hub of the list under a method (0 cosine, 1 CSLS), most found first: its word and
+ *  (occ may be NULL) its k-occurrence; NULL past the last. Borrowed until
+ *  ist_diag_free(). */
+IST_API const char *ist_diag_hub(const ist_diag *d, ist_retrieval method, size_t i,
+                                 uint32_t *occ);
+/** The words of worst miss i: returns its source word (NULL past the last), and fills
+ *  the word ranked first instead, the gold target words and their count (each out
+ *  pointer may be NULL). Borrowed until ist_diag_free(). */
+IST_API const char *ist_diag_miss_words(const ist_diag *d, size_t i, const char **ranked,
+                                        const char *const **gold, size_t *ngold);
+
+/** The figures of a diagnostics record, as a result file keeps them. */
+typedef struct ist_diag_summary {
+    size_t k, queries, targets;        /* hubness: best k per query, queries, target rows */
+    size_t neighbourhood;              /* CSLS k of the hubness under CSLS */
+    double skewness[2];                /* of the k-occurrence: cosine, CSLS; NaN: absent */
+    uint32_t max_occ[2];
+    size_t occ_hist[2][IST_DIAG_OCC_BINS];   /* targets per k-occurrence bin */
+    uint32_t occ_from[IST_DIAG_OCC_BINS];    /* bin b: from occ_from[b] to occ_from[b+1] - 1;
+                                                the last bin has no upper end */
+    size_t hubs[2];                    /* hubs listed (ist_diag_hub()) */
+    bool hub_numbers;                  /* ist_diag_opts.hub_numbers of the run */
+    size_t hubs_left_out[2];           /* number-shaped hubs passed over in the lists */
+    double isometry;                   /* eigenvector similarity; < 0: not computed */
+    size_t isometry_terms, isometry_words, isometry_k;
+    size_t misses;                     /* listed (ist_diag_miss_words()) */
+    size_t misses_total, misses_queries;   /* test words missed at rank 1, of those scored */
+    size_t gold_hist[IST_DIAG_SIM_BINS], random_hist[IST_DIAG_SIM_BINS];
+    double gold_mean, random_mean;     /* mean cosines; NaN: absent */
+} ist_diag_summary;
+
+/** Fill out with the figures of d. */
+IST_API void ist_diag_summarise(const ist_diag *d, ist_diag_summary *out);
 
 /** Population skewness (third standardised moment) of n values; 0 when the
  *  values do not vary or n < 2. */

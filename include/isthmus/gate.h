@@ -101,6 +101,9 @@ IST_API void ist_verdict_free(ist_verdict *v);                       /* NULL: no
 IST_API size_t ist_verdict_count(const ist_verdict *v);
 /** Check i; borrowed until ist_verdict_free(). */
 IST_API const ist_gate_check *ist_verdict_check(const ist_verdict *v, size_t i);
+/** The thresholds file the verdict was made with, as named to the gate. Borrowed until
+ *  ist_verdict_free(). */
+IST_API const char *ist_verdict_thresholds(const ist_verdict *v);
 /** True when no rule failed (skipped rules do not fail). */
 IST_API bool ist_verdict_passed(const ist_verdict *v);
 /** The conditions of a verdict, whether it passed or not: "leakage: N test source words
@@ -112,10 +115,18 @@ IST_API const char *ist_verdict_condition(const ist_verdict *v, size_t i);
  *  result: its schema (format, version, verdict "pass" or "fail", a list of rules each
  *  with an outcome pass, fail or skip, counts that agree with the rules) and its identity
  *  (the test list checksum and the fingerprints of both vector files equal the result's).
- *  IST_ERR_FORMAT naming the file and line otherwise. Nothing is kept: the report reads
- *  the file again. */
+ *  IST_ERR_FORMAT naming the file and line otherwise. Nothing is kept (ist_verdict_load()
+ *  keeps it). */
 IST_API ist_status ist_verdict_check_file(const char *path, const ist_result *result,
                                           ist_error *err);
+/** Load a verdict JSON as ist_verdict_check_file() checks it, into a verdict the report
+ *  and ist_verdict_line() take: its rules (text, line, figure, bound, band), outcomes,
+ *  figures with intervals, notes and conditions. A rule's retrieval and map stage are
+ *  not recorded apart from its text and run (retrieval -1, label NULL). IST_ERR_FORMAT
+ *  naming the file and line for a member of the wrong type or range. Success: *out owns
+ *  the verdict; release it with ist_verdict_free(). */
+IST_API ist_status ist_verdict_load(const char *path, const ist_result *result,
+                                    ist_verdict **out, ist_error *err);
 IST_API size_t ist_verdict_tally(const ist_verdict *v, ist_gate_outcome outcome);
 
 /** One line of text for check i (no newline): outcome, file:line, rule, figure with

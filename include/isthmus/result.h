@@ -34,6 +34,9 @@ typedef struct ist_result_vectors {
     char *path;                   /* as given, or NULL */
     bool has_fingerprint;
     uint64_t fingerprint;         /* store fingerprint recorded in the map */
+    char *provenance;             /* the store's provenance JSON (how it was trained:
+                                     ist_store_provenance()) when it is a JSON object,
+                                     else NULL */
 } ist_result_vectors;
 
 /** A pair list: where it came from and its checksum as read (ist_pairs_list_checksum()). */

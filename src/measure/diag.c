@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include <isthmus/cancel.h>
+#include <isthmus/text.h>
 
 #include "alloc_int.h"
 #include "diag_int.h"
@@ -241,17 +242,24 @@ hubness(ist_diag *d, int m, ist_cmatview xs, ist_cmatview zt, const ist_store *t
     }
     d->skew[m] = ist_diag_skew(v, d->nt);
     qsort(d->hubs[m], d->nt, sizeof *d->hubs[m], cmp_hub);
-    d->nhubs[m] = o->top_hubs < d->nt ? o->top_hubs : d->nt;
-    for (size_t h = 0; h < d->nhubs[m]; h++) {
-        size_t row = (size_t)(uintptr_t)d->hubs[m][h].word;
-        d->hubs[m][h].word = NULL;
-        d->hubs[m][h].word = ist_strdup(tgt && row < ist_store_rows(tgt) ? ist_store_word(tgt, row)
-                                                                         : "?");
-        if (!d->hubs[m][h].word) {
-            d->nhubs[m] = h;
+    /* the list: the most found targets, passing over number-shaped words and codes unless
+     * asked; hubs[m][0..nhubs) is compacted in place (a listed entry never lies after the
+     * one it overwrites) */
+    for (size_t t = 0; t < d->nt && d->nhubs[m] < o->top_hubs; t++) {
+        size_t row = (size_t)(uintptr_t)d->hubs[m][t].word;
+        const char *w = tgt && row < ist_store_rows(tgt) ? ist_store_word(tgt, row) : "?";
+        uint32_t occ = d->hubs[m][t].occ;
+        if (!o->hub_numbers && ist_word_shape_of(w, strlen(w)) != IST_SHAPE_WORD) {
+            d->hubs_left_out[m]++;
+            continue;
+        }
+        diag_hub *h = &d->hubs[m][d->nhubs[m]];
+        h->occ = occ;
+        if (!(h->word = ist_strdup(w))) {
             rc = ist_error_nomem(err);
             goto done;
         }
+        d->nhubs[m]++;
     }
 done:
     ist_free(v);
@@ -283,6 +291,7 @@ ist_diag_run(ist_cmatview xs, ist_cmatview zt, const ist_store *tgt, const ist_p
     d->nq = opts->queries < xs.rows ? opts->queries : xs.rows;
     d->nt = zt.rows;
     d->neighbourhood = opts->search.csls_k;
+    d->hub_numbers = opts->hub_numbers;
     d->iso = -1;
     if ((rc = ist_search_opts_check(&opts->search, "diagnostics", err)) != IST_OK)
         goto fail;
@@ -401,4 +410,61 @@ const size_t *
 ist_diag_random_hist(const ist_diag *d)
 {
     return d->random_hist;
+}
+
+const char *
+ist_diag_hub(const ist_diag *d, ist_retrieval m, size_t i, uint32_t *occ)
+{
+    int j = m == IST_RETRIEVAL_CSLS;
+    if (i >= d->nhubs[j])
+        return NULL;
+    if (occ)
+        *occ = d->hubs[j][i].occ;
+    return d->hubs[j][i].word;
+}
+
+const char *
+ist_diag_miss_words(const ist_diag *d, size_t i, const char **ranked, const char *const **gold,
+                    size_t *ngold)
+{
+    if (i >= d->nmiss)
+        return NULL;
+    const diag_miss *m = &d->miss[i];
+    if (ranked)
+        *ranked = m->ranked;
+    if (gold)
+        *gold = (const char *const *)m->gold;
+    if (ngold)
+        *ngold = m->ngold;
+    return m->source;
+}
+
+void
+ist_diag_summarise(const ist_diag *d, ist_diag_summary *out)
+{
+    memset(out, 0, sizeof *out);
+    out->k = d->k;
+    out->queries = d->nq;
+    out->targets = d->nt;
+    out->neighbourhood = d->neighbourhood;
+    out->hub_numbers = d->hub_numbers;
+    for (int m = 0; m < 2; m++) {
+        out->skewness[m] = d->skew[m];
+        out->max_occ[m] = d->occ_max[m];
+        memcpy(out->occ_hist[m], d->occ_hist[m], sizeof out->occ_hist[m]);
+        out->hubs[m] = d->nhubs[m];
+        out->hubs_left_out[m] = d->hubs_left_out[m];
+    }
+    memcpy(out->occ_from, ist_diag_occ_from, sizeof out->occ_from);
+    out->isometry = d->iso;
+    out->isometry_terms = d->iso_terms;
+    out->isometry_words = d->iso_words;
+    out->isometry_k = d->iso_k;
+    out->misses = d->nmiss;
+    out->misses_total = d->misses_total;
+    out->misses_queries = d->queries_scored;
+    memcpy(out->gold_hist, d->gold_hist, sizeof out->gold_hist);
+    memcpy(out->random_hist, d->random_hist, sizeof out->random_hist);
+    out->gold_mean = d->gold_mean;
+    out->random_mean = d->random_mean;
 }

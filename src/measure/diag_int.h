@@ -33,6 +33,8 @@ struct ist_diag {
     uint32_t occ_max[2];
     diag_hub *hubs[2];
     size_t nhubs[2];
+    bool hub_numbers;                 /* the lists may hold number-shaped words and codes */
+    size_t hubs_left_out[2];          /* found more often than the last listed, not listed */
     double iso;                       /* < 0: skipped */
     size_t iso_terms, iso_words, iso_k;
     diag_miss *miss;

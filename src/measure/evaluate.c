@@ -35,8 +35,26 @@ dup_into(char **dst, const char *s, ist_error *err)
     return IST_OK;
 }
 
+/* A store's provenance as compact JSON when it is a JSON object (text tables have none). */
 static ist_status
-record_inputs(ist_result *r, const ist_map *map, const ist_evaluate_opts *o, ist_error *err)
+record_provenance(char **dst, const ist_store *s, ist_error *err)
+{
+    const char *p = s ? ist_store_provenance(s) : NULL;
+    ist_jv *root = NULL;
+    ist_status rc = IST_OK;
+
+    *dst = NULL;
+    if (!p || !*p || ist_json_parse(p, strlen(p), "provenance", &root, NULL) != IST_OK)
+        return IST_OK;
+    if (ist_jv_type(root) == IST_JOBJ)
+        rc = ist_json_text(root, dst, err);
+    ist_jv_free(root);
+    return rc;
+}
+
+static ist_status
+record_inputs(ist_result *r, const ist_map *map, const ist_store *src, const ist_store *tgt,
+              const ist_evaluate_opts *o, ist_error *err)
 {
     ist_status rc;
     r->version = IST_RESULT_VERSION;
@@ -53,6 +71,9 @@ record_inputs(ist_result *r, const ist_map *map, const ist_evaluate_opts *o, ist
         (rc = dup_into(&r->seeds.path, o->seeds_path, err)) != IST_OK ||
         (rc = dup_into(&r->seeds.label, o->seeds_label ? o->seeds_label : o->seeds_path, err)) !=
             IST_OK)
+        return rc;
+    if ((rc = record_provenance(&r->source.provenance, src, err)) != IST_OK ||
+        (rc = record_provenance(&r->target.provenance, tgt, err)) != IST_OK)
         return rc;
     return ist_map_describe(map, &r->map_json, err);
 }
@@ -235,7 +256,7 @@ ist_evaluate(const ist_map *map, const ist_store *src, const ist_store *tgt,
     }
     if (!(r = ist_calloc(1, sizeof *r)))
         return ist_error_nomem(err);
-    rc = record_inputs(r, map, opts, err);
+    rc = record_inputs(r, map, src, tgt, opts, err);
     if (rc == IST_OK)
         rc = record_options(r, opts, err);
     if (rc == IST_OK && test)

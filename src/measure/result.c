@@ -50,6 +50,8 @@ ist_result_free(ist_result *r)
     ist_free(r->command);
     ist_free(r->source.path);
     ist_free(r->target.path);
+    ist_free(r->source.provenance);
+    ist_free(r->target.provenance);
     ist_free(r->map_path);
     release_list(&r->seeds);
     release_list(&r->test.list);
@@ -271,10 +273,14 @@ ist_result_render(const ist_result *r, char **text, ist_error *err)
     ist_jw_obj_begin(&w, RK_SOURCE);
     ist_jw_str(&w, RK_PATH, r->source.path);
     hex(&w, RK_FINGERPRINT, r->source.has_fingerprint, r->source.fingerprint);
+    if (r->source.provenance)
+        ist_jw_raw(&w, RK_PROVENANCE, r->source.provenance);
     ist_jw_obj_end(&w);
     ist_jw_obj_begin(&w, RK_TARGET);
     ist_jw_str(&w, RK_PATH, r->target.path);
     hex(&w, RK_FINGERPRINT, r->target.has_fingerprint, r->target.fingerprint);
+    if (r->target.provenance)
+        ist_jw_raw(&w, RK_PROVENANCE, r->target.provenance);
     ist_jw_obj_end(&w);
     ist_jw_str(&w, RK_MAP, r->map_path);
     write_list(&w, RK_SEEDS, &r->seeds, RK_CHECKSUM);

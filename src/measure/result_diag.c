@@ -19,6 +19,7 @@ hubness(ist_jw *w, const char *key, const ist_diag *d, int m)
         ist_jw_obj_end(w);
     }
     ist_jw_arr_end(w);
+    ist_jw_uint(w, RK_HUBS_LEFT_OUT, d->hubs_left_out[m]);
     ist_jw_arr_begin(w, RK_DISTRIBUTION);
     for (size_t b = 0; b < IST_DIAG_OCC_BINS; b++) {
         ist_jw_obj_begin(w, NULL);
@@ -104,6 +105,7 @@ ist_result_write_diag(ist_jw *w, const ist_diag *d)
     ist_jw_uint(w, RK_QUERIES, d->nq);
     ist_jw_uint(w, RK_TARGETS, d->nt);
     ist_jw_uint(w, RK_NEIGHBOURHOOD, d->neighbourhood);
+    ist_jw_bool(w, RK_HUB_NUMBERS, d->hub_numbers);
     hubness(w, RK_COSINE, d, 0);
     hubness(w, RK_CSLS, d, 1);
     ist_jw_obj_end(w);

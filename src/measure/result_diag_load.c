@@ -34,6 +34,7 @@ read_hubs(ist_rd *r, const ist_jv *o, const char *where, ist_diag *d, int m)
     size_t v;
 
     read_num(r, o, RK_SKEWNESS, where, &d->skew[m]);
+    ist_rd_size(r, o, RK_HUBS_LEFT_OUT, false, where, &d->hubs_left_out[m]);
     if (ist_rd_size(r, o, RK_MAX_OCC, false, where, &v))
         d->occ_max[m] = (uint32_t)v;
     if (ist_jv_len(hubs) && !(d->hubs[m] = ist_calloc(ist_jv_len(hubs), sizeof *d->hubs[m]))) {
@@ -65,6 +66,8 @@ read_hubness(ist_rd *r, const ist_jv *dg, ist_diag *d)
     ist_rd_size(r, h, RK_QUERIES, false, where, &d->nq);
     ist_rd_size(r, h, RK_TARGETS, false, where, &d->nt);
     ist_rd_size(r, h, RK_NEIGHBOURHOOD, false, where, &d->neighbourhood);
+    d->hub_numbers = true;   /* files from before the list was filtered listed every hub */
+    ist_rd_bool(r, h, RK_HUB_NUMBERS, false, where, &d->hub_numbers);
     if ((m = ist_rd_get(r, h, RK_COSINE, IST_JOBJ, false, where)))
         read_hubs(r, m, where, d, 0);
     if ((m = ist_rd_get(r, h, RK_CSLS, IST_JOBJ, false, where)))

@@ -162,6 +162,9 @@ read_vectors(ist_rd *r, const ist_jv *inputs, const char *key, ist_result_vector
         return;
     out->path = ist_rd_str(r, o, RK_PATH, false, where);
     read_hex(r, o, RK_FINGERPRINT, where, &out->has_fingerprint, &out->fingerprint);
+    const ist_jv *prov = ist_rd_get(r, o, RK_PROVENANCE, IST_JOBJ, false, where);
+    if (prov && r->rc == IST_OK)
+        r->rc = ist_json_text(prov, &out->provenance, r->err);
 }
 
 static void

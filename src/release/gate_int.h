@@ -1,11 +1,15 @@
 /* gate_int.h - the structs behind the gate's handles, shared by gate.c (thresholds),
- * gate_eval.c (results, verdict) and gate_verdict.c (verdict text and JSON). */
+ * gate_eval.c (results, verdict), gate_verdict.c (verdict text and JSON) and
+ * gate_verdict_load.c (a verdict JSON read back). */
 #ifndef ISTHMUS_GATE_INT_H
 #define ISTHMUS_GATE_INT_H
 
 #include <isthmus/gate.h>
 
 #include "json_int.h"
+
+/* The verdict JSON format version written (gate_verdict.c) and read (gate_verdict_load.c). */
+#define VERDICT_FORMAT_VERSION 1
 
 struct ist_thresholds {
     char *name;                  /* file name for messages */

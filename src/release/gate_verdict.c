@@ -10,8 +10,6 @@
 #include "gate_int.h"
 #include "ofile_int.h"
 
-#define VERDICT_FORMAT_VERSION 1
-
 size_t
 ist_verdict_count(const ist_verdict *v)
 {
@@ -22,6 +20,12 @@ const ist_gate_check *
 ist_verdict_check(const ist_verdict *v, size_t i)
 {
     return i < v->n ? &v->checks[i] : NULL;
+}
+
+const char *
+ist_verdict_thresholds(const ist_verdict *v)
+{
+    return v->rules_name ? v->rules_name : "";
 }
 
 size_t
@@ -191,114 +195,5 @@ ist_verdict_write(const ist_verdict *v, const char *path, ist_error *err)
         return rc;
     rc = ist_ofile_write_text(path, text, err);
     ist_free(text);
-    return rc;
-}
-
-/* ---- reading a verdict back: schema and identity ----------------------------------- */
-
-static ist_status
-vbad(const char *path, const ist_jv *at, const char *what, ist_error *err)
-{
-    return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(at), "not a verdict of this "
-                        "isthmus: %s", what);
-}
-
-static int
-outcome_of(const char *s)
-{
-    static const char *const names[] = {"pass", "fail", "skip"};
-    for (int i = 0; s && i < 3; i++)
-        if (strcmp(s, names[i]) == 0)
-            return i;
-    return -1;
-}
-
-static ist_status
-check_rules(const char *path, const ist_jv *root, ist_error *err)
-{
-    const ist_jv *rules = ist_jv_get(root, "rules");
-    size_t tally[3] = {0, 0, 0};
-    static const char *const counts[] = {"rules_passed", "rules_failed", "rules_skipped"};
-
-    if (ist_jv_type(rules) != IST_JARR)
-        return vbad(path, root, "expected \"rules\" to be an array", err);
-    for (size_t i = 0; i < ist_jv_len(rules); i++) {
-        const ist_jv *r = ist_jv_at(rules, i);
-        int o = outcome_of(ist_jv_str(ist_jv_get(r, "outcome"), NULL));
-        if (ist_jv_type(r) != IST_JOBJ || ist_jv_type(ist_jv_get(r, "rule")) != IST_JSTR || o < 0)
-            return vbad(path, r, "expected each rule to be an object with its \"rule\" text and "
-                                 "an \"outcome\" of pass, fail or skip", err);
-        tally[o]++;
-    }
-    for (int i = 0; i < 3; i++)
-        if (ist_jv_num(ist_jv_get(root, counts[i]), -1) != (double)tally[i])
-            return vbad(path, root, "the rule counts do not agree with the rules", err);
-    const char *verdict = ist_jv_str(ist_jv_get(root, "verdict"), NULL);
-    int o = outcome_of(verdict);
-    if (o < 0 || o == 2)
-        return vbad(path, root, "expected \"verdict\" to be \"pass\" or \"fail\"", err);
-    if ((o == 1) != (tally[1] > 0))
-        return vbad(path, root, "the verdict does not follow from the rules' outcomes", err);
-    const ist_jv *cond = ist_jv_get(root, "conditions");
-    for (size_t i = 0; i < ist_jv_len(cond); i++)
-        if (ist_jv_type(ist_jv_at(cond, i)) != IST_JSTR)
-            return vbad(path, cond, "expected \"conditions\" to be a list of texts", err);
-    if (cond && ist_jv_type(cond) != IST_JARR)
-        return vbad(path, cond, "expected \"conditions\" to be a list of texts", err);
-    return IST_OK;
-}
-
-/* One recorded identity against the result's. */
-static ist_status
-same_id(const char *path, const ist_jv *holder, const char *key, bool has, uint64_t want,
-        const char *what, ist_error *err)
-{
-    const char *got = ist_jv_str(ist_jv_get(holder, key), NULL);
-    char hex[17];
-    if (!has)
-        return IST_OK;   /* the result does not record it: nothing to compare */
-    ist_result_hex(want, hex);
-    if (!got)
-        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(holder),
-                            "the verdict does not record the %s, so it cannot be shown to "
-                            "belong to this result; run the gate again", what);
-    if (strcmp(got, hex) != 0)
-        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(ist_jv_get(holder, key)),
-                            "the verdict was made for another result: %s %s, the result's %s",
-                            what, got, hex);
-    return IST_OK;
-}
-
-ist_status
-ist_verdict_check_file(const char *path, const ist_result *res, ist_error *err)
-{
-    ist_jv *root = NULL;
-    ist_status rc = ist_json_parse_file(path, &root, err);
-
-    if (rc != IST_OK)
-        return rc;
-    const char *f = ist_jv_str(ist_jv_get(root, "format"), NULL);
-    if (ist_jv_type(root) != IST_JOBJ)
-        rc = ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(root),
-                          "expected a JSON object at the top level");
-    else if (!f || strcmp(f, "isthmus verdict") != 0)
-        rc = ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(root),
-                          "expected \"format\": \"isthmus verdict\", found %s%s%s",
-                          f ? "\"" : "", f ? f : "none", f ? "\"" : "");
-    else if (ist_jv_num(ist_jv_get(root, "version"), -1) != VERDICT_FORMAT_VERSION)
-        rc = vbad(path, root, "expected \"version\": 1", err);
-    if (rc == IST_OK)
-        rc = check_rules(path, root, err);
-    const ist_jv *test = ist_jv_get(root, "test"), *vec = ist_jv_get(root, "vectors");
-    if (rc == IST_OK)
-        rc = same_id(path, test ? test : root, "list_checksum", res->test.list.has_checksum,
-                     res->test.list.checksum, "test list checksum", err);
-    if (rc == IST_OK)
-        rc = same_id(path, vec ? vec : root, "source", res->source.has_fingerprint,
-                     res->source.fingerprint, "source vectors' fingerprint", err);
-    if (rc == IST_OK)
-        rc = same_id(path, vec ? vec : root, "target", res->target.has_fingerprint,
-                     res->target.fingerprint, "target vectors' fingerprint", err);
-    ist_jv_free(root);
     return rc;
 }

@@ -103,6 +103,7 @@ class _EvalOpts(ctypes.Structure):              # ist_eval_opts
 
 class _DiagOpts(ctypes.Structure):              # ist_diag_opts
     _fields_ = [("k", _size), ("queries", _size), ("top_hubs", _size),
+                ("hub_numbers", ctypes.c_bool),
                 ("isometry_words", _size), ("isometry_k", _size), ("worst_misses", _size),
                 ("random_pairs", _size), ("seed", _u64), ("search", _SearchOpts)]
 
