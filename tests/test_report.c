@@ -29,14 +29,18 @@ put(const char *path, const char *text)
     harness_write(path, text, strlen(text));
 }
 
-/* Load the result at in and write its report, as the command does. */
+/* Load the result at in (and the verdict at v) and write its report, as the command does. */
 static ist_status
 report_file(const char *in, const char *v, const char *out, ist_error *err)
 {
     ist_result *r = NULL;
+    ist_verdict *vd = NULL;
     ist_status rc = ist_result_load(in, &r, err);
+    if (rc == IST_OK && v)
+        rc = ist_verdict_load(v, r, &vd, err);
     if (rc == IST_OK)
-        rc = ist_report_write(r, v, out, err);
+        rc = ist_report_write(r, vd, NULL, out, err);
+    ist_verdict_free(vd);
     ist_result_free(r);
     return rc;
 }
@@ -137,6 +141,112 @@ bad_input_names_file_and_line(void **state)
     harness_rmdir(dir);
 }
 
+/* The page opens with the answer (verdict, p@1 with its interval, conditions),
+ * shows figures for people (percent with one decimal, the interval beside, never a raw
+ * fraction or null), a provenance table of both vector files and what the hub list
+ * leaves out. */
+static const char *const provenanced =
+    "{\"format\": \"isthmus result\", \"version\": 1, \"command\": \"score\",\n"
+    " \"inputs\": {\"source\": {\"path\": \"en.isv\", \"fingerprint\": \"00000000000000ff\",\n"
+    "   \"provenance\": {\"producer\": \"isthmus 0.1.0\", \"text\": {\"nfkc\": true,\n"
+    "     \"casefold\": true, \"numbers\": \"keep\"}, \"corpus\": {\"sources\": [{\"path\":\n"
+    "     \"shop-en.txt.gz\"}], \"tokens\": 1344752, \"types\": 2482}, \"training\": {\"method\":\n"
+    "     \"skip-gram negative sampling\", \"dimension\": 100, \"passes\": 20, \"seed\": 3}}},\n"
+    "  \"target\": {\"path\": \"es.isv\"}},\n"
+    " \"test\": {\"path\": \"t.pairs\"},\n"
+    " \"runs\": [{\"label\": \"refined\", \"retrieval\": \"csls\", \"sources\": 441,\n"
+    "   \"queries\": 441, \"coverage\": 1, \"precision\": {\"p@1\": 0.84126984, \"p@5\": 0.9, \"p@10\": 0.95},\n"
+    "   \"ci\": {\"p@1\": [0.80952381, 0.87301587], \"p@5\": [0.87, 0.93],\n"
+    "   \"p@10\": [0.93, 0.97]},\n"
+    "   \"bands\": [{\"rank_from\": 1, \"rank_to\": 250, \"queries\": 441,\n"
+    "     \"precision\": {\"p@1\": 0.84126984, \"p@5\": 0.9, \"p@10\": 0.95}},\n"
+    "    {\"rank_from\": 251, \"rank_to\": null, \"queries\": 0,\n"
+    "     \"precision\": {\"p@1\": 0, \"p@5\": 0, \"p@10\": 0}}]}],\n"
+    " \"diagnostics\": {\"hubness\": {\"k\": 10, \"queries\": 2482, \"targets\": 2808,\n"
+    "   \"neighbourhood\": 10, \"hubs_with_numbers\": false, \"cosine\": {\"skewness\": 0.87,\n"
+    "   \"top_hubs\": [{\"word\": \"lomo\", \"k_occurrence\": 35}], \"hubs_left_out\": 6},\n"
+    "   \"csls\": {\"skewness\": 0.51,\n"
+    "   \"top_hubs\": [{\"word\": \"idea\", \"k_occurrence\": 24}],\n"
+    "   \"hubs_left_out\": 0}}}}\n";
+
+static void
+answer_first_and_figures_for_people(void **state)
+{
+    (void)state;
+    char *dir = harness_tmpdir(), *in = harness_path(dir, "r.json"),
+         *v = harness_path(dir, "v.json"), *out = harness_path(dir, "r.html");
+    ist_result *r = NULL;
+    ist_verdict *vd = NULL;
+    ist_report_opts ro;
+
+    put(in, provenanced);
+    put(v, "{\"format\": \"isthmus verdict\", \"version\": 1, \"verdict\": \"pass\", "
+           "\"rules_passed\": 1, \"rules_failed\": 0, \"rules_skipped\": 1, "
+           "\"thresholds\": \"ship.thresholds\", \"conditions\": [\"1 rule not checked\"], "
+           "\"vectors\": {\"source\": \"00000000000000ff\"}, "
+           "\"rules\": [{\"line\": 3, \"rule\": \"min p@1 csls 0.70\", "
+           "\"figure_name\": \"p@1\", \"run\": \"refined csls\", \"bound_kind\": "
+           "\"min\", \"bound\": 0.7, \"figure\": 0.84126984, \"interval\": [0.80952381, "
+           "0.87301587], \"outcome\": \"pass\"}, {\"line\": 4, \"rule\": \"max drop "
+           "precision@1 csls 0.03\", \"figure_name\": \"drop precision@1\", \"run\": null, "
+           "\"bound_kind\": \"max\", \"bound\": 0.03, \"figure\": null, \"interval\": null, "
+           "\"outcome\": \"skip\", \"note\": \"no baseline result given\"}]}");
+    ist_error err;
+    if (ist_result_load(in, &r, &err) != IST_OK || ist_verdict_load(v, r, &vd, &err) != IST_OK)
+        fail_msg("%s:%llu: %s", err.file, (unsigned long long)err.line, err.msg);
+    ist_report_opts_init(&ro);
+    ro.source_language = "English";
+    ro.target_language = "Spanish";
+    assert_int_equal(ist_report_write(r, vd, &ro, out, NULL), IST_OK);
+    char *h = slurp(out);
+    const char *ans = strstr(h, "Can we ship these vectors?");
+    assert_non_null(ans);
+    assert_true(ans < strstr(h, "id=\"verdict\""));        /* the answer before every section */
+    assert_true(ans < strstr(h, "id=\"headline\""));
+    assert_non_null(strstr(ans, "Yes, with conditions"));
+    assert_non_null(strstr(ans, "p@1 <strong>84.1%</strong> <span class=\"muted\">"
+                                "[81.0, 87.3]</span> (refined map, CSLS) over 441 test words"));
+    assert_non_null(strstr(h, "<strong>Conditions:</strong> 1 rule not checked"));
+    assert_non_null(strstr(h, "English \xe2\x86\x92 Spanish"));
+    /* the verdict table: percents and intervals, no raw fraction, no null */
+    const char *vt = strstr(h, "id=\"verdict\""), *vend = strstr(h, "id=\"reading\"");
+    assert_non_null(vt);
+    assert_non_null(vend);
+    char *gate = strndup(vt, (size_t)(vend - vt));
+    assert_non_null(strstr(gate, "84.1% <span class=\"muted\">[81.0, 87.3]</span>"));
+    assert_non_null(strstr(gate, "at least 70.0%"));
+    assert_non_null(strstr(gate, "no baseline result given"));
+    assert_non_null(strstr(gate, "not checked"));
+    assert_null(strstr(gate, "0.841"));
+    assert_null(strstr(gate, "null"));
+    free(gate);
+    /* every figure explained; a band without test words left out */
+    assert_non_null(strstr(h, "<dt>Cosine and CSLS</dt>"));
+    assert_non_null(strstr(h, "<dt>Seed map and refined map</dt>"));
+    assert_non_null(strstr(h, "1 of 2 bands hold test words"));
+    assert_null(strstr(h, "<td>251+</td>"));          /* no row for the empty band */
+    /* provenance: a readable table, not raw keys */
+    assert_non_null(strstr(h, "<th scope=\"row\">language</th><td>English</td><td>Spanish</td>"));
+    assert_non_null(strstr(h, "<th scope=\"row\">method</th><td>skip-gram negative "
+                              "sampling</td>"));
+    assert_non_null(strstr(h, "<th scope=\"row\">dimension</th><td>100</td>"));
+    assert_non_null(strstr(h, "<td>1,344,752 tokens, 2,482 words kept</td>"));
+    assert_non_null(strstr(h, "<th scope=\"row\">passes over the corpus</th><td>20</td>"));
+    assert_non_null(strstr(h, "<td>NFKC, case folded, numbers: keep</td>"));
+    assert_non_null(strstr(h, "<code>shop-en.txt.gz</code>"));
+    assert_null(strstr(h, "inputs.source"));
+    /* the hub list says what it leaves out */
+    assert_non_null(strstr(h, "<td>lomo</td>"));
+    assert_non_null(strstr(h, "6 under cosine and 0 under CSLS"));
+    free(h);
+    ist_verdict_free(vd);
+    ist_result_free(r);
+    free(in);
+    free(v);
+    free(out);
+    harness_rmdir(dir);
+}
+
 /* Every allocation of the report can fail: IST_ERR_NOMEM, nothing leaked, no page left. */
 static void
 report_survives_every_failed_allocation(void **state)
@@ -177,6 +287,7 @@ main(void)
         cmocka_unit_test(escapes_input_text),
         cmocka_unit_test(shows_a_verdict_and_tolerates_a_bare_result),
         cmocka_unit_test(bad_input_names_file_and_line),
+        cmocka_unit_test(answer_first_and_figures_for_people),
         cmocka_unit_test(report_survives_every_failed_allocation),
     };
     HARNESS_RUN("report", tests);

@@ -1,4 +1,6 @@
-/* report.c - the self-contained HTML report of a result file (and a verdict). */
+/* report.c - the self-contained HTML report of a result (and the gate's verdict on it):
+ * the answer first, then how to read the figures, the figures, the diagnostics and how
+ * the inputs were made. */
 #include <isthmus/report.h>
 
 #include <math.h>
@@ -9,12 +11,11 @@
 
 #include "alloc_int.h"
 #include "error_int.h"
-#include "json_int.h"
 #include "ofile_int.h"
 #include "report_int.h"
 
-#define MAX_RUNS 16
-#define MAX_BANDS 16
+#define MAX_BANDS IST_METRICS_MAX_BANDS
+#define DASH "\xe2\x80\x94"
 
 static const char *const style =
     "body{font-family:system-ui,'DejaVu Sans',sans-serif;color:#1c1c1c;background:#fff;"
@@ -23,126 +24,108 @@ static const char *const style =
     "border-bottom:2px solid #1b4f72;padding-bottom:.15em}"
     "table{border-collapse:collapse;margin:.6em 0}th,td{border:1px solid #a6acaf;"
     "padding:3px 8px;text-align:left;vertical-align:top}th{background:#eaf0f5}"
-    "td.n{text-align:right;font-variant-numeric:tabular-nums}"
+    "td.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}"
     ".caution{border:2px solid #7d4e00;background:#fff6e5;padding:8px 12px;margin:12px 0}"
-    ".headline{font-size:1.25em}.muted{color:#4d5656}"
+    ".answer{font-size:1.3em;border:3px solid #1b4f72;padding:10px 14px;margin:12px 0}"
+    ".headline{font-size:1.15em}.muted{color:#4d5656}"
     ".pass{color:#14532d;background:#e3f4e8;font-weight:bold}"
     ".fail{color:#8b1a1a;background:#fbe4e4;font-weight:bold}"
     ".other{color:#4a3b00;background:#fbf3d0;font-weight:bold}"
-    ".badge{display:inline-block;padding:2px 10px;border:2px solid currentColor;border-radius:4px}"
+    ".badge{display:inline-block;white-space:nowrap;padding:2px 10px;"
+    "border:2px solid currentColor;border-radius:4px}"
+    "dl.terms dt{font-weight:bold;margin-top:.4em}dl.terms dd{margin-left:1.5em}"
     "svg.chart{max-width:100%;height:auto;font-family:inherit;display:block;margin:.4em 0}"
     ".row{display:flex;flex-wrap:wrap;gap:16px}.row>figure{flex:1 1 460px;margin:0}"
     ".row svg.chart{width:100%}figcaption h3{margin:.3em 0}"
     "code{font-family:'DejaVu Sans Mono',monospace;font-size:.92em;word-break:break-all}"
+    "code.rule{word-break:normal}"
     "@media print{body{max-width:none;padding:0;font-size:10pt}h2{break-after:avoid}"
     "section,table,svg{break-inside:avoid}.caution{background:none}"
     "th{background:none}}@page{margin:15mm}";
 
 typedef struct rep {
     rbuf b;
-    const ist_jv *res, *verdict;
+    const ist_result *res;
+    const ist_verdict *v;
+    const ist_report_opts *o;
     int chart_id;
 } rep;
 
-static void
-esc_num(rbuf *b, const ist_jv *v)
+void
+ist_report_opts_init(ist_report_opts *o)
 {
-    if (ist_jv_type(v) == IST_JNUM)
-        rb_printf(b, "%.6g", ist_jv_num(v, 0));
-    else if (ist_jv_type(v) == IST_JSTR)
-        rb_esc(b, ist_jv_str(v, ""));
-    else if (ist_jv_type(v) == IST_JBOOL)
-        rb_put(b, ist_jv_bool(v, false) ? "true" : "false");
-    else
-        rb_put(b, "\xe2\x80\x94");
+    memset(o, 0, sizeof *o);
 }
 
-/* Any JSON value as compact text, escaped for HTML. */
-static void
-esc_json(rbuf *b, const ist_jv *v)
-{
-    switch (ist_jv_type(v)) {
-    case IST_JSTR:
-        rb_put(b, "\"");
-        rb_esc(b, ist_jv_str(v, ""));
-        rb_put(b, "\"");
-        break;
-    case IST_JARR:
-    case IST_JOBJ: {
-        bool obj = ist_jv_type(v) == IST_JOBJ;
-        rb_put(b, obj ? "{" : "[");
-        for (size_t i = 0; i < ist_jv_len(v); i++) {
-            if (i)
-                rb_put(b, ", ");
-            if (obj) {
-                rb_esc(b, ist_jv_key(v, i));
-                rb_put(b, ": ");
-            }
-            esc_json(b, ist_jv_at(v, i));
-        }
-        rb_put(b, obj ? "}" : "]");
-        break;
-    }
-    case IST_JNULL: rb_put(b, "null"); break;
-    default: esc_num(b, v);
-    }
-}
-
-static void
-pct(rbuf *b, double v)
+void
+rb_pct(rbuf *b, double v)
 {
     if (isnan(v))
-        rb_put(b, "\xe2\x80\x94");
+        rb_put(b, DASH);
     else
         rb_printf(b, "%.1f%%", 100 * v);
 }
 
-/* The interval of figure key ("p@1") in a "ci" object; false when absent. */
-static bool
-ci_of(const ist_jv *holder, const char *key, double *lo, double *hi)
+void
+rb_pct_iv(rbuf *b, double lo, double hi)
 {
-    const ist_jv *a = ist_jv_get(ist_jv_get(holder, "ci"), key);
-    if (ist_jv_type(a) != IST_JARR || ist_jv_len(a) != 2 ||
-        ist_jv_type(ist_jv_at(a, 0)) != IST_JNUM || ist_jv_type(ist_jv_at(a, 1)) != IST_JNUM)
-        return false;
-    *lo = ist_jv_num(ist_jv_at(a, 0), 0);
-    *hi = ist_jv_num(ist_jv_at(a, 1), 0);
-    return true;
+    if (!isnan(lo) && !isnan(hi))
+        rb_printf(b, " <span class=\"muted\">[%.1f, %.1f]</span>", 100 * lo, 100 * hi);
 }
 
+/* A whole number with thousands separated by commas. */
 static void
-figure_cell(rbuf *b, const ist_jv *holder, const char *key)
+count(rbuf *b, unsigned long long n)
 {
-    double lo, hi;
+    char d[32];
+    int len = snprintf(d, sizeof d, "%llu", n);
+    for (int i = 0; i < len; i++) {
+        if (i && (len - i) % 3 == 0)
+            rb_put(b, ",");
+        rb_printf(b, "%c", d[i]);
+    }
+}
+
+/* "refined map, CSLS": the map stage and the retrieval method of a run, for people. */
+static void
+run_name(const ist_result_run *run, char *buf, size_t cap)
+{
+    const char *l = run->label ? run->label : "";
+    snprintf(buf, cap, "%s, %s",
+             strcmp(l, "refined") == 0      ? "refined map"
+             : strcmp(l, "procrustes") == 0 ? "seed map (Procrustes)"
+                                            : l,
+             run->m.method == IST_RETRIEVAL_CSLS ? "CSLS" : "cosine");
+}
+
+/* The run the answer quotes: the last CSLS run, else the last run. */
+static const ist_result_run *
+headline_run(const ist_result *res)
+{
+    const ist_result_run *pick = NULL;
+    for (size_t i = 0; i < res->nruns; i++)
+        if (!pick || res->runs[i].m.method == IST_RETRIEVAL_CSLS)
+            pick = &res->runs[i];
+    return pick;
+}
+
+/* p@ist_metrics_k(j) (precision) overall (band < 0) or in a band, with its interval. */
+static void
+figure_cell(rbuf *b, const ist_result_run *run, int band, size_t j)
+{
+    size_t q = band < 0 ? run->m.queries : run->m.band[band].queries;
+    double p = band < 0 ? run->m.p[j] : run->m.band[band].p[j];
     rb_put(b, "<td class=\"n\">");
-    if (ist_jv_num(ist_jv_get(holder, "queries"), 1) == 0) {
-        rb_put(b, "\xe2\x80\x94</td>");
+    if (q == 0) {
+        rb_put(b, DASH "</td>");
         return;
     }
-    pct(b, ist_jv_num(ist_jv_get(ist_jv_get(holder, "precision"), key), NAN));
-    if (ci_of(holder, key, &lo, &hi))
-        rb_printf(b, " <span class=\"muted\">[%.1f, %.1f]</span>", 100 * lo, 100 * hi);
+    rb_pct(b, p);
+    if (run->has_ci && band < 0)
+        rb_pct_iv(b, run->ci.lo[j], run->ci.hi[j]);
+    else if (run->has_ci && run->band_has_ci[band])
+        rb_pct_iv(b, run->ci.band_lo[band][j], run->ci.band_hi[band][j]);
     rb_put(b, "</td>");
-}
-
-static void
-run_name(const ist_jv *run, char *buf, size_t cap)
-{
-    snprintf(buf, cap, "%s, %s", ist_jv_str(ist_jv_get(run, "label"), "run"),
-             ist_jv_str(ist_jv_get(run, "retrieval"), "?"));
-}
-
-/* The run the headline quotes: the last CSLS run, else the last run. */
-static const ist_jv *
-headline_run(const ist_jv *runs)
-{
-    const ist_jv *pick = NULL;
-    for (size_t i = 0; i < ist_jv_len(runs); i++) {
-        const ist_jv *r = ist_jv_at(runs, i);
-        if (!pick || strcmp(ist_jv_str(ist_jv_get(r, "retrieval"), ""), "csls") == 0)
-            pick = r;
-    }
-    return pick;
 }
 
 static void
@@ -153,167 +136,301 @@ caution(rbuf *b)
               "of the language before they drive anything customer-facing or financial.</p>\n");
 }
 
-/* The conditions a pass carries (from the verdict, or the result's leakage alone). */
-static void
-conditions_note(rep *r)
+static const char *
+language(const char *name, const char *fallback)
 {
-    const ist_jv *cond = ist_jv_get(r->verdict, "conditions");
-    double leak = ist_jv_num(ist_jv_get(ist_jv_get(r->res, "test"), "overlap_with_seeds"), 0);
-    if (ist_jv_len(cond) == 0 && !(leak > 0))
-        return;
-    rb_put(&r->b, "<p class=\"caution\" role=\"note\"><strong>Conditions:</strong> ");
-    if (ist_jv_len(cond) == 0)
-        rb_printf(&r->b, "leakage: %.0f test source words are also seed source words, so the "
-                         "figures overstate how well the map translates", leak);
-    for (size_t i = 0; i < ist_jv_len(cond); i++) {
-        rb_put(&r->b, i ? "; " : "");
-        rb_esc(&r->b, ist_jv_str(ist_jv_at(cond, i), ""));
-    }
-    rb_put(&r->b, ".</p>\n");
+    return name && *name ? name : fallback;
+}
+
+/* ---- the answer and the verdict ------------------------------------------------- */
+
+/* "p@1 86.8% [83.7, 90.2] (refined map, CSLS) over 441 test words" */
+static void
+quote_figure(rep *r, const ist_result_run *h)
+{
+    char name[96];
+    run_name(h, name, sizeof name);
+    rb_put(&r->b, "p@1 <strong>");
+    rb_pct(&r->b, h->m.p[0]);
+    rb_put(&r->b, "</strong>");
+    if (h->has_ci)
+        rb_pct_iv(&r->b, h->ci.lo[0], h->ci.hi[0]);
+    rb_put(&r->b, " (");
+    rb_esc(&r->b, name);
+    rb_put(&r->b, ") over ");
+    count(&r->b, h->m.queries);
+    rb_put(&r->b, " test words, coverage ");
+    rb_pct(&r->b, h->m.coverage);
 }
 
 static void
-headline(rep *r)
+answer(rep *r)
 {
-    const ist_jv *runs = ist_jv_get(r->res, "runs"), *h = headline_run(runs);
+    const ist_result_run *h = headline_run(r->res);
     rbuf *b = &r->b;
-    char name[160];
+    size_t fail = r->v ? ist_verdict_tally(r->v, IST_GATE_FAIL) : 0;
+    size_t skip = r->v ? ist_verdict_tally(r->v, IST_GATE_SKIP) : 0;
+    size_t n = r->v ? ist_verdict_count(r->v) : 0;
+    const char *cond0 = r->v ? ist_verdict_condition(r->v, 0) : NULL;
 
-    rb_put(b, "<section><h2 id=\"headline\">Headline figures</h2>\n");
-    if (!h) {
-        rb_put(b, "<p>This result holds no scored run.</p></section>\n");
+    rb_put(b, "<p class=\"answer\" id=\"answer\">Can we ship these vectors? ");
+    if (!r->v)
+        rb_put(b, "<span class=\"badge other\">? not decided</span> no gate verdict was given "
+                  "(<code>isthmus gate --verdict-out=V.json</code>, then "
+                  "<code>isthmus report --verdict=V.json</code>)");
+    else if (fail)
+        rb_printf(b, "<span class=\"badge fail\">\xe2\x9c\x97 No</span> %zu of %zu release "
+                     "rules fail", fail, n);
+    else if (cond0)
+        rb_printf(b, "<span class=\"badge other\">\xe2\x9c\x93 Yes, with conditions</span> "
+                     "%zu of %zu release rules pass, on the conditions below", n - skip, n);
+    else
+        rb_printf(b, "<span class=\"badge pass\">\xe2\x9c\x93 Yes</span> all %zu release "
+                     "rules pass", n);
+    if (h) {
+        rb_put(b, "; ");
+        quote_figure(r, h);
+    } else {
+        rb_put(b, "; this result holds no scored run");
+    }
+    rb_put(b, ".</p>\n");
+    if (r->v && ist_verdict_condition(r->v, 0)) {
+        rb_put(b, "<p class=\"caution\" role=\"note\"><strong>Conditions:</strong> ");
+        for (size_t i = 0; ist_verdict_condition(r->v, i); i++) {
+            rb_put(b, i ? "; " : "");
+            rb_esc(b, ist_verdict_condition(r->v, i));
+        }
+        rb_put(b, ".");
+        for (size_t i = 0; ist_verdict_condition(r->v, i); i++)
+            rb_put(b, strncmp(ist_verdict_condition(r->v, i), "leakage", 7) == 0
+                          ? " Leakage: the figures overstate how well the map translates words "
+                            "it has not seen among its seeds."
+                          : " A rule not checked could not be judged on this result (its note "
+                            "in the table says why); the gate's 'refuse unchecked' rule makes "
+                            "that a failure.");
+        rb_put(b, "</p>\n");
+    } else if (!r->v && r->res->test.has_overlap && r->res->test.overlap > 0) {
+        rb_printf(b, "<p class=\"caution\" role=\"note\"><strong>Conditions:</strong> leakage: "
+                     "%zu test source words are also seed source words, so the figures "
+                     "overstate how well the map translates new words.</p>\n",
+                  r->res->test.overlap);
+    }
+}
+
+/* A check's run ("refined csls") in the words of the other tables ("refined map, CSLS"). */
+static void
+run_words(rbuf *b, const char *run)
+{
+    char stage[48] = "", method[48] = "";
+    if (sscanf(run, "%47s %47s", stage, method) != 2) {
+        rb_esc(b, run);
         return;
     }
-    run_name(h, name, sizeof name);
-    conditions_note(r);
-    rb_put(b, "<p class=\"headline\">Precision@1: <strong>");
-    pct(b, ist_jv_num(ist_jv_get(ist_jv_get(h, "precision"), "p@1"), NAN));
-    rb_put(b, "</strong> (");
-    rb_esc(b, name);
-    rb_printf(b, "), over %.0f covered test words; coverage ",
-              ist_jv_num(ist_jv_get(h, "queries"), 0));
-    pct(b, ist_jv_num(ist_jv_get(h, "coverage"), NAN));
-    rb_put(b, ".</p>\n<table><caption class=\"muted\">Precision over covered test words; "
-              "bracketed: 95% confidence interval where the result has one</caption>\n"
-              "<tr><th>map</th><th>retrieval</th><th>queries</th><th>coverage</th>"
-              "<th>P@1</th><th>P@5</th><th>P@10</th></tr>\n");
-    for (size_t i = 0; i < ist_jv_len(runs); i++) {
-        const ist_jv *run = ist_jv_at(runs, i);
-        rb_put(b, "<tr><td>");
-        rb_esc(b, ist_jv_str(ist_jv_get(run, "label"), ""));
-        rb_put(b, "</td><td>");
-        rb_esc(b, ist_jv_str(ist_jv_get(run, "retrieval"), ""));
-        rb_printf(b, "</td><td class=\"n\">%.0f</td><td class=\"n\">",
-                  ist_jv_num(ist_jv_get(run, "queries"), 0));
-        pct(b, ist_jv_num(ist_jv_get(run, "coverage"), NAN));
-        rb_put(b, "</td>");
-        figure_cell(b, run, "p@1");
-        figure_cell(b, run, "p@5");
-        figure_cell(b, run, "p@10");
-        rb_put(b, "</tr>\n");
-    }
-    rb_put(b, "</table></section>\n");
+    rb_put(b, strcmp(stage, "refined") == 0      ? "refined map"
+              : strcmp(stage, "procrustes") == 0 ? "seed map (Procrustes)"
+                                                 : stage);
+    rb_put(b, ", ");
+    rb_put(b, strcmp(method, "csls") == 0 ? "CSLS" : strcmp(method, "cosine") == 0 ? "cosine"
+                                                                                  : "?");
 }
 
 static const char *
-outcome_class(const ist_jv *o, const char **text)
+outcome_word(ist_gate_outcome o, const char **cls)
 {
-    const char *s = ist_jv_type(o) == IST_JBOOL ? (ist_jv_bool(o, false) ? "pass" : "fail")
-                                                : ist_jv_str(o, "?");
-    *text = s;
-    if (strcmp(s, "pass") == 0 || strcmp(s, "PASS") == 0 || strcmp(s, "passed") == 0)
-        return "pass";
-    if (strcmp(s, "fail") == 0 || strcmp(s, "FAIL") == 0 || strcmp(s, "failed") == 0)
-        return "fail";
-    return "other";
+    *cls = o == IST_GATE_PASS ? "pass" : o == IST_GATE_FAIL ? "fail" : "other";
+    if (o == IST_GATE_PASS)
+        return "\xe2\x9c\x93 pass";
+    return o == IST_GATE_FAIL ? "\xe2\x9c\x97 fail" : "\xe2\x80\x93 not checked";
+}
+
+/* The measured figure of a check, for people. */
+static void
+check_figure(rbuf *b, const ist_gate_check *c)
+{
+    const ist_gate_rule *u = c->rule;
+    if (c->outcome == IST_GATE_SKIP || isnan(c->figure)) {
+        rb_put(b, DASH);
+    } else if (u->figure == IST_GATE_LEAKAGE || u->figure == IST_GATE_UNCHECKED) {
+        rb_printf(b, "%.0f", c->figure);
+    } else if (u->figure == IST_GATE_DROP) {
+        rb_printf(b, "%+.1f points", 100 * c->figure);
+        if (c->has_interval)
+            rb_printf(b, " <span class=\"muted\">[%+.1f, %+.1f]</span>", 100 * c->lo,
+                      100 * c->hi);
+        rb_put(b, "<br><span class=\"muted\">");
+        rb_pct(b, c->new_value);
+        rb_put(b, " against ");
+        rb_pct(b, c->baseline_value);
+        rb_put(b, " before</span>");
+    } else {
+        rb_pct(b, c->figure);
+        if (c->has_interval)
+            rb_pct_iv(b, c->lo, c->hi);
+    }
 }
 
 static void
-outcome(rbuf *b, const ist_jv *o)
+check_bound(rbuf *b, const ist_gate_rule *u)
 {
-    const char *text, *cls = outcome_class(o, &text);
-    rb_printf(b, "<span class=\"badge %s\">%s ", cls,
-              strcmp(cls, "pass") == 0   ? "\xe2\x9c\x93"
-              : strcmp(cls, "fail") == 0 ? "\xe2\x9c\x97"
-                                         : "?");
-    rb_esc(b, text);
-    rb_put(b, "</span>");
+    if (u->figure == IST_GATE_LEAKAGE)
+        rb_put(b, "no test word may be a seed");
+    else if (u->figure == IST_GATE_UNCHECKED)
+        rb_put(b, "every other rule checked");
+    else if (u->figure == IST_GATE_DROP)
+        rb_printf(b, "fails when the whole interval lies below %.1f points", -100 * u->bound);
+    else if (!isnan(u->bound)) {
+        rb_put(b, u->bound_kind == IST_GATE_MIN ? "at least " : "at most ");
+        rb_pct(b, u->bound);
+    }
 }
 
 static void
 verdict(rep *r)
 {
     rbuf *b = &r->b;
-    const ist_jv *rules = ist_jv_get(r->verdict, "rules");
 
     rb_put(b, "<section><h2 id=\"verdict\">Gate verdict</h2>\n");
-    if (!r->verdict) {
+    if (!r->v) {
         rb_put(b, "<p class=\"muted\">No verdict file was given, so no release rule was checked "
                   "for this report.</p></section>\n");
         return;
     }
-    rb_put(b, "<p class=\"headline\">Overall: ");
-    /* the gate writes "verdict"; "overall" is accepted for hand-made files */
-    const ist_jv *overall = ist_jv_get(r->verdict, "verdict");
-    outcome(b, overall ? overall : ist_jv_get(r->verdict, "overall"));
-    rb_put(b, "</p>\n");
-    if (ist_jv_type(rules) == IST_JARR && ist_jv_len(rules)) {
-        rb_put(b, "<table><tr><th>rule</th><th>figure</th><th>bound</th><th>outcome</th></tr>\n");
-        for (size_t i = 0; i < ist_jv_len(rules); i++) {
-            const ist_jv *rule = ist_jv_at(rules, i);
-            rb_put(b, "<tr><td>");
-            esc_num(b, ist_jv_get(rule, "rule"));
-            rb_put(b, "</td><td class=\"n\">");
-            esc_json(b, ist_jv_get(rule, "figure"));
-            rb_put(b, "</td><td class=\"n\">");
-            esc_json(b, ist_jv_get(rule, "bound"));
-            rb_put(b, "</td><td>");
-            outcome(b, ist_jv_get(rule, "outcome"));
-            rb_put(b, "</td></tr>\n");
-        }
-        rb_put(b, "</table>\n");
+    rb_printf(b, "<p>Rules of <code>");
+    rb_esc(b, ist_verdict_thresholds(r->v));
+    rb_printf(b, "</code>: %zu pass, %zu fail, %zu not checked. Each precision figure has its "
+                 "95%% interval beside it in brackets.</p>\n",
+              ist_verdict_tally(r->v, IST_GATE_PASS), ist_verdict_tally(r->v, IST_GATE_FAIL),
+              ist_verdict_tally(r->v, IST_GATE_SKIP));
+    if (ist_verdict_count(r->v) == 0) {
+        rb_put(b, "</section>\n");
+        return;
     }
-    rb_put(b, "</section>\n");
+    rb_put(b, "<table><tr><th>line</th><th>rule</th><th>run</th><th>measured</th>"
+              "<th>bound</th><th>outcome</th></tr>\n");
+    for (size_t i = 0; i < ist_verdict_count(r->v); i++) {
+        const ist_gate_check *c = ist_verdict_check(r->v, i);
+        const char *cls, *word = outcome_word(c->outcome, &cls);
+        rb_printf(b, "<tr><td class=\"n\">%zu</td><td><code class=\"rule\">", c->rule->line);
+        rb_esc(b, c->rule->text);
+        rb_put(b, "</code>");
+        if (c->note[0]) {
+            rb_put(b, "<br><span class=\"muted\">");
+            rb_esc(b, c->note);
+            rb_put(b, "</span>");
+        }
+        rb_put(b, "</td><td>");
+        run_words(b, c->run);
+        rb_put(b, "</td><td class=\"n\">");
+        check_figure(b, c);
+        rb_put(b, "</td><td>");
+        check_bound(b, c->rule);
+        rb_printf(b, "</td><td><span class=\"badge %s\">%s</span></td></tr>\n", cls, word);
+    }
+    rb_put(b, "</table></section>\n");
+}
+
+/* ---- how to read it -------------------------------------------------------------- */
+
+static void
+glossary(rep *r)
+{
+    rb_put(&r->b,
+           "<section><h2 id=\"reading\">How to read this report</h2>\n<dl class=\"terms\">\n"
+           "<dt>p@1, p@5, p@10 (precision@k)</dt><dd>The share of test words whose right "
+           "translation "
+           "(a gold target of the test list) is the first, or among the first 5 or 10, of all "
+           "target words the map ranks for it.</dd>\n"
+           "<dt>Interval</dt><dd>The bracketed range beside a figure is its 95% percentile "
+           "bootstrap interval over the test words (Efron and Tibshirani 1993): how far the "
+           "figure could move with another test list of the same size drawn from the same "
+           "kind of words.</dd>\n"
+           "<dt>Coverage</dt><dd>The share of the test list's source words that are in both "
+           "vector files; only covered words are scored.</dd>\n"
+           "<dt>Cosine and CSLS</dt><dd>Two ways to rank target words: cosine similarity "
+           "alone, or CSLS (cross-domain similarity local scaling, Conneau et al. 2018), "
+           "which lowers the score of target words that are near to everything so that they "
+           "do not crowd out the right answer.</dd>\n"
+           "<dt>Seed map and refined map</dt><dd>The seed map is the rotation fitted "
+           "(orthogonal Procrustes) on the seed word list alone; the refined map is fitted "
+           "again on the pairs it finds itself among frequent words, which usually helps.</dd>\n"
+           "<dt>Frequency band</dt><dd>Test words grouped by how frequent their source word is "
+           "(rank 1 is the most frequent); rare words are usually translated worse.</dd>\n"
+           "<dt>Gate</dt><dd>The release rules (a thresholds file) checked against these "
+           "figures; a rule on a precision passes when the figure meets its bound.</dd>\n"
+           "</dl></section>\n");
+}
+
+/* ---- figures ---------------------------------------------------------------------- */
+
+static void
+runs_table(rep *r)
+{
+    rbuf *b = &r->b;
+
+    rb_put(b, "<section><h2 id=\"headline\">Headline figures</h2>\n");
+    if (r->res->nruns == 0) {
+        rb_put(b, "<p>This result holds no scored run.</p></section>\n");
+        return;
+    }
+    rb_put(b, "<p>Every scored run: each map stage with each ranking. Bracketed: the 95% "
+              "interval.</p>\n<table><tr><th>map, ranking</th><th>test words scored</th>"
+              "<th>coverage</th><th>p@1</th><th>p@5</th><th>p@10</th>"
+              "</tr>\n");
+    for (size_t i = 0; i < r->res->nruns; i++) {
+        const ist_result_run *run = &r->res->runs[i];
+        char name[96];
+        run_name(run, name, sizeof name);
+        rb_put(b, "<tr><td>");
+        rb_esc(b, name);
+        rb_put(b, "</td><td class=\"n\">");
+        count(b, run->m.queries);
+        rb_put(b, "</td><td class=\"n\">");
+        rb_pct(b, run->m.coverage);
+        rb_put(b, "</td>");
+        for (size_t j = 0; j < IST_METRICS_NK; j++)
+            figure_cell(b, run, -1, j);
+        rb_put(b, "</tr>\n");
+    }
+    rb_put(b, "</table></section>\n");
 }
 
 static void
-band_label(const ist_jv *band, char *buf, size_t cap)
+band_label(const ist_band *band, char *buf, size_t cap)
 {
-    double from = ist_jv_num(ist_jv_get(band, "rank_from"), 1);
-    const ist_jv *to = ist_jv_get(band, "rank_to");
-    if (ist_jv_type(to) == IST_JNUM)
-        snprintf(buf, cap, "%.0f\xe2\x80\x93%.0f", from, ist_jv_num(to, 0));
+    if (band->hi)
+        snprintf(buf, cap, "%zu\xe2\x80\x93%zu", band->lo, band->hi);
     else
-        snprintf(buf, cap, "%.0f+", from);
+        snprintf(buf, cap, "%zu+", band->lo);
 }
 
 static void
-band_chart(rep *r, const ist_jv *runs, const char *key, size_t nb, const size_t *keep,
-           const char *const *cats)
+band_chart(rep *r, size_t j, size_t nb, const size_t *keep, const char *const *cats)
 {
-    double v[MAX_RUNS][MAX_BANDS], lo[MAX_RUNS][MAX_BANDS], hi[MAX_RUNS][MAX_BANDS];
-    char names[RS_MAX_SERIES][160], title[96];
+    double v[RS_MAX_SERIES][MAX_BANDS], lo[RS_MAX_SERIES][MAX_BANDS], hi[RS_MAX_SERIES][MAX_BANDS];
+    char names[RS_MAX_SERIES][96], title[96], key[24];
     rseries s[RS_MAX_SERIES];
-    size_t ns = 0, nr = ist_jv_len(runs);
+    size_t ns = 0, nr = r->res->nruns;
 
     /* at most four series: the last four runs (the refined ones come last) */
     for (size_t i = nr > RS_MAX_SERIES ? nr - RS_MAX_SERIES : 0; i < nr; i++, ns++) {
-        const ist_jv *run = ist_jv_at(runs, i), *bands = ist_jv_get(run, "bands");
-        for (size_t j = 0; j < nb; j++) {
-            const ist_jv *band = ist_jv_at(bands, keep[j]);
-            bool has = ist_jv_num(ist_jv_get(band, "queries"), 0) > 0;
-            v[ns][j] = has ? ist_jv_num(ist_jv_get(ist_jv_get(band, "precision"), key), NAN) : NAN;
-            if (!has || !ci_of(band, key, &lo[ns][j], &hi[ns][j]))
-                lo[ns][j] = hi[ns][j] = NAN;
+        const ist_result_run *run = &r->res->runs[i];
+        for (size_t c = 0; c < nb; c++) {
+            const ist_band *band = &run->m.band[keep[c]];
+            bool has = keep[c] < run->m.nbands && band->queries > 0;
+            v[ns][c] = has ? band->p[j] : NAN;
+            bool ci = has && run->has_ci && run->band_has_ci[keep[c]];
+            lo[ns][c] = ci ? run->ci.band_lo[keep[c]][j] : NAN;
+            hi[ns][c] = ci ? run->ci.band_hi[keep[c]][j] : NAN;
         }
         run_name(run, names[ns], sizeof names[ns]);
         s[ns] = (rseries){names[ns], v[ns], lo[ns], hi[ns]};
     }
-    snprintf(title, sizeof title, "Precision %s by frequency band", key);
+    snprintf(key, sizeof key, "p@%zu", ist_metrics_k(j));
+    snprintf(title, sizeof title, "p@%zu by frequency band", ist_metrics_k(j));
     rchart c = {.id = ++r->chart_id, .title = title,
                 .desc = "Grouped bars, one group per frequency band of the source words, one bar "
-                        "per run; black whiskers show the 95% confidence interval where the "
-                        "result has one. The table below gives the same figures.",
+                        "per run; black whiskers show the 95% interval where the result has "
+                        "one. The table below gives the same figures.",
                 .ylabel = key, .xlabel = "frequency rank of the source word", .cats = cats,
                 .ncat = nb, .s = s, .ns = ns, .ymax = 1, .percent = true, .labels = true,
                 .width = 520};
@@ -325,202 +442,277 @@ band_chart(rep *r, const ist_jv *runs, const char *key, size_t nb, const size_t 
 static void
 bands(rep *r)
 {
-    const ist_jv *runs = ist_jv_get(r->res, "runs");
     char cats_buf[MAX_BANDS][48];
     const char *cats[MAX_BANDS];
     size_t nb = 0, keep[MAX_BANDS], nk = 0;
     rbuf *b = &r->b;
 
     rb_put(b, "<section><h2 id=\"bands\">Precision by frequency band</h2>\n");
-    for (size_t i = 0; i < ist_jv_len(runs); i++) {
-        size_t n = ist_jv_len(ist_jv_get(ist_jv_at(runs, i), "bands"));
-        nb = n > nb ? n : nb;
-    }
-    nb = nb < MAX_BANDS ? nb : MAX_BANDS;
-    if (ist_jv_len(runs) == 0 || nb == 0) {
+    for (size_t i = 0; i < r->res->nruns; i++)
+        nb = r->res->runs[i].m.nbands > nb ? r->res->runs[i].m.nbands : nb;
+    if (nb == 0) {
         rb_put(b, "<p>The result has no bands.</p></section>\n");
         return;
     }
     for (size_t j = 0; j < nb; j++) {
-        bool any = false;
-        for (size_t i = 0; i < ist_jv_len(runs); i++)
-            any |= ist_jv_num(ist_jv_get(ist_jv_at(ist_jv_get(ist_jv_at(runs, i), "bands"), j),
-                                         "queries"), 0) > 0;
-        if (!any)
+        const ist_band *first = NULL;
+        for (size_t i = 0; i < r->res->nruns; i++)
+            if (j < r->res->runs[i].m.nbands && r->res->runs[i].m.band[j].queries > 0)
+                first = first ? first : &r->res->runs[i].m.band[j];
+        if (!first)
             continue;
-        band_label(ist_jv_at(ist_jv_get(ist_jv_at(runs, 0), "bands"), j), cats_buf[nk],
-                   sizeof cats_buf[nk]);
+        band_label(first, cats_buf[nk], sizeof cats_buf[nk]);
         cats[nk] = cats_buf[nk];
         keep[nk++] = j;
     }
-    rb_printf(b, "<p class=\"muted\">%zu of %zu frequency bands hold test words; the others "
-                 "are left out.</p>\n<div class=\"row\">", nk, nb);
-    band_chart(r, runs, "p@1", nk, keep, cats);
-    band_chart(r, runs, "p@10", nk, keep, cats);
-    rb_put(b, "</div>\n");
-    rb_put(b, "<table><tr><th>map, retrieval</th><th>frequency rank</th><th>queries</th>"
-              "<th>P@1</th><th>P@5</th><th>P@10</th></tr>\n");
-    for (size_t i = 0; i < ist_jv_len(runs); i++) {
-        const ist_jv *run = ist_jv_at(runs, i), *bl = ist_jv_get(run, "bands");
-        char name[160], lab[48];
+    rb_put(b, "<p>Precision of the test words grouped by the frequency rank of their source "
+              "word; ");
+    if (nk == nb)
+        rb_printf(b, "all %zu bands hold test words.</p>\n", nb);
+    else
+        rb_printf(b, "%zu of %zu bands hold test words, the others are left out.</p>\n", nk, nb);
+    rb_put(b, "<div class=\"row\">");
+    band_chart(r, 0, nk, keep, cats);
+    band_chart(r, 2, nk, keep, cats);
+    rb_put(b, "</div>\n<table><tr><th>map, ranking</th><th>frequency rank</th>"
+              "<th>test words</th><th>p@1</th><th>p@5</th><th>p@10</th>"
+              "</tr>\n");
+    for (size_t i = 0; i < r->res->nruns; i++) {
+        const ist_result_run *run = &r->res->runs[i];
+        char name[96], lab[48];
         run_name(run, name, sizeof name);
-        for (size_t j = 0; j < ist_jv_len(bl); j++) {
-            const ist_jv *band = ist_jv_at(bl, j);
-            if (ist_jv_num(ist_jv_get(band, "queries"), 0) == 0)
+        for (size_t j = 0; j < run->m.nbands; j++) {
+            if (run->m.band[j].queries == 0)
                 continue;
-            band_label(band, lab, sizeof lab);
+            band_label(&run->m.band[j], lab, sizeof lab);
             rb_put(b, "<tr><td>");
             rb_esc(b, name);
             rb_put(b, "</td><td>");
             rb_esc(b, lab);
-            rb_printf(b, "</td><td class=\"n\">%.0f</td>",
-                      ist_jv_num(ist_jv_get(band, "queries"), 0));
-            figure_cell(b, band, "p@1");
-            figure_cell(b, band, "p@5");
-            figure_cell(b, band, "p@10");
+            rb_put(b, "</td><td class=\"n\">");
+            count(b, run->m.band[j].queries);
+            rb_put(b, "</td>");
+            for (size_t k = 0; k < IST_METRICS_NK; k++)
+                figure_cell(b, run, (int)j, k);
             rb_put(b, "</tr>\n");
         }
     }
     rb_put(b, "</table></section>\n");
 }
 
-static void
-provenance(rep *r);
+/* ---- provenance ---------------------------------------------------------------------- */
 
-static ist_status
-check_kind(const ist_jv *root, const char *path, const char *want_format, ist_error *err)
+static void
+prov_row(rbuf *b, const char *what, const char *src, const char *tgt, bool code)
 {
-    if (ist_jv_type(root) != IST_JOBJ)
-        return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(root),
-                            "expected a JSON object at the top level");
-    if (want_format) {
-        const char *f = ist_jv_str(ist_jv_get(root, "format"), NULL);
-        if (!f || strcmp(f, want_format) != 0)
-            return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(root),
-                                "expected \"format\": \"%s\", found %s%s%s", want_format,
-                                f ? "\"" : "", f ? f : "none", f ? "\"" : "");
-        const ist_jv *runs = ist_jv_get(root, "runs");
-        if (runs && ist_jv_type(runs) != IST_JARR)
-            return ist_error_at(err, IST_ERR_FORMAT, path, ist_jv_line(runs),
-                                "expected \"runs\" to be an array");
+    rb_put(b, "<tr><th scope=\"row\">");
+    rb_esc(b, what);
+    rb_put(b, "</th>");
+    for (int i = 0; i < 2; i++) {
+        const char *t = i ? tgt : src;
+        rb_put(b, "<td>");
+        if (!t || !*t)
+            rb_put(b, "<span class=\"muted\">not recorded</span>");
+        else {
+            rb_put(b, code ? "<code>" : "");
+            rb_esc(b, t);
+            rb_put(b, code ? "</code>" : "");
+        }
+        rb_put(b, "</td>");
     }
-    return IST_OK;
+    rb_put(b, "</tr>\n");
 }
+
+static void
+prov_count_row(rbuf *b, const char *what, const rprov *p)
+{
+    rb_put(b, "<tr><th scope=\"row\">");
+    rb_esc(b, what);
+    rb_put(b, "</th>");
+    for (int i = 0; i < 2; i++) {
+        rb_put(b, "<td>");
+        if (p[i].tokens) {
+            count(b, p[i].tokens);
+            rb_put(b, " tokens, ");
+            count(b, p[i].types);
+            rb_put(b, " words kept");
+        } else {
+            rb_put(b, "<span class=\"muted\">not recorded</span>");
+        }
+        rb_put(b, "</td>");
+    }
+    rb_put(b, "</tr>\n");
+}
+
+static void
+inputs_table(rep *r)
+{
+    const ist_result *res = r->res;
+    rbuf *b = &r->b;
+    rprov p[2];
+    char fp[2][17] = {"", ""}, dim[2][24] = {"", ""};
+
+    ist_report_read_provenance(res->source.provenance, &p[0]);
+    ist_report_read_provenance(res->target.provenance, &p[1]);
+    if (res->source.has_fingerprint)
+        ist_result_hex(res->source.fingerprint, fp[0]);
+    if (res->target.has_fingerprint)
+        ist_result_hex(res->target.fingerprint, fp[1]);
+    for (int i = 0; i < 2; i++)
+        if (p[i].dimension)
+            snprintf(dim[i], sizeof dim[i], "%zu", p[i].dimension);
+    rb_put(b, "<section><h2 id=\"provenance\">Inputs and provenance</h2>\n"
+              "<p>How the two vector files were made, as each file records it.</p>\n"
+              "<table><tr><th></th><th>source vectors</th><th>target vectors</th></tr>\n");
+    prov_row(b, "language", language(r->o->source_language, NULL),
+             language(r->o->target_language, NULL), false);
+    prov_row(b, "file", res->source.path, res->target.path, true);
+    prov_row(b, "fingerprint", fp[0], fp[1], true);
+    prov_row(b, "method", p[0].method, p[1].method, false);
+    prov_row(b, "dimension", dim[0], dim[1], false);
+    prov_row(b, "corpus", p[0].corpus, p[1].corpus, true);
+    prov_count_row(b, "corpus size", p);
+    prov_row(b, "passes over the corpus", p[0].passes, p[1].passes, false);
+    prov_row(b, "random seed", p[0].seed, p[1].seed, false);
+    prov_row(b, "text normalisation", p[0].text, p[1].text, false);
+    prov_row(b, "made by", p[0].producer, p[1].producer, false);
+    rb_put(b, "</table>\n");
+}
+
+static void
+kv(rbuf *b, const char *what, const char *text, bool code)
+{
+    rb_put(b, "<tr><th scope=\"row\">");
+    rb_esc(b, what);
+    rb_put(b, "</th><td>");
+    rb_put(b, code ? "<code>" : "");
+    rb_esc(b, text && *text ? text : DASH);
+    rb_put(b, code ? "</code>" : "");
+    rb_put(b, "</td></tr>\n");
+}
+
+static void
+run_table(rep *r)
+{
+    const ist_result *res = r->res;
+    const ist_result_test *t = &res->test;
+    rbuf *b = &r->b;
+    char s[256], hex[17];
+
+    rb_put(b, "<p>The scoring run.</p>\n<table>\n");
+    snprintf(s, sizeof s, "isthmus %s", res->command ? res->command : "?");
+    kv(b, "command", s, true);
+    kv(b, "map", res->map_path, true);
+    if (res->seeds.has_checksum) {
+        ist_result_hex(res->seeds.checksum, hex);
+        snprintf(s, sizeof s, "%s (checksum %s)",
+                 res->seeds.label ? res->seeds.label : "the map's seeds", hex);
+        kv(b, "seed list", s, true);
+    }
+    if (t->present) {
+        kv(b, "test list", t->list.label ? t->list.label : t->list.path, true);
+        if (t->has_coverage) {
+            snprintf(s, sizeof s, "%zu pairs read, %zu kept; %zu source words, %zu of them in "
+                                  "both vector files",
+                     t->coverage.read, t->coverage.kept, t->coverage.sources_read,
+                     t->coverage.sources_kept);
+            kv(b, "test pairs", s, false);
+        }
+        if (t->has_overlap) {
+            snprintf(s, sizeof s, "%zu test source words are also seeds%s", t->overlap,
+                     t->overlap_allowed ? " (scored with the overlap allowed)" : "");
+            kv(b, "leakage", s, false);
+        }
+    }
+    if (res->options.present) {
+        const ist_result_options *o = &res->options;
+        snprintf(s, sizeof s, "%s%s%s; CSLS over %zu neighbours",
+                 o->methods & IST_RESULT_COSINE ? "cosine" : "",
+                 o->methods == (IST_RESULT_COSINE | IST_RESULT_CSLS) ? " and " : "",
+                 o->methods & IST_RESULT_CSLS ? "CSLS" : "", o->neighbourhood);
+        kv(b, "ranking", s, false);
+    }
+    if (res->nruns) {
+        const ist_metrics *m = &res->runs[0].m;
+        size_t n = 0;
+        s[0] = 0;
+        for (size_t i = 0; i < m->nbands && n < sizeof s; i++) {
+            char lab[48];
+            band_label(&m->band[i], lab, sizeof lab);
+            n += (size_t)snprintf(s + n, sizeof s - n, "%s%s", i ? ", " : "", lab);
+        }
+        kv(b, "frequency bands (ranks)", s, false);
+    }
+    for (size_t i = 0; i < res->nruns; i++)
+        if (res->runs[i].has_ci) {
+            const ist_ci_opts *c = &res->runs[i].ci_opts;
+            snprintf(s, sizeof s, "%.0f%% percentile bootstrap, %zu resamples, seed %llu",
+                     100 * c->level, c->resamples, (unsigned long long)c->seed);
+            kv(b, "intervals", s, false);
+            break;
+        }
+    rb_put(b, "</table></section>\n");
+}
+
+/* ---- the page ------------------------------------------------------------------------ */
 
 static void
 render(rep *r)
 {
     rbuf *b = &r->b;
-    const char *cmd = ist_jv_str(ist_jv_get(r->res, "command"), "?");
+    const char *sl = language(r->o->source_language, "source"),
+               *tl = language(r->o->target_language, "target");
 
     rb_put(b, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">\n"
               "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n"
               "<title>isthmus alignment report</title>\n<style>");
     rb_put(b, style);
-    rb_put(b, "</style></head>\n<body>\n<header><h1>Alignment report</h1>\n<p class=\"muted\">"
-              "From the result of <code>isthmus ");
-    rb_esc(b, cmd);
-    rb_put(b, "</code>: source <code>");
-    rb_esc(b, ist_jv_str(ist_jv_get(ist_jv_get(ist_jv_get(r->res, "inputs"), "source"), "path"),
-                         "?"));
-    rb_put(b, "</code> mapped onto target <code>");
-    rb_esc(b, ist_jv_str(ist_jv_get(ist_jv_get(ist_jv_get(r->res, "inputs"), "target"), "path"),
-                         "?"));
-    rb_put(b, "</code>, test list <code>");
-    rb_esc(b, ist_jv_str(ist_jv_get(ist_jv_get(r->res, "test"), "path"), "?"));
+    rb_put(b, "</style></head>\n<body>\n<header><h1>Alignment report: ");
+    rb_esc(b, sl);
+    rb_put(b, " \xe2\x86\x92 ");
+    rb_esc(b, tl);
+    rb_put(b, "</h1>\n<p class=\"muted\">The map from <code>");
+    rb_esc(b, r->res->source.path ? r->res->source.path : "?");
+    rb_put(b, "</code> onto <code>");
+    rb_esc(b, r->res->target.path ? r->res->target.path : "?");
+    rb_put(b, "</code>, scored on <code>");
+    rb_esc(b, r->res->test.list.label ? r->res->test.list.label
+                                      : r->res->test.list.path ? r->res->test.list.path : "?");
     rb_put(b, "</code>.</p></header>\n<main>\n");
+    answer(r);
     caution(b);
-    headline(r);
     verdict(r);
+    glossary(r);
+    runs_table(r);
     bands(r);
-    ist_report_diag_sections(b, ist_jv_get(r->res, "diagnostics"), &r->chart_id);
-    provenance(r);
+    ist_report_diag_sections(b, r->res->diagnostics, &r->chart_id);
+    inputs_table(r);
+    run_table(r);
     rb_printf(b, "</main>\n<footer class=\"muted\"><p>Made by isthmus %s.</p></footer>\n"
                  "</body></html>\n", ist_version());
 }
 
 ist_status
-ist_report_write(const ist_result *result, const char *verdict_path, const char *out_path,
-                 ist_error *err)
+ist_report_write(const ist_result *result, const ist_verdict *verdict,
+                 const ist_report_opts *opts, const char *out_path, ist_error *err)
 {
-    ist_jv *res = NULL, *ver = NULL;
-    char *text = NULL;
+    ist_report_opts dflt;
     rep r;
     ist_status rc;
 
+    if (!opts) {
+        ist_report_opts_init(&dflt);
+        opts = &dflt;
+    }
     memset(&r, 0, sizeof r);
-    if ((rc = ist_result_render(result, &text, err)) != IST_OK ||
-        (rc = ist_json_parse(text, strlen(text), result->name, &res, err)) != IST_OK)
-        goto done;
-    if (verdict_path && ((rc = ist_verdict_check_file(verdict_path, result, err)) != IST_OK ||
-                         (rc = ist_json_parse_file(verdict_path, &ver, err)) != IST_OK ||
-                         (rc = check_kind(ver, verdict_path, NULL, err)) != IST_OK))
-        goto done;
-    r.res = res;
-    r.verdict = ver;
+    r.res = result;
+    r.v = verdict;
+    r.o = opts;
     render(&r);
-    if (r.b.failed) {
+    if (r.b.failed)
         rc = ist_error_nomem(err);
-        goto done;
-    }
-    rc = ist_ofile_write_all(out_path, r.b.p, r.b.len, err);
-done:
-    ist_free(r.b.p);
-    ist_result_free_text(text);
-    ist_jv_free(res);
-    ist_jv_free(ver);
-    return rc;
-}
-
-/* ---- inputs and provenance ---------------------------------------------- */
-
-static void
-kv_row(rbuf *b, const char *key, const ist_jv *v)
-{
-    rb_put(b, "<tr><th scope=\"row\">");
-    rb_esc(b, key);
-    rb_put(b, "</th><td><code>");
-    if (ist_jv_type(v) == IST_JSTR)
-        rb_esc(b, ist_jv_str(v, ""));
     else
-        esc_json(b, v);
-    rb_put(b, "</code></td></tr>\n");
-}
-
-static void
-kv_table(rbuf *b, const char *prefix, const ist_jv *obj)
-{
-    for (size_t i = 0; i < ist_jv_len(obj); i++) {
-        char key[160];
-        const ist_jv *v = ist_jv_at(obj, i);
-        snprintf(key, sizeof key, "%s%s%s", prefix, *prefix ? "." : "", ist_jv_key(obj, i));
-        if (ist_jv_type(v) == IST_JOBJ && strlen(key) < 60)
-            kv_table(b, key, v);
-        else
-            kv_row(b, key, v);
-    }
-}
-
-static void
-provenance(rep *r)
-{
-    rbuf *b = &r->b;
-    const ist_jv *test = ist_jv_get(r->res, "test");
-
-    rb_put(b, "<section><h2 id=\"provenance\">Inputs and provenance</h2>\n"
-              "<table>\n");
-    kv_row(b, "command", ist_jv_get(r->res, "command"));
-    kv_row(b, "result format version", ist_jv_get(r->res, "version"));
-    kv_table(b, "inputs", ist_jv_get(r->res, "inputs"));
-    for (size_t i = 0; i < ist_jv_len(test); i++) {
-        char key[96];
-        snprintf(key, sizeof key, "test.%s", ist_jv_key(test, i));
-        if (ist_jv_type(ist_jv_at(test, i)) == IST_JOBJ)
-            kv_table(b, key, ist_jv_at(test, i));
-        else
-            kv_row(b, key, ist_jv_at(test, i));
-    }
-    kv_table(b, "options", ist_jv_get(r->res, "options"));
-    kv_table(b, "map", ist_jv_get(r->res, "map"));
-    rb_put(b, "</table></section>\n");
+        rc = ist_ofile_write_all(out_path, r.b.p, r.b.len, err);
+    ist_free(r.b.p);
+    return rc;
 }

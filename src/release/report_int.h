@@ -45,8 +45,28 @@ typedef struct rchart {
 /* Draw a grouped bar chart as an inline <svg> element with a legend. */
 void rs_bars(rbuf *b, const rchart *c);
 
+/* Figures for people: a fraction as a percent with one decimal ("84.1%"), an interval
+ * beside it (" [81.0, 87.2]"); NaN writes a dash. */
+void rb_pct(rbuf *b, double v);
+void rb_pct_iv(rbuf *b, double lo, double hi);
+
 /* The diagnostics sections (report_diag.c); diag may be NULL (absent). */
-struct ist_jv;
-void ist_report_diag_sections(rbuf *b, const struct ist_jv *diag, int *chart_id);
+struct ist_diag;
+void ist_report_diag_sections(rbuf *b, const struct ist_diag *diag, int *chart_id);
+
+/* How a vector file was made, from its provenance JSON (report_prov.c). */
+typedef struct rprov {
+    bool known;                  /* the provenance could be read */
+    char method[200];            /* "skip-gram negative sampling (100) + PPMI truncated ..." */
+    size_t dimension;
+    char corpus[256];            /* the corpus files, comma-separated */
+    unsigned long long tokens, types;
+    char passes[96];             /* "20 (skip-gram)" */
+    char seed[48];
+    char text[160];              /* text normalisation in words */
+    char producer[64];
+} rprov;
+
+void ist_report_read_provenance(const char *json, rprov *out);
 
 #endif

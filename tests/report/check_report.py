@@ -3,10 +3,15 @@
 
 Usage: check_report.py ISTHMUS_BINARY FIXTURE_DIR
 
-The fixture (result.json, verdict.json) is a demo result with two runs; its "ci"
-intervals are placeholders shaped like the ones the gate writes, and one worst miss
-holds markup-like words so escaping is exercised. Checks, printed as TAP:
-  - `isthmus report` writes the page;
+The fixture is a demo result with two runs (result.json, with the training provenance
+of both vector files; one worst miss holds markup-like words so escaping is exercised)
+and rules.thresholds, which `isthmus gate` turns into a verdict here with one rule
+passing, one failing and one not checked. Checks, printed as TAP:
+  - `isthmus gate` writes the verdict and `isthmus report` writes the page;
+  - the answer to "can we ship these vectors?" comes before every section, and says no;
+  - figures for people: the verdict table shows percents with one decimal, never a raw
+    fraction (0.8163...) or null; the provenance table names the languages, the method,
+    the dimension, the corpus, its tokens and the passes;
   - every inline <svg> parses as XML (xml.etree), and the checker itself rejects
     a page whose SVG is broken;
   - Chromium makes a screenshot (a PNG file, by its signature);
@@ -22,7 +27,8 @@ import sys
 import tempfile
 import xml.etree.ElementTree as ET
 
-HEADINGS = ["Alignment report", "Headline figures", "Gate verdict",
+HEADINGS = ["Alignment report: English \u2192 Spanish", "Gate verdict",
+            "How to read this report", "Headline figures",
             "Precision by frequency band", "Similarity of gold and random pairs",
             "Hubness", "Isometry", "Worst misses", "Inputs and provenance"]
 
@@ -72,14 +78,21 @@ def main():
             for line in str(detail).splitlines()[:20]:
                 print(f"# {line}")
 
-    print("1..7")
+    print("1..10")
     with tempfile.TemporaryDirectory() as tmp:
         page = os.path.join(tmp, "report.html")
-        r = subprocess.run([isthmus, "report", os.path.join(fixtures, "result.json"),
-                            "--verdict", os.path.join(fixtures, "verdict.json"), "-o", page],
+        verdict = os.path.join(tmp, "verdict.json")
+        result = os.path.join(fixtures, "result.json")
+        g = subprocess.run([isthmus, "gate", "--thresholds",
+                            os.path.join(fixtures, "rules.thresholds"), "--verdict-out", verdict,
+                            result], stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+        r = subprocess.run([isthmus, "report", result, "--verdict", verdict,
+                            "--source-language=English", "--target-language=Spanish",
+                            "-o", page],
                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
-        check(r.returncode == 0 and os.path.exists(page), "isthmus report writes the page",
-              r.stderr)
+        check(g.returncode == 3 and r.returncode == 0 and os.path.exists(page),
+              "isthmus gate writes the verdict (a rule fails: exit 3) and isthmus report the page",
+              g.stderr + r.stderr)
         if r.returncode != 0:
             return 1
         html = open(page, encoding="utf-8").read()
@@ -106,6 +119,20 @@ def main():
         dom_svgs = len(re.findall(r"<svg\b", dom))
         check(dom_svgs == count, f"the DOM has the page's {count} svg elements",
               f"DOM has {dom_svgs}")
+        text = re.sub(r"\s+", " ", re.sub(r"<[^>]+>", " ", dom))
+        first = text.find("Can we ship these vectors?")
+        check(0 <= first < text.find("Gate verdict") and
+              re.search(r"Can we ship these vectors\? \S+ No 1 of 4 release rules fail", text)
+              is not None, "the answer comes first and says no", text[:400])
+        gate = dom[dom.find('id="verdict"'):dom.find('id="reading"')]
+        raw = re.findall(r">\s*(-?0\.\d{3,}|null)\s*<", gate)
+        check("81.6% " in gate and "[77.6, 85.1]" in gate and not raw,
+              "the verdict table shows percents with intervals, no raw fraction", raw)
+        prov = dom[dom.find('id="provenance"'):]
+        want = ["English", "Spanish", "skip-gram negative sampling", "1,344,752 tokens",
+                "data-samples/tillwick-es.txt.gz", ">100<", ">20<"]
+        check(all(w in prov for w in want), "the provenance table says how both files were made",
+              [w for w in want if w not in prov])
         check("&lt;b&gt;mug&lt;/b&gt;" in dom and "<b>mug</b>" not in dom and
               "<i>" not in dom, "words that look like markup stay text")
     print(f"# report-chromium: {n - failed} passed, {failed} failed")

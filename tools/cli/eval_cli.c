@@ -80,6 +80,9 @@ ev_common_option(const char *cmd, ev_common *c, int opt, const char *arg)
                               &c->diag.queries);
     case EV_OPT_ISO_WORDS:
         return cli_parse_size(cmd, "--isometry-words", arg, 0, 4000, &c->diag.isometry_words);
+    case EV_OPT_HUB_NUMBERS:
+        c->diag.hub_numbers = true;
+        return true;
     default:
         return false;
     }
@@ -106,7 +109,10 @@ ev_common_help(FILE *out, unsigned groups, const char *rank_default)
               "      --diagnostics-words=N  hubness queries: the N most frequent source words\n"
               "                          [default: 5000]\n"
               "      --isometry-words=N  isometry: the N most frequent words of each side,\n"
-              "                          0 to skip, at most 4000 [default: 1000]\n",
+              "                          0 to skip, at most 4000 [default: 1000]\n"
+              "      --hubs-with-numbers  list number-shaped words and codes among the top\n"
+              "                          hubs too (the skewness counts every target word)\n"
+              "                          [default: left out of the list, as in propose]\n",
               out);
     if (groups & EV_HELP_SEARCH)
         fputs("      --csls-k=K          neighbours averaged in the CSLS hub penalty, 1..1000\n"

@@ -18,6 +18,7 @@ enum {
     EV_OPT_NO_DIAG,
     EV_OPT_DIAG_WORDS,
     EV_OPT_ISO_WORDS,
+    EV_OPT_HUB_NUMBERS,
 };
 
 /* The rows of the shared options, one fragment per group, written once: a command's
@@ -38,7 +39,8 @@ enum {
 #define EV_OPTS_DIAG                                                                              \
     {"no-diagnostics", no_argument, NULL, EV_OPT_NO_DIAG},                                        \
     {"diagnostics-words", required_argument, NULL, EV_OPT_DIAG_WORDS},                            \
-    {"isometry-words", required_argument, NULL, EV_OPT_ISO_WORDS}
+    {"isometry-words", required_argument, NULL, EV_OPT_ISO_WORDS},                                \
+    {"hubs-with-numbers", no_argument, NULL, EV_OPT_HUB_NUMBERS}
 
 /* Groups for ev_common_help(). */
 enum { EV_HELP_SEARCH = 1, EV_HELP_RANK = 2, EV_HELP_SCORING = 4, EV_HELP_DIAG = 8 };
