@@ -433,6 +433,27 @@ print_load(const char *when)
     printf("load average %s: %s", when, buf);
 }
 
+/* The processor's model name (first "model name" of /proc/cpuinfo) and the processors online. */
+static void
+print_cpu(void)
+{
+    char line[256], model[256] = "?";
+    FILE *f = fopen("/proc/cpuinfo", "r");
+    if (f) {
+        while (fgets(line, sizeof line, f))
+            if (strncmp(line, "model name", 10) == 0) {
+                const char *c = strchr(line, ':');
+                if (c) {
+                    snprintf(model, sizeof model, "%s", c + 1 + (c[1] == ' '));
+                    model[strcspn(model, "\n")] = '\0';
+                }
+                break;
+            }
+        fclose(f);
+    }
+    printf("cpu: %s, %ld processors online\n", model, sysconf(_SC_NPROCESSORS_ONLN));
+}
+
 static const char *
 row_label(const row *r, char *buf, size_t cap)
 {
@@ -494,6 +515,7 @@ main(int argc, char **argv)
     } else {
         synthetic(tokens, &s);
     }
+    print_cpu();
     const char *ct = getenv("OPENBLAS_CORETYPE"), *l2 = getenv("OPENBLAS_L2_SIZE");
     printf("OPENBLAS_CORETYPE=%s OPENBLAS_L2_SIZE=%s; OpenBLAS core %s; config %s\n",
            ct ? ct : "(unset)", l2 ? l2 : "(unset)", openblas_get_corename(),
