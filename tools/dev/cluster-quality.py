@@ -8,7 +8,8 @@ and let `isthmus gate --baseline` give the change in CSLS P@1 of the ranks' vect
 the single process with its paired-bootstrap 95% interval (Koehn 2004).
 
 usage: cluster-quality.py ISTHMUS DATA_DIR WORK_DIR [--ranks N] [--seeds 1,2,3]
-                          [--train "OPTIONS"]
+                          [--train="OPTIONS"]
+Both runs train skip-gram alone (--method=skip-gram), the only method trained across ranks.
 Open MPI runs on this machine only (shared memory; the launcher on loopback).
 """
 import argparse
@@ -63,7 +64,10 @@ def main():
                     print("%-5s %-9s %8s %8s | %s (kept from an earlier run: one thread is "
                           "deterministic)" % (seed, label, "-", "-", lang), flush=True)
                     continue
-                p = run(launch + [a.isthmus, "train", "--threads=1", "--seed=" + seed,
+                # skip-gram alone in both: under mpirun it is the only method trained across
+                # ranks, while one process would otherwise train the default combination
+                p = run(launch + [a.isthmus, "train", "--method=skip-gram", "--threads=1",
+                                  "--seed=" + seed,
                                   *shlex.split(a.train), "-o", vec[lang],
                                   os.path.join(a.data, lang + ".txt")], env=env)
                 rate = re.search(r"([0-9]+) words/s", p.stderr)
