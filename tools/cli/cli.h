@@ -53,6 +53,19 @@ typedef struct cli_command {
     {"verbose", no_argument, NULL, 'v'},                                                          \
     {"progress", required_argument, NULL, CLI_OPT_PROGRESS}
 
+/* Rows that several getopt tables share, each written once here. */
+#define CLI_OPT_HELP {"help", no_argument, NULL, 'h'}
+#define CLI_OPT_OUTPUT {"output", required_argument, NULL, 'o'}
+/* Preparing a corpus from raw text (prepare, train): the rows whose short values agree. */
+#define CLI_OPTS_CORPUS                                                                           \
+    {"min-freq", required_argument, NULL, 'm'},                                                   \
+    {"vocab-limit", required_argument, NULL, 'V'},                                                \
+    {"max-line-bytes", required_argument, NULL, 'L'},                                             \
+    {"no-nfkc", no_argument, NULL, 'N'},                                                          \
+    {"no-casefold", no_argument, NULL, 'C'},                                                      \
+    {"mask-digits", no_argument, NULL, 'D'},                                                      \
+    {"threads", required_argument, NULL, 't'}
+
 /* Apply a global option (c is 'q', 'v' or CLI_OPT_PROGRESS); false after a usage error. */
 bool cli_global_option(const char *cmd, int c, const char *arg);
 

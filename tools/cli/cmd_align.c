@@ -135,7 +135,7 @@ static int
 parse(int argc, char **argv, args *a)
 {
     static const struct option opts[] = {
-        {"output", required_argument, NULL, 'o'},
+        CLI_OPT_OUTPUT,
         {"seeds", required_argument, NULL, OPT_SEEDS},
         {"spelt-alike", no_argument, NULL, OPT_IDENT},
         {"spelt-alike-min-freq", required_argument, NULL, OPT_IDENT_MIN},
@@ -143,7 +143,7 @@ parse(int argc, char **argv, args *a)
         {"hold-out", required_argument, NULL, OPT_HOLD_OUT},
         {"split-seed", required_argument, NULL, OPT_SPLIT_SEED},
         {"write-test", required_argument, NULL, OPT_WRITE_TEST},
-        {"test", required_argument, NULL, OPT_TEST},
+        EV_OPT_TEST_ROW(OPT_TEST),
         {"standardise", required_argument, NULL, OPT_NORMALISE},
         {"refine-rounds", required_argument, NULL, OPT_ROUNDS},
         {"refine-vocab", required_argument, NULL, OPT_RVOCAB},
@@ -154,7 +154,7 @@ parse(int argc, char **argv, args *a)
         EV_OPTS_RANK,
         EV_OPTS_SCORING,
         EV_OPTS_DIAG,
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -39,7 +39,7 @@ run(int argc, char **argv)
         {"gzip", no_argument, NULL, 'z'},
         {"rows-line", no_argument, NULL, 'r'},
         {"max-rows", required_argument, NULL, 'm'},
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -38,7 +38,7 @@ run(int argc, char **argv)
 {
     static const struct option opts[] = {
         {"words", required_argument, NULL, 'w'},
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -401,7 +401,7 @@ static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"map", required_argument, NULL, OPT_MAP},
+        EV_OPT_MAP_ROW(OPT_MAP),
         {"reverse", no_argument, NULL, OPT_REVERSE},
         {"near", no_argument, NULL, OPT_NEAR},
         {"vector", no_argument, NULL, OPT_VECTOR},
@@ -413,7 +413,7 @@ run(int argc, char **argv)
         {"min-score", required_argument, NULL, OPT_MIN},
         EV_OPTS_SEARCH,
         EV_OPTS_RANK,
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -69,12 +69,12 @@ static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"output", required_argument, NULL, 'o'},
+        CLI_OPT_OUTPUT,
         {"one-target", no_argument, NULL, OPT_ONE_TARGET},
         {"accept-same-spelling", no_argument, NULL, OPT_ACCEPT_SAME},
         {"skip-conflicts", no_argument, NULL, OPT_SKIP_CONFLICTS},
         {"target-vectors", required_argument, NULL, OPT_TARGET_VECTORS},
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

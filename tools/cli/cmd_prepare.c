@@ -116,19 +116,13 @@ static int
 parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
 {
     static const struct option opts[] = {
-        {"output", required_argument, NULL, 'o'},
-        {"min-freq", required_argument, NULL, 'm'},
-        {"vocab-limit", required_argument, NULL, 'V'},
-        {"max-line-bytes", required_argument, NULL, 'L'},
-        {"no-nfkc", no_argument, NULL, 'N'},
-        {"no-casefold", no_argument, NULL, 'C'},
+        CLI_OPT_OUTPUT,
+        CLI_OPTS_CORPUS,
         {"strip-marks", no_argument, NULL, 'S'},
-        {"mask-digits", no_argument, NULL, 'D'},
         {"numbers", required_argument, NULL, 'n'},
         {"strict-utf8", no_argument, NULL, 'U'},
         {"dedup-lines", no_argument, NULL, 'd'},
-        {"threads", required_argument, NULL, 't'},
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -78,8 +78,8 @@ static int
 parse(int argc, char **argv, args *a)
 {
     static const struct option opts[] = {
-        {"map", required_argument, NULL, OPT_MAP},
-        {"output", required_argument, NULL, 'o'},
+        EV_OPT_MAP_ROW(OPT_MAP),
+        CLI_OPT_OUTPUT,
         {"exclude", required_argument, NULL, OPT_EXCLUDE},
         {"top-sources", required_argument, NULL, OPT_TOP_SOURCES},
         {"candidates", required_argument, NULL, OPT_CANDIDATES},
@@ -91,7 +91,7 @@ parse(int argc, char **argv, args *a)
         {"mixed-order", no_argument, NULL, OPT_MIXED},
         {"with-variants", no_argument, NULL, OPT_WITH_VARIANTS},
         EV_OPTS_SEARCH,
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

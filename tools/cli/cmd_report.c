@@ -44,11 +44,11 @@ static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"output", required_argument, NULL, 'o'},
+        CLI_OPT_OUTPUT,
         {"verdict", required_argument, NULL, OPT_VERDICT},
         {"source-language", required_argument, NULL, OPT_SOURCE_LANGUAGE},
         {"target-language", required_argument, NULL, OPT_TARGET_LANGUAGE},
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -74,14 +74,14 @@ static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"map", required_argument, NULL, OPT_MAP},
-        {"test", required_argument, NULL, OPT_TEST},
+        EV_OPT_MAP_ROW(OPT_MAP),
+        EV_OPT_TEST_ROW(OPT_TEST),
         {"stage", required_argument, NULL, OPT_STAGE},
         EV_OPTS_SEARCH,
         EV_OPTS_RANK,
         EV_OPTS_SCORING,
         EV_OPTS_DIAG,
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

@@ -60,9 +60,9 @@ static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
-        {"output", required_argument, NULL, 'o'},
+        CLI_OPT_OUTPUT,
         {"block-weights", required_argument, NULL, 'w'},
-        {"help", no_argument, NULL, 'h'},
+        CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };

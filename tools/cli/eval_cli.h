@@ -27,6 +27,9 @@ enum {
  *   EV_OPTS_RANK     the ranking method (align, score, gate, lookup)
  *   EV_OPTS_SCORING  scoring a test list (align, score, gate)
  *   EV_OPTS_DIAG     diagnostics in the JSON result (align, score) */
+/* The map and test-list rows, with the command's own option value. */
+#define EV_OPT_MAP_ROW(val) {"map", required_argument, NULL, val}
+#define EV_OPT_TEST_ROW(val) {"test", required_argument, NULL, val}
 #define EV_OPTS_SEARCH                                                                            \
     {"csls-k", required_argument, NULL, EV_OPT_CSLS_K},                                           \
     {"memory", required_argument, NULL, EV_OPT_MEMORY},                                           \
