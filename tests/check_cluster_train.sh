@@ -48,7 +48,7 @@ check "... the provenance records the ranks, the exchanges per pass and the merg
     grep -q '"ranks":2,"exchanges_per_pass":5,"merge":"changes"' inspect.out
 check "... a whole file: its checksums hold" grep -q 'checksums: *intact' inspect.out
 check "... only rank 0 spoke: one summary line" \
-    sh -c 'test "$(grep -c "words seen" train.err)" -eq 1'
+    sh -c 'test "$(grep -c "tokens seen" train.err)" -eq 1'
 # A job far too long to finish (100000 passes of 50,000 tokens: hours on any machine, far
 # beyond the test's timeout), then SIGINT to rank 1 alone. The signal goes only once rank 1
 # has installed its SIGINT handler (the SigCgt mask of /proc/PID/status): from then on the

@@ -411,8 +411,53 @@ reader_gone(int e)
     return e == EPIPE || (poll(&p, 1, 0) == 1 && (p.revents & POLLERR));
 }
 
+#define WROTE_MAX 16
+static char *wrote_lines[WROTE_MAX];
+static size_t wrote_n;
+
+void
+cli_wrote(const char *path, const char *what_fmt, ...)
+{
+    char what[256];
+    va_list ap;
+
+    if (!path || strcmp(path, "-") == 0 || wrote_n == WROTE_MAX)
+        return;
+    va_start(ap, what_fmt);
+    vsnprintf(what, sizeof what, what_fmt, ap);
+    va_end(ap);
+    size_t len = strlen(path) + strlen(what) + 16;
+    char *line = malloc(len);
+    if (!line)
+        return;
+    snprintf(line, len, "wrote %s (%s)", path, what);
+    wrote_lines[wrote_n++] = line;
+}
+
+/* The recorded "wrote" lines, printed when the files are in place, then forgotten. */
+static int
+say_wrote(const char *cmd, int rc)
+{
+    for (size_t i = 0; i < wrote_n; i++) {
+        if (rc == CLI_EXIT_OK || rc == CLI_EXIT_GATE)
+            cli_info("isthmus %s: %s\n", cmd, wrote_lines[i]);
+        free(wrote_lines[i]);
+        wrote_lines[i] = NULL;
+    }
+    wrote_n = 0;
+    return rc;
+}
+
+static int finish_files(const char *cmd, int rc);
+
 int
 cli_finish(const char *cmd, int rc)
+{
+    return say_wrote(cmd, finish_files(cmd, rc));
+}
+
+static int
+finish_files(const char *cmd, int rc)
 {
     errno = 0;
     if (fflush(stdout) != 0 || ferror(stdout)) {

@@ -152,6 +152,12 @@ void cli_progress_start(const char *label);
 void cli_progress_relabel(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 void cli_progress_stop(void);
 
+/* Every command that writes a file says so in one form, on standard error, unless -q:
+ * "isthmus CMD: wrote PATH (WHAT)". cli_wrote() records the line when the file is done;
+ * cli_finish() prints the lines once the files are in place (nothing when they were not).
+ * PATH "-" (standard output) is not reported. */
+void cli_wrote(const char *path, const char *what_fmt, ...) __attribute__((format(printf, 2, 3)));
+
 /* Diagnostics to stderr unless -q. */
 void cli_info(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 

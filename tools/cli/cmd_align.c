@@ -277,6 +277,8 @@ build_seeds(args *a, const ist_store *s, const ist_store *t, ist_pairs **seeds,
             ist_pairs_free(file);
             return cli_report(CMD, &err);
         }
+        if (a->write_test)
+            cli_wrote(a->write_test, "%zu held-out test pairs", ist_pairs_count(tp));
     }
     if (a->ident) {
         if (ist_pairs_identical(s, t, a->ident_min, a->ident_marked, &ident, &err) != IST_OK) {
@@ -346,6 +348,8 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
         return rc;
     if (a->c.json_out && ist_result_write(res, a->c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);
+    else if (a->c.json_out)
+        cli_wrote(a->c.json_out, "result JSON");
     ist_result_free(res);
     return rc;
 }
@@ -420,6 +424,7 @@ run(int argc, char **argv)
         rc = cli_report(CMD, &err);
         goto done;
     }
+    cli_wrote(a.out, "map, dimension %zu", ist_map_dim(map));
     if (a.mapped) {
         /* applied once: the evaluation below scores these same rows */
         if (ist_map_apply(map, s, t, &xs, &zt, &err) != IST_OK ||
@@ -427,6 +432,7 @@ run(int argc, char **argv)
             rc = cli_report(CMD, &err);
             goto done;
         }
+        cli_wrote(a.mapped, "%zu source vectors mapped, text table", ist_store_rows(s));
     }
     rc = evaluate(&a, map, s, t, test, &tcov, xs, zt);
 done:

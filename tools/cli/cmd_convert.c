@@ -102,8 +102,8 @@ run(int argc, char **argv)
         ist_store_free(s);
         return cli_report("convert", &err);
     }
-    cli_info("isthmus convert: %zu rows x %zu dims, %s -> %s in %.2f s\n", ist_store_rows(s),
-             ist_store_dim(s), in, out, cli_now() - t0);
+    cli_wrote(out, "%zu x %zu vectors from %s in %.2f s", ist_store_rows(s), ist_store_dim(s),
+              in, cli_now() - t0);
     ist_store_free(s);
     return CLI_EXIT_OK;
 }

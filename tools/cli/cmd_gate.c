@@ -92,6 +92,8 @@ compute(const args *a, char **argv, ist_result **out)
         goto done;
     if (a->c.json_out && ist_result_write(*out, a->c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);
+    else if (a->c.json_out)
+        cli_wrote(a->c.json_out, "result JSON");
 done:
     ist_map_free(map);
     ist_pairs_free(test);
@@ -185,6 +187,10 @@ report(const args *a, const ist_verdict *v)
         return cli_report(CMD, &err);
     if (a->junit && ist_verdict_write_junit(v, a->junit, &err) != IST_OK)
         return cli_report(CMD, &err);
+    if (a->verdict)
+        cli_wrote(a->verdict, "verdict JSON");
+    if (a->junit)
+        cli_wrote(a->junit, "JUnit report");
     return ok ? CLI_EXIT_OK : CLI_EXIT_GATE;
 }
 

@@ -133,7 +133,7 @@ run(int argc, char **argv)
         fprintf(stderr, "isthmus %s: warning: %zu 'use WORD' correction%s not checked against "
                 "a vocabulary; give --target-vectors=TGT to refuse words the vectors lack\n", CMD,
                 sum.unchecked, sum.unchecked == 1 ? " was" : "s were");
-    cli_info("-> %s\n", out);
+    cli_wrote(out, "%zu seed pairs", sum.seed_pairs + sum.added);
     return CLI_EXIT_OK;
 }
 

@@ -86,7 +86,7 @@ summary(const ist_corpus *c, const char *out, double secs)
     }
     /* one size throughout: the files as stored, which the progress line counts too; the text
      * each gzip file unpacks to is on its own line below */
-    printf("prepared %s from %zu file%s in %.2f s (%.1f MB read, %.1f MB/s)\n", out, n,
+    printf("prepared %zu file%s in %.2f s (%.1f MB read, %.1f MB/s)\n", n,
            n == 1 ? "" : "s", secs, disk_bytes / 1e6, secs > 0 ? disk_bytes / 1e6 / secs : 0.0);
     printf("  lines               %llu read, %llu duplicates removed\n",
            (unsigned long long)st.lines, (unsigned long long)st.lines_dropped_dup);
@@ -97,6 +97,8 @@ summary(const ist_corpus *c, const char *out, double secs)
            (unsigned long long)st.types_before_prune, types);
     printf("  invalid UTF-8       %llu sequences replaced\n",
            (unsigned long long)st.replaced_utf8);
+    cli_wrote(out, "prepared corpus, %zu words, %llu tokens", types,
+              (unsigned long long)st.tokens_kept);
     for (size_t i = 0; i < n; i++) {
         ist_corpus_source s;
         if (ist_corpus_source_get(c, i, &s, NULL) != IST_OK)

@@ -191,10 +191,9 @@ propose(const args *a, const ist_map *map, const ist_store *s, const ist_store *
         return cli_report(CMD, &err);
     }
     ist_propose_stats st = ist_proposals_stats(p);
-    cli_info("%zu most frequent source words: %zu already listed, %zu proposed, %zu rows%s",
-             st.considered, st.listed, st.proposed, st.rows, strcmp(a->out, "-") ? "" : "\n");
-    if (strcmp(a->out, "-") != 0)
-        cli_info(" -> %s\n", a->out);
+    cli_info("%zu most frequent source words: %zu already listed, %zu proposed, %zu rows\n",
+             st.considered, st.listed, st.proposed, st.rows);
+    cli_wrote(a->out, "%zu candidate rows for review", st.rows);
     cli_info("left out: %zu number-shaped words and codes, %zu stop-list words, %zu likely "
              "misspellings, %zu words with no candidate scoring %g or more; %zu candidates "
              "passed over as numbers, codes, stop-list words or misspellings\n",

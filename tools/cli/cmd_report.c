@@ -90,8 +90,7 @@ run(int argc, char **argv)
     }
     ist_verdict_free(v);
     ist_result_free(res);
-    if (strcmp(out, "-") != 0)
-        cli_info("report written to %s\n", out);
+    cli_wrote(out, "HTML report");
     return CLI_EXIT_OK;
 }
 

@@ -152,6 +152,8 @@ run(int argc, char **argv)
         goto done;
     if (c.json_out && ist_result_write(res, c.json_out, &err) != IST_OK)
         rc = cli_report(CMD, &err);
+    else if (c.json_out)
+        cli_wrote(c.json_out, "result JSON");
 done:
     ist_result_free(res);
     ist_map_free(map);

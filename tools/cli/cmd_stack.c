@@ -167,8 +167,8 @@ run(int argc, char **argv)
         st = cli_report("stack", &err);
         goto done;
     }
-    cli_info("isthmus stack: %zu words, %zu blocks, %zu dimensions in %.2f s -> %s\n", rows, n,
-             mv.cols, cli_now() - t0, out);
+    cli_wrote(out, "%zu words x %zu dimensions from %zu blocks in %.2f s", rows, mv.cols, n,
+              cli_now() - t0);
 done:
     for (size_t i = 0; i < n; i++) {
         ist_store_free(s[i]);

@@ -590,21 +590,22 @@ run(int argc, char **argv)
             fprintf(stderr, "isthmus train: interrupted after %.1f s\n", cli_now() - t0);
         return cli_report("train", &err);
     }
-    if (a.method == METHOD_SGNS)
-        cli_info("isthmus train: %llu words seen (%llu trained after subsampling) in %.2f s, "
-                 "%.0f words/s; %zu x %zu vectors -> %s\n", (unsigned long long)res.words_seen,
-                 (unsigned long long)res.words_trained, res.seconds, res.words_per_sec, types,
-                 dim, a.out);
-    else {
-        if (a.method == METHOD_BOTH)
-            cli_info("isthmus train: skip-gram block: %llu words seen (%llu trained after "
-                     "subsampling) in %.2f s, %.0f words/s\n",
-                     (unsigned long long)res.words_seen, (unsigned long long)res.words_trained,
-                     res.seconds, res.words_per_sec);
-        cli_info("isthmus train: %zu x %zu %s vectors in %.2f s -> %s\n", types, dim,
-                 a.method == METHOD_PPMI ? "PPMI" : "combined (skip-gram + PPMI)",
-                 cli_now() - t0, a.out);
-    }
+    const char *kind = a.method == METHOD_SGNS   ? "skip-gram"
+                       : a.method == METHOD_PPMI ? "PPMI"
+                                                 : "combined skip-gram + PPMI";
+    if (a.method != METHOD_PPMI)
+        cli_info("isthmus train: %s%llu tokens seen (%llu trained after subsampling) in %.2f s, "
+                 "%.0f tokens/s\n", a.method == METHOD_BOTH ? "skip-gram block: " : "",
+                 (unsigned long long)res.words_seen, (unsigned long long)res.words_trained,
+                 res.seconds, res.words_per_sec);
+    if (a.method != METHOD_SGNS)
+        cli_info("isthmus train: %zu x %zu %s vectors in %.2f s\n", types, dim, kind,
+                 cli_now() - t0);
+    cli_wrote(a.out, "%zu x %zu %s vectors, native", types, dim, kind);
+    if (a.ctx_out)
+        cli_wrote(a.ctx_out, "%zu context vectors, native", types);
+    if (a.text_out)
+        cli_wrote(a.text_out, "%zu x %zu %s vectors, text table", types, dim, kind);
     if (res.ranks > 1)
         cli_info("isthmus train: %u ranks, %llu exchanges of %.1f MB per rank, %.2f s "
                  "exchanging (%.1f ms each), %.2f s waiting for other ranks\n", res.ranks,

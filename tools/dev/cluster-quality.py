@@ -70,7 +70,7 @@ def main():
                                   "--seed=" + seed,
                                   *shlex.split(a.train), "-o", vec[lang],
                                   os.path.join(a.data, lang + ".txt")], env=env)
-                rate = re.search(r"([0-9]+) words/s", p.stderr)
+                rate = re.search(r"([0-9]+) tokens/s", p.stderr)
                 print("%-5s %-9s %8.1f %8s | %s" % (seed, label, time.time() - t0,
                                                     rate.group(1) if rate else "?", lang),
                       flush=True)
