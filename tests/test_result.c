@@ -64,6 +64,32 @@ evaluate(const fixture *f, unsigned stages)
     return r;
 }
 
+/* Bands that follow the vocabulary's size (the default) are recorded among the options as
+ * the edges used: 800 source rows give 80 and 270 (a tenth and a third, two digits). */
+static void
+test_auto_bands_recorded(void **state)
+{
+    (void)state;
+    fixture f;
+    ist_evaluate_opts o;
+    ist_result *r = NULL;
+    ist_error err;
+    make_fixture(&f, 0);
+    ist_evaluate_opts_init(&o);
+    o.ci.resamples = 50;
+    o.diagnostics = false;
+    if (ist_evaluate(f.map, f.sy.src, f.sy.tgt, f.test, &f.cov, &o, &r, &err) != IST_OK)
+        fail_msg("ist_evaluate: %s", err.msg);
+    assert_int_equal(r->runs[0].m.nbands, 3);
+    assert_int_equal(r->options.nedges, 2);
+    assert_int_equal(r->options.band_edges[0], 80);
+    assert_int_equal(r->options.band_edges[1], 270);
+    for (size_t i = 0; i < r->options.nedges; i++)
+        assert_int_equal(r->options.band_edges[i], r->runs[0].m.band[i].hi);
+    ist_result_free(r);
+    free_fixture(&f);
+}
+
 /* One evaluation call: both stages, both methods, intervals, per-query words and
  * diagnostics, with the test list's identity. */
 static void
@@ -303,6 +329,7 @@ main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_evaluate_fills_the_record),
         cmocka_unit_test(test_round_trip),
+        cmocka_unit_test(test_auto_bands_recorded),
         cmocka_unit_test(test_overlap),
         cmocka_unit_test(test_list_checksum),
         cmocka_unit_test(test_loader_refuses),

@@ -265,6 +265,13 @@ ist_evaluate(const ist_map *map, const ist_store *src, const ist_store *tgt,
         rc = score_all(r, map, src, tgt, test, opts, err);
     if (rc == IST_OK && r->nruns)
         r->test.source_words = r->runs[0].m.queries;   /* distinct covered source words */
+    if (rc == IST_OK && r->nruns && opts->eval.bands_auto) {
+        /* the edges the vocabulary's size gave, not the fixed ones that were not used */
+        const ist_metrics *m = &r->runs[0].m;
+        r->options.nedges = m->nbands ? m->nbands - 1 : 0;
+        for (size_t i = 0; i < r->options.nedges; i++)
+            r->options.band_edges[i] = m->band[i].hi;
+    }
     if (rc != IST_OK) {
         ist_result_free(r);
         return rc;
