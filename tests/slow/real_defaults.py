@@ -27,7 +27,8 @@ from trained import run, skip
 #   en->es  Procrustes 34.6 / 33.7 / 33.4, refined 43.5 / 44.1 / 42.1
 #   es->en  Procrustes 41.6 / 41.2 / 41.9, refined 53.7 / 52.7 / 54.7
 # (the same seeds on a 2-core AVX2 machine on 2026-12-02: refined 44.1 / 44.1 / 42.7 and
-# 53.4 / 52.7 / 53.7). The floors sit 4 to 5 points below the lowest seed: with about 300 test
+# 53.4 / 52.7 / 53.7; this check with ISTHMUS_SIMD=portable, seeds 1-3, 2026-12-03: Procrustes
+# 34.6 / 33.7 / 33.4 and 41.6 / 41.2 / 41.9, refined 43.2 / 44.4 / 42.9 and 53.4 / 53.4 / 53.7). The floors sit 4 to 5 points below the lowest seed: with about 300 test
 # words one figure's 95% interval is about +-5 points, the seeds moved it by at most 2, so other
 # seeds, processors and kernel families pass, while losing the combination's gain would not:
 # skip-gram alone (refined 36.7 / 42.3, mean of the same seeds) is below both refined floors,
