@@ -85,18 +85,24 @@ typedef struct args {
     ev_common c;
 } args;
 
+/* Progress: the rounds of refinement as they end (the entry after the last allowed round
+ * only checks the last refit, and is not a round of its own). */
+static void
+round_done(const ist_align_round *r, void *ctx)
+{
+    size_t most = *(const size_t *)ctx;
+    if (r->round > most)
+        cli_progress_relabel("align: final check after round %zu done (%zu pairs)", most,
+                             r->pairs);
+    else
+        cli_progress_relabel("align: refinement round %zu of at most %zu done (%zu pairs)",
+                             r->round, most, r->pairs);
+}
+
 /* The refinement log, from the map's history once the fit is done (after the seed fit
  * line). Entry r measures the map that went into it (the seed fit for r = 1, else the map
  * refitted in round r - 1) by the mutual CSLS neighbours it induces; entries 1..rounds refit
  * on those pairs, and entry rounds + 1 only checks the last refit. */
-/* Progress: the rounds of refinement as they end. */
-static void
-round_done(const ist_align_round *r, void *ctx)
-{
-    cli_progress_relabel("align: refinement round %zu of at most %zu done (%zu pairs)",
-                         r->round, *(const size_t *)ctx, r->pairs);
-}
-
 static void
 print_refinement(const ist_map *map, size_t rounds)
 {
