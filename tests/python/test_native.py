@@ -49,11 +49,32 @@ def sanitizer_runtimes(path):
 runtimes = sanitizer_runtimes(lib_path)
 if runtimes and os.environ.get("ISTHMUS_NATIVE_PRELOADED") != "1":
     supp = os.path.join(os.path.dirname(os.path.abspath(__file__)), "lsan-python.supp")
-    env = dict(os.environ, ISTHMUS_NATIVE_PRELOADED="1",
+    saved = {"ISTHMUS_NATIVE_SAVED_" + k: os.environ.get(k, "(unset)")
+             for k in ("LD_PRELOAD", "ASAN_OPTIONS", "LSAN_OPTIONS")}
+    env = dict(os.environ, ISTHMUS_NATIVE_PRELOADED="1", **saved,
                LD_PRELOAD=" ".join(runtimes + [os.environ.get("LD_PRELOAD", "")]).strip(),
                ASAN_OPTIONS=os.environ.get("ASAN_OPTIONS", "") + ":malloc_context_size=2",
                LSAN_OPTIONS=os.environ.get("LSAN_OPTIONS", "") + ":suppressions=" + supp)
     os.execve(sys.executable, [sys.executable] + sys.argv, env)
+
+
+def program_env():
+    """The environment the program runs in: this process's, without the runtimes preloaded
+    and the sanitizer options changed for Python above, so that the program runs as the cli
+    suite runs it (a preloaded runtime made LeakSanitizer report, now and then, a block of
+    glibc's pthread_getattr_np in the program)."""
+    env = dict(os.environ)
+    for k in ("LD_PRELOAD", "ASAN_OPTIONS", "LSAN_OPTIONS"):
+        v = env.pop("ISTHMUS_NATIVE_SAVED_" + k, None)
+        if v is None:
+            continue
+        if v == "(unset)":
+            env.pop(k, None)
+        else:
+            env[k] = v
+    return env
+
+
 if runtimes:
     with open("/proc/self/maps") as f:
         if "asan" not in f.read():
@@ -82,7 +103,8 @@ def check(cond, what, detail=""):
 
 
 def run(*args, ok=(0,)):
-    p = subprocess.run([isthmus_exe] + list(args), cwd=work, capture_output=True, text=True)
+    p = subprocess.run([isthmus_exe] + list(args), cwd=work, capture_output=True, text=True,
+                       env=program_env())
     if p.returncode not in ok:
         sys.exit("isthmus %s: exit %d\n%s" % (" ".join(args), p.returncode, p.stderr))
     return p
@@ -90,7 +112,8 @@ def run(*args, ok=(0,)):
 
 def c_message(*args):
     """Exit status and the first message of a failing command, without 'isthmus CMD: '."""
-    p = subprocess.run([isthmus_exe] + list(args), cwd=work, capture_output=True, text=True)
+    p = subprocess.run([isthmus_exe] + list(args), cwd=work, capture_output=True, text=True,
+                       env=program_env())
     lines = [ln for ln in p.stderr.splitlines() if ln.startswith("isthmus ")]
     return p.returncode, re.sub(r"^isthmus [a-z-]+: ", "", lines[0] if lines else "")
 
