@@ -9,6 +9,7 @@
 #include "alloc_int.h"
 #include "error_int.h"
 #include "ppmi_int.h"
+#include "train_part_int.h"
 
 #define EMPTY_KEY UINT64_MAX
 #define PROGRESS_EVERY 65536     /* stream positions between updates of the shared counter */
@@ -201,19 +202,6 @@ counter_free(counter *c)
     ist_free(c->ak), ist_free(c->av);
 }
 
-/* Thread t's part of the stream starts after the first line end at or past t * n / T. */
-static size_t
-part_start(const uint32_t *ids, size_t n, size_t t, size_t T)
-{
-    if (t == 0)
-        return 0;
-    if (t >= T)
-        return n;
-    size_t p = (size_t)((double)n * (double)t / (double)T), q = p;
-    while (q < n && ids[q] != IST_CORPUS_EOL)
-        q++;
-    return q < n ? q + 1 : n;
-}
 
 /* Count the co-occurrences of the stream into the sorted distinct list of half pairs
  * (lo <= hi, key lo * vocab + hi). */
@@ -246,8 +234,8 @@ ist_ppmi_count_pairs(const uint32_t *ids, size_t n_ids, size_t vocab, const ist_
     for (size_t t = 0; t < T && rc == IST_OK; t++) {
         counter *c = &cs[t];
         c->sh = &sh;
-        c->begin = part_start(ids, n_ids, t, T);
-        c->end = part_start(ids, n_ids, t + 1, T);
+        c->begin = ist_train_part_start(ids, n_ids, t, T, true);
+        c->end = ist_train_part_start(ids, n_ids, t + 1, T, true);
         c->hcap = cap;
         c->hbits = bits;
         c->hlimit = cap / 10 * 7;

@@ -17,6 +17,7 @@
 #include "error_int.h"
 #include "matrix_int.h"
 #include "sgns_run_int.h"
+#include "train_part_int.h"
 
 #define MAX_THREADS 256
 #define MAX_DIM 10000
@@ -239,18 +240,11 @@ worker_alloc(worker *w, const shared *sh, ist_error *err)
     return IST_OK;
 }
 
-/* Thread t's part of the stream starts after the first line end at or past t * n / T. */
+/* A part of the stream for a thread or a rank (a line may be cut: see train_part_int.h). */
 static size_t
 part_start(const uint32_t *ids, size_t n, size_t t, size_t T)
 {
-    if (t == 0)
-        return 0;
-    if (t >= T)
-        return n;
-    size_t p = (size_t)((double)n * (double)t / (double)T), q = p;
-    while (q < n && ids[q] != IST_CORPUS_EOL && q - p < 100000)
-        q++;
-    return q < n && ids[q] == IST_CORPUS_EOL ? q + 1 : p;
+    return ist_train_part_start(ids, n, t, T, false);
 }
 
 /* The threads share [lo, hi) of the stream. */
