@@ -19,28 +19,10 @@ if [ "${6:-no}" != yes ] || [ -z "$mpirun" ]; then
     echo "1..0 # SKIP isthmus built without MPI, or no mpirun"
     exit 0   # TAP's own skip (meson reads a TAP exit status of 77 as an error)
 fi
-export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
-export OMPI_MCA_btl=self,vader OMPI_MCA_oob_tcp_if_include=lo OMPI_MCA_btl_tcp_if_include=lo
-export OMPI_MCA_btl_vader_single_copy_mechanism=none OMPI_MCA_mpi_yield_when_idle=1
-# no binding to cores: OpenBLAS then sees the same processors in every rank as in one process
-export OMPI_MCA_hwloc_base_binding_policy=none OMPI_MCA_rmaps_base_oversubscribe=1
-# Open MPI's own start-up allocations are never freed (they would fail a LeakSanitizer run);
-# leaks are checked on the single-process runs, not inside mpirun
-mpi() {
-    ASAN_OPTIONS="${ASAN_OPTIONS:-}:detect_leaks=0" "$mpirun" "$@"
-}
+. "$src/tests/tap.sh"
+mpi_local
 rm -rf "$work"
 mkdir -p "$work/one" && cd "$work" || exit 1
-n=0 failed=0
-check() {   # description, command...
-    desc=$1; shift
-    n=$((n + 1))
-    if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
-        echo "not ok $n - $desc"; failed=$((failed + 1)); fi
-}
-same() {   # both non-empty and equal
-    test -s "$1" && test -s "$2" && cmp "$1" "$2"
-}
 # small vectors from 300 KB of each demo corpus, as in check_determinism.sh
 gzip -dc "$data/tillwick-en.txt.gz" | head -c 300000 > one/en.txt
 gzip -dc "$data/tillwick-es.txt.gz" | head -c 300000 > one/es.txt
@@ -96,5 +78,4 @@ rc=$?
 check "a missing map under 2 ranks: exit 1" test $rc -eq 1
 check "... one message naming the file, no result file" \
     sh -c 'test "$(grep -c "missing.map" bad.err)" -eq 1 && test ! -e bad.json'
-echo "# cluster: $((n - failed)) passed, $failed failed"
-[ $failed -eq 0 ]
+tap_end cluster

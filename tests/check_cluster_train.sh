@@ -14,24 +14,10 @@ if [ "${5:-no}" != yes ] || [ -z "$mpirun" ]; then
     echo "1..0 # SKIP isthmus built without MPI, or no mpirun"
     exit 0
 fi
-export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
-export OMPI_MCA_btl=self,vader OMPI_MCA_oob_tcp_if_include=lo OMPI_MCA_btl_tcp_if_include=lo
-export OMPI_MCA_btl_vader_single_copy_mechanism=none OMPI_MCA_mpi_yield_when_idle=1
-export OMPI_MCA_hwloc_base_binding_policy=none OMPI_MCA_rmaps_base_oversubscribe=1
-# Open MPI's own start-up allocations are never freed (they would fail a LeakSanitizer run);
-# leaks are checked on the single-process runs, not inside mpirun
-mpi() {
-    ASAN_OPTIONS="${ASAN_OPTIONS:-}:detect_leaks=0" "$mpirun" "$@"
-}
+. "$src/tests/tap.sh"
+mpi_local
 rm -rf "$work"
 mkdir -p "$work" && cd "$work" || exit 1
-n=0 failed=0
-check() {   # description, command...
-    desc=$1; shift
-    n=$((n + 1))
-    if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
-        echo "not ok $n - $desc"; failed=$((failed + 1)); fi
-}
 echo "1..8"
 gzip -dc "$src/data-samples/tillwick-en.txt.gz" | head -c 300000 > en.txt
 "$isthmus" -q prepare -o en.prep en.txt >/dev/null 2>&1 || exit 1
@@ -87,5 +73,4 @@ check "a rank stopped alone: the job stops with the status of a stop, 130 ($rc)"
 check "... the message names rank 1" grep -q 'rank 1 of 2' stop.err
 check "... no vector file and no temporary file left" \
     sh -c 'test ! -e stopped.isv && ! ls -a | grep -q "\.tmp-"'
-echo "# cluster-train: $((n - failed)) passed, $failed failed"
-[ $failed -eq 0 ]
+tap_end cluster-train

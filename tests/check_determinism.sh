@@ -13,16 +13,7 @@ work=$3
 data="$src/data-samples"
 rm -rf "$work"
 mkdir -p "$work" && cd "$work" || exit 1
-n=0 failed=0
-same() {   # two files, both non-empty and equal
-    test -s "$1" && test -s "$2" && cmp "$1" "$2"
-}
-check() {   # description, command...
-    desc=$1; shift
-    n=$((n + 1))
-    if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
-        echo "not ok $n - $desc"; failed=$((failed + 1)); fi
-}
+. "$src/tests/tap.sh"
 echo "1..10"
 # 300 KB of each demo corpus: a few thousand words, trained in well under a second
 gzip -dc "$data/tillwick-en.txt.gz" | head -c 300000 > en.txt
@@ -68,5 +59,4 @@ for t in 1 2; do
     "$isthmus" -q propose en1.isv es1.isv --map=m1.map --threads=$t -o c$t.tsv >/dev/null 2>&1
 done
 check "propose: candidate list identical with 1 and 2 threads" same c1.tsv c2.tsv
-echo "# determinism: $((n - failed)) passed, $failed failed"
-[ $failed -eq 0 ]
+tap_end determinism

@@ -13,13 +13,7 @@ src=$3
 work=$4
 rm -rf "$work"
 mkdir -p "$work" && cd "$work" || exit 1
-n=0 failed=0
-check() {   # description, command...
-    desc=$1; shift
-    n=$((n + 1))
-    if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
-        echo "not ok $n - $desc"; failed=$((failed + 1)); fi
-}
+. "$src/tests/tap.sh"
 # a sanitizer runtime wants to come first; the module only forwards pthread_create
 export ASAN_OPTIONS="${ASAN_OPTIONS:-}:verify_asan_link_order=0"
 export OPENBLAS_NUM_THREADS=1
@@ -53,5 +47,4 @@ check "prepare writes the same bytes on 1 and 3 threads" cmp p1.prep p3.prep
 check "train RAW --threads=3 adds the threads of prepare and of train PREPARED" \
     test $(( $(count trainraw3) - $(count trainraw1) )) -eq \
          $(( $(count prepare3) - $(count prepare1) + $(count trainprep3) - $(count trainprep1) ))
-echo "# train-threads: $((n - failed)) passed, $failed failed"
-[ $failed -eq 0 ]
+tap_end train-threads

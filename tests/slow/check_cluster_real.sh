@@ -25,28 +25,10 @@ if ! sh "$src/tests/fetch-real-data.sh" "$work/real-data" >fetch.log 2>&1; then
     exit 0
 fi
 data=$work/real-data
-# Open MPI on this machine only (shared memory, launcher on loopback); as root it needs the
-# allow-run-as-root switches, and 3 ranks on 2 cores need oversubscription. No binding to
-# cores: OpenBLAS then sees the same processors in every rank as in one process.
-export OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1
-export OMPI_MCA_btl=self,vader OMPI_MCA_oob_tcp_if_include=lo OMPI_MCA_btl_tcp_if_include=lo
-export OMPI_MCA_btl_vader_single_copy_mechanism=none OMPI_MCA_mpi_yield_when_idle=1
-export OMPI_MCA_hwloc_base_binding_policy=none OMPI_MCA_rmaps_base_oversubscribe=1
-mpi() {
-    ASAN_OPTIONS="${ASAN_OPTIONS:-}:detect_leaks=0" "$mpirun" "$@"
-}
+. "$src/tests/tap.sh"
+mpi_local
 rm -rf one np2 np3
 mkdir -p one || exit 1
-n=0 failed=0
-check() {   # description, command...
-    desc=$1; shift
-    n=$((n + 1))
-    if "$@" >/dev/null 2>&1; then echo "ok $n - $desc"; else
-        echo "not ok $n - $desc"; failed=$((failed + 1)); fi
-}
-same() {   # both non-empty and equal
-    test -s "$1" && test -s "$2" && cmp "$1" "$2"
-}
 for l in en es; do
     "$isthmus" -q train --method=skip-gram --dimension=64 --passes=3 --threads=1 --seed=1 \
         -o one/$l.isv "$data/$l.txt" || exit 1
@@ -86,5 +68,4 @@ for np in 2 3; do
     check "propose, $np ranks: candidate list byte-identical" same one/cand.tsv np$np/cand.tsv
     check "lookup, $np ranks: neighbours byte-identical" same one/lookup.out np$np/lookup.out
 done
-echo "# cluster-real: $((n - failed)) passed, $failed failed"
-[ $failed -eq 0 ]
+tap_end cluster-real
