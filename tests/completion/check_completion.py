@@ -17,19 +17,11 @@ import sys
 
 exe, comp, work = (os.path.abspath(a) for a in sys.argv[1:4])
 bash = shutil.which("bash") or "/bin/bash"
-n_ok = n_fail = 0
-
-
-def check(cond, what, detail=""):
-    global n_ok, n_fail
-    if cond:
-        n_ok += 1
-        print("ok %d - %s" % (n_ok + n_fail, what))
-    else:
-        n_fail += 1
-        print("not ok %d - %s" % (n_ok + n_fail, what))
-        for line in str(detail).splitlines()[:30]:
-            print("# " + line)
+sys.dont_write_bytecode = True          # leave no __pycache__ in the source tree
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+from tap import Tap  # noqa: E402
+tap = Tap("completion", detail_lines=30)
+check = tap.check
 
 
 def program(*args):
@@ -190,6 +182,4 @@ got = complete("isthmus score --rank-by=c")
 check(sorted(got) == ["cosine", "csls"] or not got and "--rank-by" not in
       program("help", "score").stdout, "--rank-by=c<Tab> offers cosine and csls", got)
 
-print("1..%d" % (n_ok + n_fail))
-print("# completion: %d passed, %d failed" % (n_ok, n_fail))
-sys.exit(1 if n_fail else 0)
+sys.exit(tap.end())

@@ -24,19 +24,11 @@ import sys
 (build, root, work, prefix, libdir, includedir, mandir, datadir, version, cc,
  sanitize) = sys.argv[1:12]
 build, root, work = (os.path.abspath(p) for p in (build, root, work))
-n_ok = n_fail = 0
-
-
-def check(cond, what, detail=""):
-    global n_ok, n_fail
-    if cond:
-        n_ok += 1
-        print("ok %d - %s" % (n_ok + n_fail, what))
-    else:
-        n_fail += 1
-        print("not ok %d - %s" % (n_ok + n_fail, what))
-        for line in str(detail).splitlines()[:40]:
-            print("# " + line)
+sys.dont_write_bytecode = True          # leave no __pycache__ in the source tree
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+from tap import Tap  # noqa: E402
+tap = Tap("install", detail_lines=40)
+check = tap.check
 
 
 def sh(args, env=None, cwd=None):
@@ -57,8 +49,7 @@ stage = os.path.join(work, "stage")
 p = sh(["meson", "install", "-C", build, "--no-rebuild", "--quiet", "--destdir", stage])
 check(p.returncode == 0, "meson install into a staging directory", p.stdout + p.stderr)
 if p.returncode != 0:
-    print("1..%d" % n_fail)
-    sys.exit(1)
+    sys.exit(tap.end())
 lib, inc, man, data = under(libdir), under(includedir), under(mandir), under(datadir)
 bindir = under("bin")
 
@@ -200,6 +191,4 @@ missing = sorted(declared - set(exported))
 check(declared and not missing, "every IST_API function of the public headers is exported (%d)"
       % len(declared), "declared but not exported: %s" % missing)
 
-print("1..%d" % (n_ok + n_fail))
-print("# install: %d passed, %d failed" % (n_ok, n_fail))
-sys.exit(1 if n_fail else 0)
+sys.exit(tap.end())

@@ -87,19 +87,10 @@ sys.path.insert(0, os.path.join(root, "tools", "python"))
 import isthmus  # noqa: E402
 from isthmus import native  # noqa: E402
 
-n_ok = n_fail = 0
-
-
-def check(cond, what, detail=""):
-    global n_ok, n_fail
-    if cond:
-        n_ok += 1
-        print("ok %d - %s" % (n_ok + n_fail, what))
-    else:
-        n_fail += 1
-        print("not ok %d - %s" % (n_ok + n_fail, what))
-        for line in str(detail).splitlines():
-            print("# " + line)
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+from tap import Tap  # noqa: E402
+tap = Tap("python-native")
+check = tap.check
 
 
 def run(*args, ok=(0,)):
@@ -396,6 +387,4 @@ e = raised(lib.align, "half.txt", "es.isv", seeds)
 check(rc == 1 and isinstance(e, isthmus.MismatchError) and str(e) == cmsg,
       "vectors of different dimensions: the program's message", "C: %s\nPython: %s" % (cmsg, e))
 
-print("1..%d" % (n_ok + n_fail))
-print("# python-native: %d passed, %d failed" % (n_ok, n_fail))
-sys.exit(1 if n_fail else 0)
+sys.exit(tap.end())

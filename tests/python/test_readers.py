@@ -24,19 +24,10 @@ sys.dont_write_bytecode = True          # leave no __pycache__ in the source tre
 sys.path.insert(0, os.path.join(root, "tools", "python"))
 import isthmus  # noqa: E402
 
-n_ok = n_fail = 0
-
-
-def check(cond, what, detail=""):
-    global n_ok, n_fail
-    if cond:
-        n_ok += 1
-        print("ok %d - %s" % (n_ok + n_fail, what))
-    else:
-        n_fail += 1
-        print("not ok %d - %s" % (n_ok + n_fail, what))
-        for line in str(detail).splitlines():
-            print("# " + line)
+sys.path.insert(0, os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+from tap import Tap  # noqa: E402
+tap = Tap("python-readers")
+check = tap.check
 
 
 def run(*args, ok=(0,)):
@@ -341,6 +332,4 @@ pmsg = py_message(isthmus.read_result, "verdict.json")
 check(rc == 1 and cmsg == pmsg, "a verdict is not taken for a result: %s" % pmsg,
       "C: %s\nPython: %s" % (cmsg, pmsg))
 
-print("1..%d" % (n_ok + n_fail))
-print("# python-readers: %d passed, %d failed" % (n_ok, n_fail))
-sys.exit(1 if n_fail else 0)
+sys.exit(tap.end())
