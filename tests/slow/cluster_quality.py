@@ -43,12 +43,7 @@ def main():
     isthmus, mpirun, src, work, built = sys.argv[1:6]
     if built != "yes" or not mpirun:
         trained.skip("isthmus built without MPI, or no mpirun")
-    fetch = os.path.join(src, "tests", "fetch-real-data.sh")
-    if not os.path.exists(fetch):
-        trained.skip("tests/fetch-real-data.sh is not in this tree")
-    data = os.path.join(work, "real-data")
-    trained.extract(fetch, data, "real data")
-    tw = trained.workdir(work)
+    data, tw = trained.real_data(isthmus, src, work, need_train=False)
     env = dict(os.environ, **MPI_ENV)
     env["ASAN_OPTIONS"] = env.get("ASAN_OPTIONS", "") + ":detect_leaks=0"
     checks, results = [], {}

@@ -10,11 +10,9 @@ Skips (exit 77) when the extraction script, the trainer or the Debian packages a
 Usage: real_align.py ISTHMUS SOURCE-DIR WORK-DIR
 """
 import os
-import subprocess
 import sys
 
 import trained
-from trained import run, skip
 
 # Floors, measured 2026-12-01 on a 2-core machine (d300, context 10, 20 passes, 2 training
 # threads, so training is not bit-reproducible). Three runs, CSLS P@1:
@@ -30,25 +28,14 @@ FLOORS = {
 
 def main():
     isthmus, src, work = sys.argv[1:4]
-    fetch = os.path.join(src, "tests", "fetch-real-data.sh")
-    if not os.path.exists(fetch):
-        skip("tests/fetch-real-data.sh is not in this tree")
-    if subprocess.run([isthmus, "help", "train"], capture_output=True).returncode != 0:
-        skip("this isthmus has no train command")
-    data = os.path.join(work, "real-data")
-    trained.extract(fetch, data, "real data")
-    tw = trained.workdir(work)
-    for lang in ("en", "es"):
-        vec = os.path.join(tw, lang + "-d300.isv")
-        if not os.path.exists(vec):
-            run([isthmus, "-q", "train", *trained.train_flags(), "--method=skip-gram",
-                 "--dimension", "300", "--context", "10", "--passes", "20", "-o", vec,
-                 os.path.join(data, lang + ".txt")])
+    data, tw = trained.real_data(isthmus, src, work)
+    vec = trained.train_each(isthmus, data, tw, "d300", "--method=skip-gram",
+                             "--dimension", "300", "--context", "10", "--passes", "20")
     checks = []
     for s, t in (("en", "es"), ("es", "en")):
         name = s + "-" + t
         res = trained.align_held_out(
-            isthmus, os.path.join(tw, s + "-d300.isv"), os.path.join(tw, t + "-d300.isv"),
+            isthmus, vec[s], vec[t],
             os.path.join(data, name + ".pairs"), os.path.join(tw, name + ".map"),
             os.path.join(tw, name + ".json"))
         runs = {(x["label"], x["retrieval"]): x for x in res["runs"]}

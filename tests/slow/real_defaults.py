@@ -15,11 +15,9 @@ Skips (exit 77) when the extraction script, the trainer or the Debian packages a
 Usage: real_defaults.py ISTHMUS SOURCE-DIR WORK-DIR
 """
 import os
-import subprocess
 import sys
 
 import trained
-from trained import run, skip
 
 # Floors, measured 2026-12-03 with tools/dev/measure-defaults.py (docs/defaults.md, "The
 # combined default on the Bible check"): the defaults, one training thread, OPENBLAS_NUM_THREADS=1,
@@ -41,25 +39,14 @@ FLOORS = {
 
 def main():
     isthmus, src, work = sys.argv[1:4]
-    fetch = os.path.join(src, "tests", "fetch-real-data.sh")
-    if not os.path.exists(fetch):
-        skip("tests/fetch-real-data.sh is not in this tree")
-    if subprocess.run([isthmus, "help", "train"], capture_output=True).returncode != 0:
-        skip("this isthmus has no train command")
-    data = os.path.join(work, "real-data")
-    trained.extract(fetch, data, "real data")
-    tw = trained.workdir(work)
+    data, tw = trained.real_data(isthmus, src, work)
     os.environ["OPENBLAS_NUM_THREADS"] = "1"   # the SVD's BLAS too, for every command below
-    for lang in ("en", "es"):
-        vec = os.path.join(tw, lang + "-defaults.isv")
-        if not os.path.exists(vec):
-            run([isthmus, "-q", "train", *trained.train_flags(), "-o", vec,
-                 os.path.join(data, lang + ".txt")])
+    vec = trained.train_each(isthmus, data, tw, "defaults")
     checks = []
     for s, t in (("en", "es"), ("es", "en")):
         name = s + "-" + t
         res = trained.align_held_out(
-            isthmus, os.path.join(tw, s + "-defaults.isv"), os.path.join(tw, t + "-defaults.isv"),
+            isthmus, vec[s], vec[t],
             os.path.join(data, name + ".pairs"), os.path.join(tw, name + "-defaults.map"),
             os.path.join(tw, name + "-defaults.json"), "--threads=1")
         csls = [x for x in res["runs"] if x["retrieval"] == "csls"]

@@ -61,11 +61,8 @@ def main():
     except ImportError:
         skip("numpy is not installed")
     isthmus, src, work = sys.argv[1:4]
-    fetch = os.path.join(src, "tests", "fetch-real-data.sh")
-    data = os.path.join(work, "real-data")
-    trained.extract(fetch, data, "real data")
+    data, tw = trained.real_data(isthmus, src, work, need_train=False)
     checks = []
-    tw = trained.workdir(work)
     close, total, rr = 0, 0, 0.0
     for lang, pairs in PAIRS.items():
         vec = os.path.join(tw, lang + "-default.isv")

@@ -35,6 +35,34 @@ def extract(script, dest, what):
         skip(what + " not available: " + r.stderr.strip().replace("\n", " "))
 
 
+def real_data(isthmus, src, work, need_train=True):
+    """The Bible data of tests/fetch-real-data.sh extracted under work, and this run's work
+    directory (workdir); skips, saying why, when the script, the data or (need_train) the
+    train command is missing."""
+    fetch = os.path.join(src, "tests", "fetch-real-data.sh")
+    if not os.path.exists(fetch):
+        skip("tests/fetch-real-data.sh is not in this tree")
+    if need_train and subprocess.run([isthmus, "help", "train"],
+                                     capture_output=True).returncode != 0:
+        skip("this isthmus has no train command")
+    data = os.path.join(work, "real-data")
+    extract(fetch, data, "real data")
+    return data, workdir(work)
+
+
+def train_each(isthmus, data, tw, tag, *options):
+    """English and Spanish vectors tw/LANG-TAG.isv trained from data/LANG.txt with the
+    checks' flags and the options, unless a file of that name is there already; their paths
+    by language."""
+    vec = {}
+    for lang in ("en", "es"):
+        vec[lang] = os.path.join(tw, "%s-%s.isv" % (lang, tag))
+        if not os.path.exists(vec[lang]):
+            run([isthmus, "-q", "train", *train_flags(), *options, "-o", vec[lang],
+                 os.path.join(data, lang + ".txt")])
+    return vec
+
+
 def align_held_out(isthmus, src_vec, tgt_vec, pairs, map_out, json_out, *extra):
     """isthmus align on a pair list split by source word, one third test (split seed 1);
     returns the result JSON."""
