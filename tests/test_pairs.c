@@ -366,6 +366,29 @@ test_allocation_failures(void **state)
     ist_store_free(tgt);
 }
 
+/* A list read from a file is saved so that it reads back with the same pairs, even when
+ * its first word opens with '{' (behind a comment when read): saved bare, that file would
+ * be taken for JSON. Found by fuzz_pairs. */
+static void
+test_saved_list_reads_back(void **state)
+{
+    (void)state;
+    ist_error err;
+    char *dir = harness_tmpdir(), *out = harness_path(dir, "saved.pairs");
+    ist_pairs *p = read_text("# made by hand\n{ brace\nuno one\n", IST_OK, &err), *q = NULL;
+    assert_int_equal(ist_pairs_count(p), 2);
+    assert_int_equal(ist_pairs_save(p, out, &err), IST_OK);
+    assert_int_equal(ist_pairs_read(out, &q, &err), IST_OK);
+    assert_int_equal(ist_pairs_count(q), 2);
+    assert_string_equal(ist_pairs_source(q, 0), "{");
+    assert_string_equal(ist_pairs_target(q, 0), "brace");
+    assert_string_equal(ist_pairs_source(q, 1), "uno");
+    ist_pairs_free(q);
+    ist_pairs_free(p);
+    free(out);
+    harness_rmdir(dir);
+}
+
 int
 main(void)
 {
@@ -377,6 +400,7 @@ main(void)
         cmocka_unit_test(test_identical_seeds),
         cmocka_unit_test(test_normalised_like_vocabulary),
         cmocka_unit_test(test_numbers_masked_like_vocabulary),
+        cmocka_unit_test(test_saved_list_reads_back),
         cmocka_unit_test(test_allocation_failures),
     };
     HARNESS_RUN("pairs", tests);

@@ -750,6 +750,14 @@ ist_pairs_save(const ist_pairs *p, const char *path, ist_error *err)
 
     if (rc != IST_OK)
         return rc;
+    /* A list whose first word opens with '{' would be taken for a JSON file when read
+     * back; a comment line first keeps it a pair list (the reader skips comments). */
+    for (size_t i = 0; i < p->n; i++)
+        if (is_kept(p, i)) {
+            if (ist_pairs_source(p, i)[0] == '{')
+                rc = ist_ofile_printf(f, err, "# pair list: source<TAB>target\n");
+            break;
+        }
     for (size_t i = 0; rc == IST_OK && i < p->n; i++)
         if (is_kept(p, i))
             rc = ist_ofile_printf(f, err, "%s\t%s\n", ist_pairs_source(p, i),
