@@ -5,10 +5,10 @@
 #include <math.h>
 #include <string.h>
 
-#include <cblas.h>
 #include <lapacke.h>
 
 #include "alloc_int.h"
+#include "blas_int.h"
 #include "error_int.h"
 
 #define PROCRUSTES_BLOCK 4096   /* rows converted to double per dgemm */
@@ -35,6 +35,7 @@ ist_linalg_gemm(bool ta, bool tb, float alpha, ist_cmatview a, ist_cmatview b, f
                 c.data[i * c.stride + j] *= beta;
         return IST_OK;
     }
+    ist_blas_serial();
     cblas_sgemm(CblasRowMajor, ta ? CblasTrans : CblasNoTrans, tb ? CblasTrans : CblasNoTrans,
                 (int)m, (int)n, (int)ka, alpha, a.data, (int)a.stride, b.data, (int)b.stride, beta,
                 c.data, (int)c.stride);
@@ -47,6 +48,7 @@ static ist_status
 svd_double(char jobz, double *a, size_t rows, size_t cols, double *s, double *u, double *vt,
            bool *no_convergence, ist_error *err)
 {
+    ist_blas_serial();
     lapack_int info = LAPACKE_dgesdd(LAPACK_ROW_MAJOR, jobz, (lapack_int)rows, (lapack_int)cols,
                                      a, (lapack_int)cols, s, u, (lapack_int)rows, vt,
                                      (lapack_int)cols);
@@ -118,6 +120,7 @@ accumulate_cross(ist_cmatview x, ist_cmatview z, double *m, ist_error *err)
         ist_free(bz);
         return ist_error_nomem(err);
     }
+    ist_blas_serial();
     memset(m, 0, d * d * sizeof *m);
     for (size_t r0 = 0; r0 < x.rows; r0 += blk) {
         size_t nr = x.rows - r0 < blk ? x.rows - r0 : blk;

@@ -11,6 +11,7 @@
 #include <isthmus/text.h>
 
 #include "alloc_int.h"
+#include "blas_int.h"
 #include "diag_int.h"
 #include "error_int.h"
 
@@ -99,6 +100,7 @@ graph_spectrum(ist_cmatview a, size_t k, const ist_retrieve_opts *ro, double *ev
         rc = ist_error_set(err, IST_ERR_CANCELLED, "isometry: cancelled");
         goto done;
     }
+    ist_blas_serial();
     lapack_int info = LAPACKE_dsyevd(LAPACK_ROW_MAJOR, 'N', 'U', (lapack_int)n, lap,
                                      (lapack_int)n, ev);
     if (info == LAPACK_WORK_MEMORY_ERROR) {

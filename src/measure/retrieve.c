@@ -9,11 +9,11 @@
 #include <string.h>
 #include <unistd.h>
 
-#include <cblas.h>
 
 #include <isthmus/cancel.h>
 
 #include "alloc_int.h"
+#include "blas_int.h"
 #include "cluster_int.h"
 #include "error_int.h"
 
@@ -306,7 +306,7 @@ run_workers(worker *ws, unsigned nw, ist_error *err)
     /* our threads are the parallelism, also when there is one: a tile multiplied by a
      * threaded BLAS is split differently and its scores differ in the last bits, so
      * --threads=1 and --threads=2 would not give the same result file */
-    openblas_set_num_threads(1);
+    ist_blas_serial();
     for (unsigned w = 1; w < nw; w++) {
         if (pthread_create(&ws[w].tid, NULL, work, &ws[w]) != 0)
             break;   /* fewer helpers; the others take their tiles */

@@ -3,7 +3,6 @@
  * (methods and citations in include/isthmus/ppmi.h and docs/methods.md). */
 #include <isthmus/ppmi.h>
 
-#include <cblas.h>
 #include <lapacke.h>
 #include <math.h>
 #include <pthread.h>
@@ -15,6 +14,7 @@
 #include <isthmus/cancel.h>
 
 #include "alloc_int.h"
+#include "blas_int.h"
 #include "error_int.h"
 #include "ppmi_int.h"
 
@@ -305,6 +305,7 @@ to_rows(const double *t, double *a, size_t n, size_t l)
 static ist_status
 orthonormalise(double *a, double *t, size_t n, size_t l, double *tau, ist_error *err)
 {
+    ist_blas_serial();
     to_cols(a, t, n, l);
     lapack_int info = LAPACKE_dgeqrf(LAPACK_COL_MAJOR, (lapack_int)n, (lapack_int)l, t,
                                      (lapack_int)n, tau);
