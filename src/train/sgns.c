@@ -265,6 +265,7 @@ run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_er
 
     (void)n_ids;
     sh->finished = 0;
+    sh->lr_start = ist_sgns_current_lr(sh, sh->words_done);
     for (size_t t = 0; t < sh->nthreads; t++) {
         if (pthread_create(&ws[t].thread, NULL, ist_sgns_worker_main, &ws[t]) != 0) {
             rc = ist_error_sys(err, IST_ERR_NOMEM, NULL, "cannot start training thread %zu",

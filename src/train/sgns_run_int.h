@@ -30,6 +30,8 @@ typedef struct shared {
     uint64_t words_per_epoch, words_total;
     uint64_t ranks;                  /* words done here count this many times (schedule) */
     bool final_pass;                 /* the pass being run is the last one */
+    double lr_start;                 /* the rate the threads of a run start with, set before
+                                      * they start (they must not read words_done unlocked) */
     float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
     atomic_int stop;
     pthread_mutex_t lock;            /* guards the counters below */

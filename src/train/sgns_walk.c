@@ -322,8 +322,8 @@ ist_sgns_worker_main(void *arg)
 {
     worker *w = arg;
     shared *sh = w->sh;
-    float lr = (float)ist_sgns_current_lr(sh, sh->words_done);   /* lr0 at the start; a slice of
-                                                         * a rank's share goes on from there */
+    float lr = (float)sh->lr_start;   /* lr0 at the start; a slice of a rank's share goes on
+                                       * from there */
     uint64_t since = 0;
     uint32_t win = (uint32_t)sh->window;
 
