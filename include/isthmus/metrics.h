@@ -60,6 +60,12 @@ typedef struct ist_metrics {
 /** Release the per-query arrays of m (and set them to NULL). */
 IST_API void ist_metrics_release(ist_metrics *m);
 
+/** The label of the frequency band of ranks lo..hi (hi 0: no upper end) into buf of cap
+ * bytes, cut to fit: "lo" dash "hi", or "lo+". dash is "-" in plain text (the spelling of
+ * a band in a thresholds file and the program's tables) and "\xe2\x80\x93" (an en dash)
+ * in typeset output such as the report. Returns buf. */
+IST_API char *ist_band_label(size_t lo, size_t hi, const char *dash, char *buf, size_t cap);
+
 typedef struct ist_eval_opts {
     ist_retrieval method;          /* [CSLS] */
     size_t band_edges[IST_METRICS_MAX_BANDS - 1];  /* upper ranks of the bands (when not

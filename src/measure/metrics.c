@@ -1,6 +1,7 @@
 /* metrics.c - precision@k over a test list, by frequency band. */
 #include <isthmus/metrics.h>
 
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -118,6 +119,16 @@ ist_metrics_release(ist_metrics *m)
     ist_free(m->query_place);
     m->query_row = NULL;
     m->query_place = NULL;
+}
+
+char *
+ist_band_label(size_t lo, size_t hi, const char *dash, char *buf, size_t cap)
+{
+    if (hi)
+        snprintf(buf, cap, "%zu%s%zu", lo, dash, hi);
+    else
+        snprintf(buf, cap, "%zu+", lo);
+    return buf;
 }
 
 static size_t

@@ -52,10 +52,7 @@ find_band(const ist_result *res, const ist_result_run *run, const ist_gate_rule 
         }
     }
     char want[64];
-    if (r->band_to)
-        snprintf(want, sizeof want, "%zu-%zu", r->band_from, r->band_to);
-    else
-        snprintf(want, sizeof want, "%zu+", r->band_from);
+    ist_band_label(r->band_from, r->band_to, "-", want, sizeof want);
     ist_error_set(err, IST_ERR_INVALID, "%s: rule '%s' (line %zu): the result has no band %s",
                   res->name, r->text, r->line, want);
     return false;

@@ -395,15 +395,6 @@ runs_table(rep *r)
 }
 
 static void
-band_label(const ist_band *band, char *buf, size_t cap)
-{
-    if (band->hi)
-        snprintf(buf, cap, "%zu\xe2\x80\x93%zu", band->lo, band->hi);
-    else
-        snprintf(buf, cap, "%zu+", band->lo);
-}
-
-static void
 band_chart(rep *r, size_t j, size_t nb, const size_t *keep, const char *const *cats)
 {
     double v[RS_MAX_SERIES][MAX_BANDS], lo[RS_MAX_SERIES][MAX_BANDS], hi[RS_MAX_SERIES][MAX_BANDS];
@@ -461,7 +452,7 @@ bands(rep *r)
                 first = first ? first : &r->res->runs[i].m.band[j];
         if (!first)
             continue;
-        band_label(first, cats_buf[nk], sizeof cats_buf[nk]);
+        ist_band_label(first->lo, first->hi, EN_DASH, cats_buf[nk], sizeof cats_buf[nk]);
         cats[nk] = cats_buf[nk];
         keep[nk++] = j;
     }
@@ -484,7 +475,7 @@ bands(rep *r)
         for (size_t j = 0; j < run->m.nbands; j++) {
             if (run->m.band[j].queries == 0)
                 continue;
-            band_label(&run->m.band[j], lab, sizeof lab);
+            ist_band_label(run->m.band[j].lo, run->m.band[j].hi, EN_DASH, lab, sizeof lab);
             rb_put(b, "<tr><td>");
             rb_esc(b, name);
             rb_put(b, "</td><td>");
@@ -638,7 +629,7 @@ run_table(rep *r)
         s[0] = 0;
         for (size_t i = 0; i < m->nbands && n < sizeof s; i++) {
             char lab[48];
-            band_label(&m->band[i], lab, sizeof lab);
+            ist_band_label(m->band[i].lo, m->band[i].hi, EN_DASH, lab, sizeof lab);
             n += (size_t)snprintf(s + n, sizeof s - n, "%s%s", i ? ", " : "", lab);
         }
         kv(b, "frequency bands (ranks)", s, false);

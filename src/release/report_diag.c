@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include <isthmus/diag.h>
+#include <isthmus/metrics.h>
 
 #include "report_int.h"
 
@@ -97,13 +98,11 @@ hub_table(rbuf *b, const ist_diag *d, const ist_diag_summary *s)
 static void
 occ_label(const ist_diag_summary *s, size_t i, char *buf, size_t cap)
 {
-    uint32_t from = s->occ_from[i];
-    if (i + 1 == IST_DIAG_OCC_BINS)
-        snprintf(buf, cap, "%u+", (unsigned)from);
-    else if (s->occ_from[i + 1] - 1 == from)
-        snprintf(buf, cap, "%u", (unsigned)from);
+    size_t from = s->occ_from[i], to = i + 1 == IST_DIAG_OCC_BINS ? 0 : s->occ_from[i + 1] - 1;
+    if (to && to == from)
+        snprintf(buf, cap, "%zu", from);
     else
-        snprintf(buf, cap, "%u\xe2\x80\x93%u", (unsigned)from, (unsigned)(s->occ_from[i + 1] - 1));
+        ist_band_label(from, to, EN_DASH, buf, cap);
 }
 
 static void

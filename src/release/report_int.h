@@ -18,6 +18,9 @@ void rb_printf(rbuf *b, const char *fmt, ...) __attribute__((format(printf, 2, 3
 /* Text escaped for HTML and XML (& < > " '); NULL writes nothing. */
 void rb_esc(rbuf *b, const char *s);
 
+/* The dash of a range of ranks in the report (ist_band_label). */
+#define EN_DASH "\xe2\x80\x93"
+
 #define RS_MAX_SERIES 4
 
 /* One series of a bar chart: values (NaN: no bar), optional interval ends (NaN: none). */

@@ -248,15 +248,6 @@ ev_check_overlap(const char *cmd, const ist_pairs *seeds, const ist_pairs *test,
     return CLI_EXIT_ERROR;
 }
 
-static void
-band_name(const ist_band *b, char *buf, size_t cap)
-{
-    if (b->hi)
-        snprintf(buf, cap, "%zu-%zu", b->lo, b->hi);
-    else
-        snprintf(buf, cap, "%zu+", b->lo);
-}
-
 /* One figure for people: percent with the sign and one decimal, the interval beside it
  * in the same unit when there is one ("86.6% [83.2, 90.0]"). */
 static void
@@ -324,7 +315,7 @@ ev_print_runs(const ist_result *res)
         const ist_metrics *m = &run->m;
         for (size_t b = 0; b < m->nbands; b++) {
             char name[48];
-            band_name(&m->band[b], name, sizeof name);
+            ist_band_label(m->band[b].lo, m->band[b].hi, "-", name, sizeof name);
             if (m->band[b].queries == 0)
                 continue;   /* the JSON result lists every band */
             bool has = run->has_ci && run->band_has_ci[b];
