@@ -18,7 +18,7 @@ fi
 mpi_local
 rm -rf "$work"
 mkdir -p "$work" && cd "$work" || exit 1
-echo "1..8"
+echo "1..9"
 gzip -dc "$src/data-samples/tillwick-en.txt.gz" | head -c 300000 > en.txt
 "$isthmus" -q prepare -o en.prep en.txt >/dev/null 2>&1 || exit 1
 mpi -np 2 "$isthmus" train --dimension=16 --passes=3 --exchanges=5 --threads=1 \
@@ -35,6 +35,9 @@ check "... the provenance records the ranks, the exchanges per pass and the merg
 check "... a whole file: its checksums hold" grep -q 'checksums: *intact' inspect.out
 check "... only rank 0 spoke: one summary line" \
     sh -c 'test "$(grep -c "tokens seen" train.err)" -eq 1'
+check "... with no --method: skip-gram alone, and one warning says it is not the one-process default" \
+    sh -c 'test "$(grep -c "warning: under mpirun the vectors are skip-gram alone" train.err)" -eq 1'
+
 # A job far too long to finish (100000 passes of 50,000 tokens: hours on any machine, far
 # beyond the test's timeout), then SIGINT to rank 1 alone. The signal goes only once rank 1
 # has installed its SIGINT handler (the SigCgt mask of /proc/PID/status): from then on the

@@ -26,7 +26,8 @@ help(FILE *out)
           "                          .gz a text table\n"
           "      --method=M          skip-gram, ppmi, or skip-gram+ppmi (the two blocks side by\n"
           "                          side) [default: skip-gram+ppmi, measured best on both\n"
-          "                          real-data checks: docs/defaults.md]\n"
+          "                          real-data checks: docs/defaults.md; under mpirun\n"
+          "                          skip-gram, the one method trained across ranks]\n"
           "      --block-weights=A,B weights of the skip-gram and PPMI blocks in skip-gram+ppmi\n"
           "                          [default: 1,1]\n"
           "\n"
@@ -342,6 +343,10 @@ parse(int argc, char **argv, train_args *a)
             return cli_usage_error(cmd, "under mpirun only --method=skip-gram is trained across "
                                         "ranks");
         a->method = METHOD_SGNS;
+        if (ist_cluster_rank() == 0)   /* a warning, also with -q: the vectors differ */
+            fprintf(stderr, "isthmus train: warning: under mpirun the vectors are skip-gram "
+                            "alone, not the default skip-gram+ppmi of one process (the PPMI "
+                            "block is not trained across ranks; docs/cluster.md)\n");
     }
     if (a->ctx_out && a->method != METHOD_SGNS)
         return cli_usage_error(cmd, "--keep-context needs --method=skip-gram (PPMI and combined "
