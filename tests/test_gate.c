@@ -30,7 +30,7 @@ test_thresholds_parse(void **state)
                                  "  min   coverage\t0.80\n"
                                  "max drop p@1 csls 0.03\n"
                                  "min p@10 cosine band 1-5000 85%\n"
-                                 "min p@5 procrustes csls band 20001+ 0.5");
+                                 "min p@5 seed csls band 20001+ 0.5");
     assert_int_equal(ist_thresholds_count(t), 5);
     const ist_gate_rule *r = ist_thresholds_rule(t, 0);
     assert_int_equal(r->line, 3);
@@ -61,7 +61,7 @@ test_thresholds_parse(void **state)
     assert_true(fabs(r->bound - 0.85) < 1e-12);
     r = ist_thresholds_rule(t, 4);
     assert_int_equal(r->line, 7);   /* last line without a newline */
-    assert_string_equal(r->label, "procrustes");
+    assert_string_equal(r->label, "seed");
     assert_int_equal(r->band_from, 20001);
     assert_int_equal(r->band_to, 0);
     assert_null(ist_thresholds_rule(t, 5));
@@ -96,7 +96,7 @@ test_thresholds_errors(void **state)
         {"min p@1 csls 0.5x\n", 1, "*found '0.5x'"},
         {"min p@1 0.5\n", 1, "expected the retrieval method (cosine or csls)*"},
         {"min p@1 csls cosine 0.5\n", 1, "expected one retrieval method, found 'cosine'"},
-        {"min p@1 csls fancy 0.5\n", 1, "expected cosine, csls, procrustes, refined, "
+        {"min p@1 csls fancy 0.5\n", 1, "expected cosine, csls, seed, refined, "
                                                 "band or the bound, found 'fancy'"},
         {"min p@1 csls band 0.5\n", 1, "expected a band of frequency ranks*"},
         {"min p@1 csls band 50-10 0.5\n", 1, "*found '50-10'"},

@@ -99,10 +99,10 @@ test_evaluate_fills_the_record(void **state)
     fixture f;
     ist_error err;
     make_fixture(&f, 2);
-    ist_result *r = evaluate(&f, IST_STAGE_SEED | IST_STAGE_FINAL);
+    ist_result *r = evaluate(&f, IST_STAGE_SEED | IST_STAGE_REFINED);
 
     assert_int_equal(r->nruns, 4);
-    assert_string_equal(r->runs[0].label, "procrustes");
+    assert_string_equal(r->runs[0].label, "seed");
     assert_string_equal(r->runs[3].label, "refined");
     assert_int_equal(r->runs[0].m.method, IST_RETRIEVAL_COSINE);
     assert_int_equal(r->runs[1].m.method, IST_RETRIEVAL_CSLS);
@@ -131,7 +131,7 @@ test_evaluate_fills_the_record(void **state)
     assert_true(r->test.has_overlap && r->test.overlap == 0);
     assert_non_null(r->diagnostics);
     assert_true(ist_diag_isometry(r->diagnostics) >= 0);
-    assert_int_equal(r->options.stages, IST_STAGE_SEED | IST_STAGE_FINAL);
+    assert_int_equal(r->options.stages, IST_STAGE_SEED | IST_STAGE_REFINED);
     ist_result_free(r);
     free_fixture(&f);
 }
@@ -151,7 +151,7 @@ test_round_trip(void **state)
     assert_int_equal(ist_store_set_provenance(f.sy.src, "{\"training\": {\"method\": \"m\", "
                                               "\"dimension\": 12}}", &err), IST_OK);
     assert_int_equal(ist_store_set_provenance(f.sy.tgt, "made by hand", &err), IST_OK);
-    ist_result *r = evaluate(&f, IST_STAGE_FINAL);
+    ist_result *r = evaluate(&f, IST_STAGE_REFINED);
     assert_string_equal(r->source.provenance,
                         "{\"training\":{\"method\":\"m\",\"dimension\":12}}");
     assert_null(r->target.provenance);

@@ -45,7 +45,7 @@ typedef struct ist_gate_rule {
     ist_gate_figure figure;
     size_t k;                    /* precision@k: 1, 5 or 10 (0 for coverage) */
     int retrieval;               /* -1: any, else an ist_retrieval */
-    const char *label;           /* "procrustes", "refined", or NULL: the last such run */
+    const char *label;           /* "seed", "refined", or NULL: the last such run */
     bool has_band;
     size_t band_from, band_to;   /* frequency ranks; band_to 0: no upper end */
     double bound;                /* a fraction in [0, 1] */

@@ -64,7 +64,7 @@ typedef struct ist_result_test {
 
 /** Which retrieval methods and map stages a scoring run covers (bit sets). */
 enum { IST_RESULT_COSINE = 1, IST_RESULT_CSLS = 2 };
-enum { IST_STAGE_SEED = 1, IST_STAGE_FINAL = 2 };
+enum { IST_STAGE_SEED = 1, IST_STAGE_REFINED = 2 };
 
 /** How align made the map and its seeds, recorded among the options of its result. */
 typedef struct ist_result_fit {
@@ -94,7 +94,7 @@ typedef struct ist_result_options {
 
 /** One scored run: a map stage with one retrieval method. */
 typedef struct ist_result_run {
-    char *label;                  /* "procrustes" (seeds only) or "refined" */
+    char *label;                  /* "seed" (the map fitted on the seeds) or "refined" */
     ist_metrics m;                /* figures; m.query_row / m.query_place when per-query kept */
     bool has_ci;
     ist_ci_opts ci_opts;          /* how the intervals were drawn */
@@ -129,12 +129,12 @@ IST_API void ist_result_free(ist_result *r);
 typedef struct ist_evaluate_opts {
     ist_eval_opts eval;           /* bands and the search group (method unused) */
     unsigned methods;             /* [IST_RESULT_COSINE | IST_RESULT_CSLS] */
-    unsigned stages;              /* [IST_STAGE_FINAL]; FINAL of a map without refinement
-                                     rounds is labelled "procrustes" */
+    unsigned stages;              /* [IST_STAGE_REFINED]; a map without refinement rounds
+                                     has only its seed stage: REFINED scores it as "seed" */
     bool record_stages;           /* write the stages among the options [true] */
     bool allow_overlap;           /* score a test list sharing source words with the seeds
                                      [false: IST_ERR_INVALID] */
-    bool diagnostics;             /* run ist_diag_run() on the final (or only) stage [true] */
+    bool diagnostics;             /* run ist_diag_run() on the last stage scored [true] */
     ist_diag_opts diag;           /* its search group comes from eval */
     ist_ci_opts ci;               /* intervals of each run */
     const char *command;          /* recorded: "align" or "score" [score] */
@@ -143,9 +143,9 @@ typedef struct ist_evaluate_opts {
     const char *seeds_path;       /* recorded seed list (NULL: none or made in memory) */
     const char *seeds_label;      /* for people [NULL: the path] */
     const ist_result_fit *fit;    /* align's choices, recorded among the options; or NULL */
-    /* The final stage's map already applied (ist_map_apply()), so that it is applied
+    /* The refined stage's map already applied (ist_map_apply()), so that it is applied
      * once; both NULL: ist_evaluate() applies it. Borrowed. */
-    const ist_matrix *final_xs, *final_zt;
+    const ist_matrix *refined_xs, *refined_zt;
 } ist_evaluate_opts;
 
 IST_API void ist_evaluate_opts_init(ist_evaluate_opts *opts);

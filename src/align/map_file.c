@@ -168,7 +168,7 @@ meta_json(const ist_map *m, bool with_seeds, char **out, ist_error *err)
     ist_jw_arr_end(&w);
     ist_jw_obj_end(&w);
     ist_jw_arr_begin(&w, "matrices");
-    ist_jw_str(&w, NULL, "final");
+    ist_jw_str(&w, NULL, "refined");
     ist_jw_str(&w, NULL, "seed");
     ist_jw_arr_end(&w);
     ist_jw_obj_end(&w);

@@ -9,6 +9,7 @@
 #include "alloc_int.h"
 #include "error_int.h"
 #include "result_int.h"
+#include "result_keys_int.h"
 
 #define OVERLAP_NAMED 8
 
@@ -18,7 +19,7 @@ ist_evaluate_opts_init(ist_evaluate_opts *o)
     memset(o, 0, sizeof *o);
     ist_eval_opts_init(&o->eval);
     o->methods = IST_RESULT_COSINE | IST_RESULT_CSLS;
-    o->stages = IST_STAGE_FINAL;
+    o->stages = IST_STAGE_REFINED;
     o->record_stages = true;
     o->diagnostics = true;
     ist_diag_opts_init(&o->diag);
@@ -203,7 +204,7 @@ diagnose(ist_result *r, ist_cmatview xs, ist_cmatview zt, const ist_store *tgt,
     return ist_diag_run(xs, zt, tgt, test, &d, &r->diagnostics, err);
 }
 
-/* Score each stage asked for: the seed-only map, then the final one (applied once, or
+/* Score each stage asked for: the seed-only map, then the refined one (applied once, or
  * taken from the options), and diagnose the last stage scored. */
 static ist_status
 score_all(ist_result *r, const ist_map *map, const ist_store *src, const ist_store *tgt,
@@ -214,21 +215,21 @@ score_all(ist_result *r, const ist_map *map, const ist_store *src, const ist_sto
     if (!(r->runs = ist_calloc(4, sizeof *r->runs)))
         return ist_error_nomem(err);
     for (int s = 0; rc == IST_OK && s < 2; s++) {
-        unsigned stage = s ? IST_STAGE_FINAL : IST_STAGE_SEED;
-        bool last = s == 1 || !(o->stages & IST_STAGE_FINAL);
+        unsigned stage = s ? IST_STAGE_REFINED : IST_STAGE_SEED;
+        bool last = s == 1 || !(o->stages & IST_STAGE_REFINED);
         ist_map *seed_only = NULL;
         ist_matrix *xs = NULL, *zt = NULL;
-        const char *label = s && ist_map_rounds(map) ? "refined" : "procrustes";
+        const char *label = s && ist_map_rounds(map) ? RK_RUN_REFINED : RK_RUN_SEED;
         if (!(o->stages & stage))
             continue;
         if (!s)
             rc = ist_map_seed_only(map, &seed_only, err);
-        bool given = s && o->final_xs && o->final_zt;
+        bool given = s && o->refined_xs && o->refined_zt;
         if (rc == IST_OK && !given)
             rc = ist_map_apply(s ? map : seed_only, src, tgt, &xs, &zt, err);
         if (rc == IST_OK) {
-            ist_cmatview vx = ist_matrix_cview(given ? o->final_xs : xs);
-            ist_cmatview vz = ist_matrix_cview(given ? o->final_zt : zt);
+            ist_cmatview vx = ist_matrix_cview(given ? o->refined_xs : xs);
+            ist_cmatview vz = ist_matrix_cview(given ? o->refined_zt : zt);
             rc = score_stage(r, label, vx, vz, src, test, o, err);
             if (rc == IST_OK && last && o->diagnostics)
                 rc = diagnose(r, vx, vz, tgt, test, o, err);

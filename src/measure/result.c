@@ -73,9 +73,9 @@ ist_result_methods_name(unsigned methods)
 const char *
 ist_result_stages_name(unsigned stages)
 {
-    return stages == (IST_STAGE_SEED | IST_STAGE_FINAL) ? RK_BOTH
-           : stages == IST_STAGE_SEED                    ? RK_STAGE_SEED
-                                                         : RK_STAGE_FINAL;
+    return stages == (IST_STAGE_SEED | IST_STAGE_REFINED) ? RK_BOTH
+           : stages == IST_STAGE_SEED                      ? RK_STAGE_SEED
+                                                           : RK_STAGE_REFINED;
 }
 
 static void

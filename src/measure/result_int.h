@@ -9,7 +9,7 @@
 
 /* "both", "csls" or "cosine" for a set of IST_RESULT_ methods. */
 const char *ist_result_methods_name(unsigned methods);
-/* "both", "seed" or "final" for a set of IST_STAGE_ stages. */
+/* "both", "seed" or "refined" for a set of IST_STAGE_ stages. */
 const char *ist_result_stages_name(unsigned stages);
 
 /* A reader of one result document: the first failure stays in rc (IST_ERR_FORMAT naming

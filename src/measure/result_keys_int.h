@@ -65,10 +65,14 @@
 #define RK_SPLIT_SEED "split_seed"
 #define RK_KEEP_SEEDS "refine_keep_seeds"
 #define RK_BOTH "both"
-#define RK_STAGE_FINAL "final"
+#define RK_STAGE_REFINED "refined"
 #define RK_STAGE_SEED "seed"
+#define RK_STAGE_OLD_REFINED "final"     /* options.stage of refined in version-1 files */
 
 /* runs */
+#define RK_RUN_SEED "seed"               /* label of the map fitted on the seeds */
+#define RK_RUN_REFINED "refined"         /* label of the map after refinement */
+#define RK_RUN_OLD_SEED "procrustes"     /* the seed run's label in version-1 files */
 #define RK_RETRIEVAL "retrieval"
 #define RK_NEIGHBOURHOOD "neighbourhood"
 #define RK_SOURCES "sources"

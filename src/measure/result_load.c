@@ -294,9 +294,12 @@ read_options(ist_rd *r, const ist_jv *root, ist_result_options *opt)
     }
     read_fit(r, o, opt);
     const char *st = ist_jv_str(ist_rd_get(r, o, RK_STAGE, IST_JSTR, false, RK_OPTIONS), NULL);
-    if (st && !pick(st, RK_BOTH, RK_STAGE_SEED, RK_STAGE_FINAL, IST_STAGE_SEED | IST_STAGE_FINAL,
-                    IST_STAGE_SEED, IST_STAGE_FINAL, &opt->stages))
-        ist_rd_fail(r, o, "options.stage: expected final, seed or both, found '%s'", st);
+    if (st && strcmp(st, RK_STAGE_OLD_REFINED) == 0)
+        st = RK_STAGE_REFINED;
+    if (st && !pick(st, RK_BOTH, RK_STAGE_SEED, RK_STAGE_REFINED,
+                    IST_STAGE_SEED | IST_STAGE_REFINED, IST_STAGE_SEED, IST_STAGE_REFINED,
+                    &opt->stages))
+        ist_rd_fail(r, o, "options.stage: expected refined, seed or both, found '%s'", st);
 }
 
 /* precision {"p@K"} (required) and hits {"@K"} (optional) of a run or band. */
@@ -486,6 +489,8 @@ read_run(ist_rd *r, const ist_jv *o, size_t i, ist_result_run *run)
     }
     ist_ci_opts_init(&run->ci_opts);
     run->label = ist_rd_str(r, o, RK_LABEL, true, where);
+    if (run->label && strcmp(run->label, RK_RUN_OLD_SEED) == 0)
+        strcpy(run->label, RK_RUN_SEED);   /* an earlier version's name, no longer */
     const char *ret = ist_jv_str(ist_rd_get(r, o, RK_RETRIEVAL, IST_JSTR, true, where), "");
     unsigned meth = 0;
     if (r->rc == IST_OK && !pick(ret, RK_CSLS, RK_COSINE, RK_COSINE, IST_RESULT_CSLS,

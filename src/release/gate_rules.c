@@ -16,7 +16,7 @@
 #define MAX_LINE 4096
 
 static const char figure_help[] = "p@1, p@5, p@10, coverage or drop";
-static const char selector_help[] = "cosine, csls, procrustes, refined, band or the bound";
+static const char selector_help[] = "cosine, csls, seed, refined, band or the bound";
 
 void
 ist_thresholds_free(ist_thresholds *t)
@@ -158,10 +158,13 @@ parse_selectors(const ctx *c, char **w, size_t n, ist_gate_rule *r)
             if (r->retrieval >= 0)
                 return bad(c, "one retrieval method", w[i]);
             r->retrieval = strcmp(w[i], "csls") == 0 ? IST_RETRIEVAL_CSLS : IST_RETRIEVAL_COSINE;
-        } else if (strcmp(w[i], "procrustes") == 0 || strcmp(w[i], "refined") == 0) {
+        } else if (strcmp(w[i], "procrustes") == 0) {
+            return ist_error_at(c->err, IST_ERR_FORMAT, c->name, c->line,
+                                "the map stage 'procrustes' is now called 'seed'");
+        } else if (strcmp(w[i], "seed") == 0 || strcmp(w[i], "refined") == 0) {
             if (r->label)
-                return bad(c, "one map label", w[i]);
-            r->label = strcmp(w[i], "refined") == 0 ? "refined" : "procrustes";
+                return bad(c, "one map stage", w[i]);
+            r->label = strcmp(w[i], "refined") == 0 ? "refined" : "seed";
         } else if (strcmp(w[i], "band") == 0) {
             if (r->has_band)
                 return bad(c, "one band", w[i]);

@@ -86,15 +86,20 @@ count(rbuf *b, unsigned long long n)
     }
 }
 
+/* "refined map": a run's map stage for people. */
+static const char *
+stage_words(const char *label)
+{
+    return strcmp(label, "refined") == 0 ? "refined map"
+           : strcmp(label, "seed") == 0  ? "seed map (Procrustes)"
+                                         : label;
+}
+
 /* "refined map, CSLS": the map stage and the retrieval method of a run, for people. */
 static void
 run_name(const ist_result_run *run, char *buf, size_t cap)
 {
-    const char *l = run->label ? run->label : "";
-    snprintf(buf, cap, "%s, %s",
-             strcmp(l, "refined") == 0      ? "refined map"
-             : strcmp(l, "procrustes") == 0 ? "seed map (Procrustes)"
-                                            : l,
+    snprintf(buf, cap, "%s, %s", stage_words(run->label ? run->label : ""),
              run->m.method == IST_RETRIEVAL_CSLS ? "CSLS" : "cosine");
 }
 
@@ -226,9 +231,7 @@ run_words(rbuf *b, const char *run)
         rb_esc(b, run);
         return;
     }
-    rb_put(b, strcmp(stage, "refined") == 0      ? "refined map"
-              : strcmp(stage, "procrustes") == 0 ? "seed map (Procrustes)"
-                                                 : stage);
+    rb_put(b, stage_words(stage));
     rb_put(b, ", ");
     rb_put(b, strcmp(method, "csls") == 0 ? "CSLS" : strcmp(method, "cosine") == 0 ? "cosine"
                                                                                   : "?");

@@ -52,7 +52,7 @@ main(void)
     AT(ist_evaluate_opts, source_path); AT(ist_evaluate_opts, target_path);
     AT(ist_evaluate_opts, map_path); AT(ist_evaluate_opts, seeds_path);
     AT(ist_evaluate_opts, seeds_label); AT(ist_evaluate_opts, fit);
-    AT(ist_evaluate_opts, final_xs); AT(ist_evaluate_opts, final_zt);
+    AT(ist_evaluate_opts, refined_xs); AT(ist_evaluate_opts, refined_zt);
     SIZE(ist_pairs_coverage);
     AT(ist_pairs_coverage, read); AT(ist_pairs_coverage, kept);
     AT(ist_pairs_coverage, duplicates); AT(ist_pairs_coverage, missing_source);
@@ -67,8 +67,8 @@ main(void)
            (int)IST_OK, (int)IST_ERR_FORMAT, (int)IST_ERR_INVALID, (int)IST_ERR_CANCELLED);
     printf("IST_METRICS_MAX_BANDS %d\nIST_FILTER_SHAPE %d\nIST_SHAPE_WORD %d\n",
            IST_METRICS_MAX_BANDS, (int)IST_FILTER_SHAPE, (int)IST_SHAPE_WORD);
-    printf("IST_RESULT_COSINE %d\nIST_RESULT_CSLS %d\nIST_STAGE_SEED %d\nIST_STAGE_FINAL %d\n",
-           IST_RESULT_COSINE, IST_RESULT_CSLS, IST_STAGE_SEED, IST_STAGE_FINAL);
+    printf("IST_RESULT_COSINE %d\nIST_RESULT_CSLS %d\nIST_STAGE_SEED %d\nIST_STAGE_REFINED %d\n",
+           IST_RESULT_COSINE, IST_RESULT_CSLS, IST_STAGE_SEED, IST_STAGE_REFINED);
     printf("IST_RETRIEVAL_COSINE %d\nIST_RETRIEVAL_CSLS %d\n", (int)IST_RETRIEVAL_COSINE,
            (int)IST_RETRIEVAL_CSLS);
     return 0;

@@ -244,7 +244,7 @@ out = run("score", "en.isv", "es.isv", "--map=cli.map", "--test=" + test, "--sta
           "--json-out=cli-result.json").stdout
 # a row: map, retrieval, queries, coverage, then each p@k in percent with its interval beside
 table = [f for f in (ln.split() for ln in out.splitlines())
-         if len(f) == 13 and f[0] in ("procrustes", "refined") and f[3].endswith("%")]
+         if len(f) == 13 and f[0] in ("seed", "refined") and f[3].endswith("%")]
 res = lib.score("en.isv", "es.isv", "cli.map", test, stage="both", diagnostics=True,
                 json_out="py-result.json")
 have = []
@@ -272,7 +272,7 @@ print("# refined csls: %d queries, p@1 %.3f, p@5 %.3f, p@10 %.3f" % (
 mine = lib.score("en.isv", "es.isv", m, test)
 check([r.precision for r in mine.runs] == [r.precision for r in res.runs[2:]] and
       [r.retrieval for r in mine.runs] == ["cosine", "csls"],
-      "the Map align() returned scores as its file does (stage final by default)")
+      "the Map align() returned scores as its file does (stage refined by default)")
 out = run("score", "en.isv", "es.isv", "--map=cli.map", "--test=" + test, "--rank-by=cosine",
           "--bands=100,1000", "--csls-k=5").stdout
 bands = [f[:4] + [t for t in f[4:] if t.endswith("%")]

@@ -166,7 +166,7 @@ table = []
 for line in out.splitlines():
     f = line.split()
     # map, retrieval, queries, coverage, then each p@k as "86.6% [83.2, 90.0]"
-    if len(f) == 13 and f[0] in ("procrustes", "refined") and f[3].endswith("%"):
+    if len(f) == 13 and f[0] in ("seed", "refined") and f[3].endswith("%"):
         table.append(f)
 check(len(table) == len(res.runs) == 4, "one printed line per run (%d)" % len(table))
 agree = True

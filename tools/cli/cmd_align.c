@@ -335,8 +335,8 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
         return 0;
     ev_evaluate_opts(&a->c, &eo);
     eo.command = CMD;
-    /* without refinement rounds the final map is the seed fit, labelled procrustes */
-    eo.stages = ist_map_rounds(map) > 0 ? IST_STAGE_SEED | IST_STAGE_FINAL : IST_STAGE_FINAL;
+    /* without refinement rounds the map is the seed fit alone, scored once as "seed" */
+    eo.stages = ist_map_rounds(map) > 0 ? IST_STAGE_SEED | IST_STAGE_REFINED : IST_STAGE_REFINED;
     eo.record_stages = false;
     eo.source_path = a->src;
     eo.target_path = a->tgt;
@@ -348,8 +348,8 @@ evaluate(args *a, const ist_map *map, const ist_store *s, const ist_store *t,
         eo.seeds_label = label;
     }
     eo.fit = &fit;
-    eo.final_xs = xs;
-    eo.final_zt = zt;
+    eo.refined_xs = xs;
+    eo.refined_zt = zt;
     if ((rc = ev_evaluate(CMD, map, s, t, test, test ? tcov : NULL, &eo, &res)) != 0)
         return rc;
     if (a->c.json_out && ist_result_write(res, a->c.json_out, &err) != IST_OK)

@@ -20,8 +20,9 @@ help(FILE *out)
           "Options:\n"
           "      --map=MAP           map file written by 'isthmus align' (required)\n"
           "      --test=FILE         test pairs: 'source target' per line (required)\n"
-          "      --stage=WHICH       final (after refinement), seed (Procrustes on the seeds\n"
-          "                          only) or both [default: final]\n",
+          "      --stage=WHICH       refined (the map after refinement; a map without\n"
+          "                          refinement rounds has only its seed stage), seed (the map\n"
+          "                          fitted on the seed pairs alone) or both [default: refined]\n",
           out);
     ev_common_help(out, EV_HELP_SEARCH | EV_HELP_RANK | EV_HELP_SCORING | EV_HELP_DIAG, "both");
     fputs("  -h, --help              show this help and exit\n"
@@ -85,7 +86,7 @@ run(int argc, char **argv)
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
     };
-    static const char *const stages[] = {"final", "seed", "both", NULL};
+    static const char *const stages[] = {"refined", "seed", "both", NULL};
     const char *mpath = NULL, *tpath = NULL;
     ist_store *s = NULL, *t = NULL;
     ist_map *map = NULL;
@@ -104,6 +105,8 @@ run(int argc, char **argv)
         case OPT_MAP: mpath = optarg; break;
         case OPT_TEST: tpath = optarg; break;
         case OPT_STAGE:
+            if (strcmp(optarg, "final") == 0)
+                return cli_usage_error(CMD, "--stage: 'final' is now called 'refined'");
             if (!cli_parse_choice(CMD, "--stage", optarg, stages, &stage))
                 return CLI_EXIT_USAGE;
             break;
@@ -143,8 +146,8 @@ run(int argc, char **argv)
         goto done;
     ev_evaluate_opts(&c, &eo);
     eo.command = CMD;
-    eo.stages = stage == 0 ? IST_STAGE_FINAL : stage == 1 ? IST_STAGE_SEED
-                                                           : IST_STAGE_SEED | IST_STAGE_FINAL;
+    eo.stages = stage == 0 ? IST_STAGE_REFINED : stage == 1 ? IST_STAGE_SEED
+                                                             : IST_STAGE_SEED | IST_STAGE_REFINED;
     eo.source_path = argv[optind];
     eo.target_path = argv[optind + 1];
     eo.map_path = mpath;

@@ -142,7 +142,7 @@ def main():
                 secs[len(secs) // 2], mib), flush=True)
             summary["%s %s-%s" % (name, src, tgt)] = {
                 "mean": mean, "interval": [lo, hi], "per_seed": per_seed,
-                "procrustes_per_seed": proc, "difference": dmean, "difference_interval":
+                "seed_map_per_seed": proc, "difference": dmean, "difference_interval":
                 [dlo, dhi], "words": len(keys), "train_seconds_median": secs[len(secs) // 2],
                 "peak_mib": mib, "spec": settings[name]}
     json.dump(summary, open(os.path.join(work, "summary.json"), "w"), indent=1)

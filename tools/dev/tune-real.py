@@ -25,7 +25,7 @@ def main():
     isthmus, data, work = sys.argv[1:4]
     settings = [tuple(a.split("=", 1)) for a in sys.argv[4:]] or DEFAULT_SETTINGS
     os.makedirs(work, exist_ok=True)
-    print("%-22s %6s %8s | %s" % ("setting", "lang", "train s", "P@1 CSLS procrustes/refined, cosine refined"))
+    print("%-22s %6s %8s | %s" % ("setting", "lang", "train s", "P@1 CSLS seed/refined, cosine refined"))
     for name, opts in settings:
         vec = {}
         for lang in ("en", "es"):
@@ -45,7 +45,7 @@ def main():
             runs = {(r["label"], r["retrieval"]): r for r in json.load(open(out))["runs"]}
             p = lambda l, m: 100 * runs[(l, m)]["precision"]["p@1"]
             print("%-22s %6s %8s | csls %5.1f / %5.1f   cosine %5.1f   (queries %d)" % (
-                name, s + "->" + t, "", p("procrustes", "csls"), p("refined", "csls"),
+                name, s + "->" + t, "", p("seed", "csls"), p("refined", "csls"),
                 p("refined", "cosine"), runs[("refined", "csls")]["queries"]), flush=True)
 
 

@@ -105,13 +105,16 @@ class Map:
                                     "expected fingerprint %016x, found %016x"
                                     % (name, side.fingerprint, v.fingerprint))
 
-    def apply(self, src, stage="final", check=True):
+    def apply(self, src, stage="refined", check=True):
         """The source vectors (Vectors or an array) standardised and mapped: float32, rows x dim.
-        stage "final" uses W, "seed" W0 (Procrustes on the seeds before refinement)."""
+        stage "refined" uses W (the map after refinement; the seed fit when the map has no
+        refinement rounds), "seed" W0 (Procrustes on the seeds before refinement)."""
+        if stage == "final":
+            raise ValueError("stage: 'final' is now called 'refined'")
         if check and hasattr(src, "fingerprint"):
             self.check(src=src)
         m = src.matrix if hasattr(src, "matrix") else np.asarray(src)
-        w = {"final": self.W, "seed": self.W0}[stage].astype(np.float32)
+        w = {"refined": self.W, "seed": self.W0}[stage].astype(np.float32)
         return self.source.standardise(m) @ w
 
     def standardise_target(self, tgt, check=True):

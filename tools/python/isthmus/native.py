@@ -118,7 +118,7 @@ class _EvaluateOpts(ctypes.Structure):          # ist_evaluate_opts
                 ("diag", _DiagOpts), ("ci", _CiOpts), ("command", _cstr), ("name", _cstr),
                 ("source_path", _cstr), ("target_path", _cstr), ("map_path", _cstr),
                 ("seeds_path", _cstr), ("seeds_label", _cstr), ("fit", _ptr),
-                ("final_xs", _ptr), ("final_zt", _ptr)]
+                ("refined_xs", _ptr), ("refined_zt", _ptr)]
 
 
 class _Coverage(ctypes.Structure):              # ist_pairs_coverage
@@ -133,9 +133,9 @@ class _WordFilter(ctypes.Structure):            # ist_word_filter
                 ("stop_share", ctypes.c_double), ("variants", _bool)]
 
 
-# IST_RESULT_COSINE / CSLS, IST_STAGE_SEED / FINAL, ist_retrieval, IST_FILTER_SHAPE
+# IST_RESULT_COSINE / CSLS, IST_STAGE_SEED / REFINED, ist_retrieval, IST_FILTER_SHAPE
 _METHODS = {"cosine": 1, "csls": 2, "both": 3}
-_STAGES = {"final": 2, "seed": 1, "both": 3}
+_STAGES = {"refined": 2, "seed": 1, "both": 3}
 _RETRIEVAL = {"cosine": 0, "csls": 1}
 _FILTER_SHAPE, _SHAPE_WORD = 2, 0
 
@@ -150,7 +150,7 @@ CONSTANTS = {"IST_OK": IST_OK, "IST_ERR_FORMAT": IST_ERR_FORMAT,
              "IST_ERR_INVALID": IST_ERR_INVALID, "IST_ERR_CANCELLED": IST_ERR_CANCELLED, "IST_METRICS_MAX_BANDS": _MAX_BANDS,
              "IST_FILTER_SHAPE": _FILTER_SHAPE, "IST_SHAPE_WORD": _SHAPE_WORD,
              "IST_RESULT_COSINE": _METHODS["cosine"], "IST_RESULT_CSLS": _METHODS["csls"],
-             "IST_STAGE_SEED": _STAGES["seed"], "IST_STAGE_FINAL": _STAGES["final"],
+             "IST_STAGE_SEED": _STAGES["seed"], "IST_STAGE_REFINED": _STAGES["refined"],
              "IST_RETRIEVAL_COSINE": _RETRIEVAL["cosine"],
              "IST_RETRIEVAL_CSLS": _RETRIEVAL["csls"]}
 
@@ -461,18 +461,20 @@ class Library:
         finally:
             self._free(own)
 
-    def score(self, src, tgt, map, test, stage="final", rank_by="both", csls_k=None,
+    def score(self, src, tgt, map, test, stage="refined", rank_by="both", csls_k=None,
               threads=None, memory_mib=None, bands=None, allow_overlap=False,
               diagnostics=False, json_out=None):
         """Precision@1/5/10 of the map on a test list (a pair file or (source, target)
         words), as `isthmus score` measures it: returns a Result (isthmus.read_result's
-        object) with one run per stage and retrieval. stage: final, seed or both;
+        object) with one run per stage and retrieval. stage: refined, seed or both;
         rank_by: cosine, csls or both; bands: upper frequency ranks (default: the first
         tenth and third of the source rows); diagnostics: also hubness, isometry and the
         rest (the program computes them only for --json-out); json_out: also write the
         result JSON there."""
+        if stage == "final":
+            raise ValueError("stage: 'final' is now called 'refined'")
         if stage not in _STAGES or rank_by not in _METHODS:
-            raise ValueError("stage: final, seed or both; rank_by: cosine, csls or both")
+            raise ValueError("stage: refined, seed or both; rank_by: cosine, csls or both")
         own = []
         try:
             h, mpath = self._map(own, map)

@@ -72,7 +72,7 @@ class Query:
 @dataclass
 class Run:
     """One (map, retrieval) run of a result; precision[k] is a fraction."""
-    label: str                       # "procrustes" or "refined"
+    label: str                       # "seed" or "refined" ("procrustes" in old files reads as "seed")
     retrieval: str                   # "cosine" or "csls"
     neighbourhood: int
     sources: int
@@ -118,7 +118,8 @@ def _run(obj):
                   Interval.from_json(b.get("ci"))) for b in obj.get("bands", [])]
     per_query = [Query(q.get("source"), q.get("rank"), q.get("band"), q.get("frequency_rank"))
                  for q in obj.get("per_query", [])]
-    return Run(obj.get("label"), obj.get("retrieval"), obj.get("neighbourhood"),
+    label = obj.get("label")
+    return Run("seed" if label == "procrustes" else label, obj.get("retrieval"), obj.get("neighbourhood"),
                obj.get("sources"), obj.get("queries"), obj.get("coverage"),
                _figures(obj.get("precision"), "p@"), _figures(obj.get("hits"), "@"), bands,
                Interval.from_json(obj.get("ci")), per_query)
