@@ -336,6 +336,17 @@ progress_can_cancel(void **state)
     assert_null(ctx);
     assert_int_equal(calls, 1);
     assert_non_null(strstr(err.msg, "cancel"));
+    /* two threads training copies of their own stop as well, inside the first slice, and
+     * return nothing */
+    calls = 0;
+    o.threads = 2;
+    o.parallel = IST_SGNS_PARALLEL_COPIES;
+    in = ctx = (ist_matrix *)&o;
+    assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &in, &ctx, NULL, &err),
+                     IST_ERR_CANCELLED);
+    assert_null(in);
+    assert_null(ctx);
+    assert_true(calls >= 1 && calls <= 2);
     corpus_free(&c);
 }
 
@@ -385,6 +396,15 @@ bad_options(void **state)
     uint64_t zeros[] = {0, 0, 0};
     assert_int_equal(ist_sgns_train(ids, 6, zeros, 3, &o, &m, NULL, NULL, &err), IST_ERR_INVALID);
     assert_non_null(strstr(err.msg, "zero"));
+    ist_sgns_opts_init(&o);
+    o.parallel = (ist_sgns_parallel)7;
+    assert_int_equal(ist_sgns_train(ids, 6, counts, 3, &o, &m, NULL, NULL, &err), IST_ERR_INVALID);
+    assert_null(m);
+    assert_non_null(strstr(err.msg, "threads"));
+    ist_sgns_opts_init(&o);
+    o.exchanges = 1001;
+    assert_int_equal(ist_sgns_train(ids, 6, counts, 3, &o, &m, NULL, NULL, &err), IST_ERR_INVALID);
+    assert_non_null(strstr(err.msg, "found 1001"));
 }
 
 /* In a fault-injection build (-Dfault_injection=true): fail allocation k for k = 0, 1, ...

@@ -1,6 +1,7 @@
 /* test_sgns_runs.c - skip-gram training as whole runs: the same seed gives the same bytes,
  * one thread keeps its recorded bits, the portable kernels and the reference loop learn what
- * the fast kernels learn, and two threads learn planted clusters. */
+ * the fast kernels learn, two threads learn planted clusters whichever way they share the
+ * work, and threads with copies of their own rerun bit for bit. */
 #include "sgns_env.h"
 
 #include "sgns_int.h"
@@ -223,6 +224,10 @@ fast_equals_reference_quality(void **state)
     corpus_free(&c);
 }
 
+/* Two threads learn the planted clusters whichever way they share the work: the shared
+ * rows (lock-free), the shared rows with private copies of the 60 most frequent words' rows
+ * merged every publication and every 3rd, and a whole copy per thread combined 4 times a
+ * pass by adding up the changes or by taking the mean. */
 static void
 two_threads_learn(void **state)
 {
@@ -237,26 +242,78 @@ two_threads_learn(void **state)
     o.epochs = 3;
     o.subsample = 0;
     o.threads = 2;
-    /* shared rows only (the default), then private copies of the 60 most frequent words'
-     * rows in each thread, merged every publication and every 3rd */
-    const char *hot[3] = {NULL, "60", "60"}, *merge[3] = {NULL, NULL, "3"};
-    for (int v = 0; v < 3; v++) {
+    const char *hot[5] = {NULL, "60", "60", NULL, NULL}, *merge[5] = {NULL, NULL, "3", NULL, NULL};
+    const ist_sgns_parallel par[5] = {IST_SGNS_PARALLEL_SHARED, IST_SGNS_PARALLEL_SHARED,
+                                      IST_SGNS_PARALLEL_SHARED, IST_SGNS_PARALLEL_COPIES,
+                                      IST_SGNS_PARALLEL_COPIES};
+    for (int v = 0; v < 5; v++) {
         if (hot[v])
             setenv("ISTHMUS_SGNS_HOT", hot[v], 1);
         if (merge[v])
             setenv("ISTHMUS_SGNS_MERGE", merge[v], 1);
+        o.parallel = par[v];
+        o.merge = v == 4 ? IST_SGNS_MERGE_MEAN : IST_SGNS_MERGE_CHANGES;
         assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &m, NULL, &res, NULL),
                          IST_OK);
         unsetenv("ISTHMUS_SGNS_HOT");
         unsetenv("ISTHMUS_SGNS_MERGE");
         assert_int_equal(res.words_seen, 3 * 4000 * 12);
         assert_true(res.final_loss > 0 && res.final_loss < 1.0);
+        assert_int_equal(res.thread_copies, par[v] == IST_SGNS_PARALLEL_COPIES);
+        if (res.thread_copies)
+            assert_int_equal(res.exchange_count, 3 * 4);   /* passes x exchanges */
         double acc = nn_accuracy(m, 40, 10);
-        printf("# two threads, private hot rows %s, merged every %s publication(s): "
-               "nearest-neighbour accuracy %.3f\n", hot[v] ? hot[v] : "none",
-               merge[v] ? merge[v] : "1", acc);
+        if (res.thread_copies)
+            printf("# two threads, own copies combined 4 times a pass (%s): nearest-neighbour "
+                   "accuracy %.3f\n", v == 4 ? "mean" : "changes added up", acc);
+        else
+            printf("# two threads, shared rows, private hot rows %s, merged every %s "
+                   "publication(s): nearest-neighbour accuracy %.3f\n",
+                   hot[v] ? hot[v] : "none", merge[v] ? merge[v] : "1", acc);
         assert_true(acc >= 0.6);
         ist_matrix_free(m);
+    }
+    corpus_free(&c);
+}
+
+/* Threads that train copies of their own and combine them in thread order give the same
+ * bytes on every rerun (2 and 3 threads; input and context vectors), and AUTO picks that
+ * way for a small vocabulary; a different seed changes the bytes. */
+static void
+own_copies_rerun_identical(void **state)
+{
+    corpus c;
+    ist_sgns_opts o;
+    ist_sgns_result res;
+    (void)state;
+    make_clusters(&c, 20, 10, 3000, 0.3, 5);
+    ist_sgns_opts_init(&o);
+    o.dim = 40;
+    o.epochs = 2;
+    o.subsample = 1e-2;
+    o.seed = 17;
+    o.keep_context = true;
+    for (size_t t = 2; t <= 3; t++) {
+        o.threads = t;
+        o.parallel = IST_SGNS_PARALLEL_COPIES;
+        ist_matrix *ca = NULL, *cb = NULL, *a = train(&c, &o, &ca), *b = train(&c, &o, &cb);
+        assert_true(same_bytes(a, b));
+        assert_true(same_bytes(ca, cb));
+        o.parallel = IST_SGNS_PARALLEL_AUTO;
+        ist_matrix *cd = NULL, *d = NULL;
+        assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &d, &cd, &res, NULL),
+                         IST_OK);
+        assert_true(res.thread_copies);
+        assert_true(same_bytes(a, d));
+        ist_matrix_free(d), ist_matrix_free(cd);
+        o.seed = 18;
+        d = train(&c, &o, &cd);
+        o.seed = 17;
+        assert_false(same_bytes(a, d));
+        ist_matrix_free(cd);
+        printf("# %zu threads, own copies: two reruns bit-identical, AUTO the same\n", t);
+        ist_matrix_free(a), ist_matrix_free(b), ist_matrix_free(ca), ist_matrix_free(cb);
+        ist_matrix_free(d);
     }
     corpus_free(&c);
 }
@@ -270,6 +327,7 @@ main(void)
         cmocka_unit_test(portable_matches_simd),
         cmocka_unit_test(fast_equals_reference_quality),
         cmocka_unit_test(two_threads_learn),
+        cmocka_unit_test(own_copies_rerun_identical),
     };
     HARNESS_RUN("sgns_runs", tests);
 }

@@ -22,7 +22,10 @@
  * - Initialisation: input vectors uniform in [-0.5/dim, 0.5/dim], output vectors zero.
  * - SGNS factorises the shifted PMI matrix: at the optimum w . c = PMI(w, c) - log k
  *   (Levy & Goldberg 2014, "Neural Word Embedding as Implicit Matrix Factorization").
- * - Threads update the shared matrices without locks ("Hogwild", Recht et al. 2011).
+ * - Threads (`parallel`): each trains its own copy of both matrices and the copies are
+ *   combined `exchanges` times per pass, the model averaging below done inside one process
+ *   (deterministic); or all update the shared matrices without locks ("Hogwild", Recht et
+ *   al. 2011).
  * - Several MPI ranks (isthmus/cluster.h): data-parallel training with model averaging
  *   (iterative parameter mixing, McDonald, Hall & Mann 2010; parallel SGD, Zinkevich,
  *   Weimer, Smola & Li 2010). Each rank trains on its share of the stream (split on line
@@ -58,6 +61,24 @@ typedef enum ist_sgns_kernel {
 #define IST_SGNS_MERGE_CHANGES 0
 #define IST_SGNS_MERGE_MEAN 1
 
+/** How the threads of one process share the two parameter matrices. */
+typedef enum ist_sgns_parallel {
+    /* COPIES when threads >= 2, the job is one process and the copies fit in
+     * IST_SGNS_COPIES_BUDGET bytes; SHARED otherwise */
+    IST_SGNS_PARALLEL_AUTO = 0,
+    /* every thread trains its own copy of both matrices; `exchanges` times per pass the
+     * threads wait for each other and the copies are combined as `merge` says, in thread
+     * order (deterministic: reruns with the same seed and thread count are bit-identical) */
+    IST_SGNS_PARALLEL_COPIES,
+    /* the threads update the shared matrices without locks (Hogwild, Recht et al. 2011);
+     * reruns with two threads or more differ in their bits */
+    IST_SGNS_PARALLEL_SHARED
+} ist_sgns_parallel;
+
+/** The most memory AUTO gives the threads' copies: threads x 2 x vocabulary x padded
+ *  dimension x 4 bytes (1 GiB). */
+#define IST_SGNS_COPIES_BUDGET ((uint64_t)1 << 30)
+
 /** What the progress callback sees. */
 typedef struct ist_sgns_progress {
     double fraction;         /* of all epochs, 0..1 */
@@ -79,7 +100,8 @@ typedef struct ist_sgns_opts {
     size_t threads;          /* worker threads [default 1] */
     /* In a job of several MPI ranks (isthmus/cluster.h): each rank trains on its share
      * of the stream and the ranks average both parameter matrices this many times per
-     * pass (model averaging; docs/cluster.md) [default 4]. Unused by one process. */
+     * pass (model averaging; docs/cluster.md). With parallel = COPIES: the times per pass
+     * the threads' copies are combined [default 4]. */
     size_t exchanges;
     /* How an exchange combines the ranks: IST_SGNS_MERGE_CHANGES adds up every rank's
      * changes since the last exchange (the average change times the rank count), so that
@@ -96,6 +118,7 @@ typedef struct ist_sgns_opts {
      * (ist_sgns_train then returns IST_ERR_CANCELLED). May be NULL. */
     int (*progress)(void *ctx, const struct ist_sgns_progress *p);
     void *progress_ctx;
+    ist_sgns_parallel parallel; /* how the threads share the matrices [default AUTO] */
 } ist_sgns_opts;
 
 /** Fill o with the defaults above. */
@@ -113,6 +136,9 @@ typedef struct ist_sgns_result {
     double exchange_seconds; /* wall-clock time spent averaging (this rank's) */
     double wait_seconds;     /* time this rank waited for the others before exchanges */
     uint64_t exchange_bytes; /* parameter bytes each rank sends in one exchange */
+    bool thread_copies;      /* the threads trained copies of their own (parallel = COPIES);
+                              * exchange_count and exchange_seconds then count and time the
+                              * combinations of the copies */
 } ist_sgns_result;
 
 /** Train skip-gram vectors.
@@ -124,7 +150,8 @@ typedef struct ist_sgns_result {
  *  Errors: IST_ERR_INVALID for options out of range, an empty stream, an id >= vocab_size or
  *  all counts zero; IST_ERR_NOMEM; IST_ERR_CANCELLED when ist_cancel_requested() or the
  *  progress callback asked to stop (nothing is returned then); IST_ERR_NUMERIC when the
- *  vectors diverged (NaN). Single-threaded runs are bit-for-bit reproducible for a seed.
+ *  vectors diverged (NaN). Runs on one thread, and runs whose threads train copies of their
+ *  own (parallel), are bit-for-bit reproducible for a seed and thread count.
  *  In a job of several ranks the call is collective; every rank returns the same vectors,
  *  and a rank that fails or is stopped makes all return its error, naming it. */
 IST_API ist_status ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts,
@@ -138,7 +165,10 @@ IST_API ist_status ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint6
  *   "training":{"method":"skip-gram negative sampling","dimension":..,"context":..,
  *   "noise_samples":..,"noise_power":0.75,"passes":..,"rate":..,"subsample":..,"threads":..,
  *   "seed":..,"kernel":"fast"|"reference","simd":..,"keep_context":..
- *   [,"ranks":..,"exchanges_per_pass":.. when trained by several ranks]},
+ *   [,"threads_train":"own copies","combinations_per_pass":..,"merge":.. when the threads
+ *   trained copies of their own | ,"threads_train":"shared vectors" with two threads or more
+ *   updating the shared vectors]
+ *   [,"ranks":..,"exchanges_per_pass":..,"merge":.. when trained by several ranks]},
  *  "result":{"words_seen":..,"words_trained":..,"pairs":..,"final_loss":..}}.
  *  text_json and sources_json are inserted as they are (valid JSON, or NULL for null);
  *  res may be NULL. *json is owned by the caller: release with ist_sgns_free(). */

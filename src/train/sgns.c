@@ -78,6 +78,13 @@ check_opts(const ist_sgns_opts *o, size_t n_ids, size_t vocab_size, ist_error *e
                              "subsampling threshold: expected 0 to 1, found %g", o->subsample);
     if (o->kernel != IST_SGNS_FAST && o->kernel != IST_SGNS_REFERENCE)
         return ist_error_set(err, IST_ERR_INVALID, "unknown kernel %d", (int)o->kernel);
+    if (o->parallel != IST_SGNS_PARALLEL_AUTO && o->parallel != IST_SGNS_PARALLEL_COPIES &&
+        o->parallel != IST_SGNS_PARALLEL_SHARED)
+        return ist_error_set(err, IST_ERR_INVALID, "unknown way of sharing the threads' work %d",
+                             (int)o->parallel);
+    if (o->exchanges > 1000)
+        return ist_error_set(err, IST_ERR_INVALID, "exchanges per pass: expected 1 to 1000, "
+                             "found %zu", o->exchanges);
     if (vocab_size == 0 || vocab_size >= UINT32_MAX)
         return ist_error_set(err, IST_ERR_INVALID,
                              "vocabulary size: expected 1 to %u words, found %zu",
@@ -139,10 +146,10 @@ env_count(const char *name, size_t def, size_t max)
  * plain algorithm, bit for bit), else HOT_ROWS or what ISTHMUS_SGNS_HOT asks for (0: plain
  * lock-free updates of the shared rows). */
 static size_t
-hot_rows_wanted(size_t threads, size_t vocab)
+hot_rows_wanted(size_t threads, size_t vocab, bool copies)
 {
     size_t n = env_count("ISTHMUS_SGNS_HOT", HOT_ROWS, MAX_HOT_ROWS);
-    if (threads < 2)
+    if (threads < 2 || copies)
         return 0;
     return n < vocab ? n : vocab;
 }
@@ -205,9 +212,44 @@ hot_copies(worker *w, const shared *sh, ist_error *err)
     return IST_OK;
 }
 
+/* Whether the threads of this run train copies of their own (IST_SGNS_PARALLEL_COPIES). */
+static bool
+copies_wanted(const ist_sgns_opts *o, size_t vocab, size_t stride)
+{
+    if (o->threads < 2 || ist_cluster_size() > 1 || o->parallel == IST_SGNS_PARALLEL_SHARED)
+        return false;
+    if (o->parallel == IST_SGNS_PARALLEL_COPIES)
+        return true;
+    return (uint64_t)o->threads * 2 * vocab * stride * sizeof(float) <= IST_SGNS_COPIES_BUDGET;
+}
+
+/* The matrices a thread trains: the shared ones, or copies of them. */
+static ist_status
+worker_matrices(worker *w, const shared *sh, size_t vocab, ist_error *err)
+{
+    size_t bytes = vocab * sh->stride * sizeof(float);
+
+    w->in = sh->in;
+    w->out = sh->out;
+    if (!sh->copies)
+        return IST_OK;
+    w->own_in = ist_aligned_alloc(bytes);
+    w->own_out = ist_aligned_alloc(bytes);
+    if (!w->own_in || !w->own_out)
+        return ist_error_set(err, IST_ERR_NOMEM, "out of memory for the threads' copies of the "
+                             "vectors (%.1f MB each): use fewer threads or parallel = shared",
+                             2.0 * (double)bytes / 1e6);
+    memcpy(w->own_in, sh->in, bytes);
+    memcpy(w->own_out, sh->out, bytes);
+    w->in = w->own_in;
+    w->out = w->own_out;
+    return IST_OK;
+}
+
 static void
 worker_free(worker *w)
 {
+    ist_aligned_free(w->own_in), ist_aligned_free(w->own_out);
     ist_aligned_free(w->rep_in), ist_aligned_free(w->rep_out);
     ist_aligned_free(w->base_in), ist_aligned_free(w->base_out);
     ist_free(w->xr), ist_free(w->yr), ist_free(w->xw), ist_free(w->yw), ist_free(w->dxr);
@@ -449,6 +491,74 @@ train_ranks(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t
     return IST_OK;
 }
 
+/* Combine the threads' copies in thread order (deterministic), as o->merge says, into the
+ * shared matrices (which hold the state at the last combination), then restart every copy
+ * from the result. */
+static void
+combine_copies(shared *sh, worker *ws, size_t cells, int merge)
+{
+    size_t T = sh->nthreads;
+    float inv = 1.0f / (float)T;
+
+    for (int m = 0; m < 2; m++) {
+        float *x = m ? sh->out : sh->in;
+        for (size_t i = 0; i < cells; i++) {
+            float base = x[i], acc = merge == IST_SGNS_MERGE_MEAN ? 0.0f : base;
+            for (size_t t = 0; t < T; t++) {
+                float v = (m ? ws[t].out : ws[t].in)[i];
+                acc += merge == IST_SGNS_MERGE_MEAN ? v : v - base;
+            }
+            if (merge == IST_SGNS_MERGE_MEAN)
+                acc *= inv;
+            x[i] = acc;
+        }
+        for (size_t t = 0; t < T; t++)
+            memcpy(m ? ws[t].out : ws[t].in, x, cells * sizeof *x);
+    }
+}
+
+/* Copies: the stream in `exchanges` slices per pass, each slice shared by the threads as a
+ * pass of its own on their own matrices, then the copies combined. */
+static ist_status
+train_copies(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, size_t rows,
+             ist_sgns_result *res, ist_error *err)
+{
+    size_t epochs = sh->epochs, x = o->exchanges ? o->exchanges : 1, cells = rows * sh->stride;
+    uint64_t count = 0;
+    double xsec = 0.0;
+    ist_status rc = IST_OK;
+
+    sh->epochs = 1;
+    for (size_t e = 0; e < epochs && rc == IST_OK; e++) {
+        for (size_t c = 0; c < x && rc == IST_OK; c++) {
+            set_parts(sh, ws, part_start(sh->ids, n_ids, c, x),
+                      part_start(sh->ids, n_ids, c + 1, x));
+            sh->final_pass = e + 1 == epochs;
+            sh->words_at_slice = sh->words_done;
+            for (size_t t = 0; t < sh->nthreads; t++)
+                ws[t].slice_words = 0;
+            rc = run_threads(sh, ws, o, n_ids, err);
+            if (rc != IST_OK)
+                break;
+            double t0 = ist_sgns_now();
+            combine_copies(sh, ws, cells, o->merge);
+            xsec += ist_sgns_now() - t0;
+            count++;
+        }
+    }
+    sh->epochs = epochs;
+    for (size_t t = 0; t < sh->nthreads; t++) {
+        sh->last_epoch_loss += ws[t].own_loss;
+        sh->last_epoch_n += ws[t].own_loss_n;
+    }
+    if (res && rc == IST_OK) {
+        res->thread_copies = true;
+        res->exchange_count = count;
+        res->exchange_seconds = xsec;
+    }
+    return rc;
+}
+
 ist_status
 ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t vocab_size,
                const ist_sgns_opts *o, ist_matrix **in_vectors, ist_matrix **ctx_vectors,
@@ -485,20 +595,24 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         (rc = ist_matrix_new(vocab_size, o->dim, &out, err)) != IST_OK)
         goto fail;
     shared_setup(sh, ids, o, in, out, keep, words);
+    sh->copies = copies_wanted(o, vocab_size, in->stride);
     init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
-    if ((rc = hot_setup(sh, counts, vocab_size, hot_rows_wanted(o->threads, vocab_size), err))
-        != IST_OK)
+    if ((rc = hot_setup(sh, counts, vocab_size,
+                        hot_rows_wanted(o->threads, vocab_size, sh->copies), err)) != IST_OK)
         goto fail_sync;
     for (size_t t = 0; t < o->threads; t++) {
         ws[t].sh = sh;
         ws[t].rng = o->seed * 0x9e3779b97f4a7c15u + (uint64_t)t * 0xd1b54a32d192ed03u + 1 +
                     (uint64_t)ist_cluster_rank() * 0xa0761d6478bd642fu;
         if ((rc = worker_alloc(&ws[t], sh, err)) != IST_OK ||
+            (rc = worker_matrices(&ws[t], sh, vocab_size, err)) != IST_OK ||
             (rc = hot_copies(&ws[t], sh, err)) != IST_OK)
             goto fail_sync;
     }
     if (ist_cluster_size() > 1)
         rc = train_ranks(sh, ws, o, n_ids, vocab_size, res, err);
+    else if (sh->copies)
+        rc = train_copies(sh, ws, o, n_ids, vocab_size, res, err);
     else {
         set_parts(sh, ws, 0, n_ids);
         rc = run_threads(sh, ws, o, n_ids, err);

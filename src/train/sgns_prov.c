@@ -28,6 +28,13 @@ ist_sgns_provenance_json(const ist_sgns_opts *o, const ist_sgns_result *res,
     ist_jw_str(&w, "kernel", o->kernel == IST_SGNS_REFERENCE ? "reference" : "fast");
     ist_jw_str(&w, "simd", ist_sgns_simd_name(o->simd));
     ist_jw_bool(&w, "keep_context", o->keep_context);
+    if (res && res->thread_copies) {
+        ist_jw_str(&w, "threads_train", "own copies");
+        ist_jw_uint(&w, "combinations_per_pass", o->exchanges ? o->exchanges : 1);
+        ist_jw_str(&w, "merge", o->merge == IST_SGNS_MERGE_MEAN ? "mean" : "changes");
+    } else if (o->threads > 1) {
+        ist_jw_str(&w, "threads_train", "shared vectors");
+    }
     if (res && res->ranks > 1) {
         ist_jw_uint(&w, "ranks", res->ranks);
         ist_jw_uint(&w, "exchanges_per_pass", o->exchanges);

@@ -32,6 +32,11 @@ typedef struct shared {
     bool final_pass;                 /* the pass being run is the last one */
     double lr_start;                 /* the rate the threads of a run start with, set before
                                       * they start (they must not read words_done unlocked) */
+    /* Own copies (IST_SGNS_PARALLEL_COPIES): each thread trains its own matrices; the
+     * learning rate of a thread follows words_at_slice + its own words x nthreads, so that
+     * it does not depend on how the threads are scheduled. */
+    bool copies;
+    uint64_t words_at_slice;
     float sig[SIG_SIZE + 1], logsig[SIG_SIZE + 1];
     atomic_int stop;
     pthread_mutex_t lock;            /* guards the counters below */
@@ -55,6 +60,12 @@ typedef struct shared {
 typedef struct worker {
     char pad_head[128];              /* keeps the hot fields of neighbours off shared lines */
     shared *sh;
+    float *in, *out;                 /* the matrices this thread trains: the shared ones, or
+                                      * its own copies (own_in, own_out) */
+    float *own_in, *own_out;
+    uint64_t slice_words;            /* copies: stream words of this slice so far */
+    double own_loss;                 /* copies: last-pass loss, summed in thread order later */
+    uint64_t own_loss_n;
     size_t begin, end;               /* part of the stream */
     uint64_t rng;
     uint32_t sent[SENT_MAX];

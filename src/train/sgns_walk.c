@@ -77,7 +77,7 @@ in_row(const worker *w, uint32_t id)
         if (s >= 0)
             return w->rep_in + (size_t)s * sh->stride;
     }
-    return sh->in + (size_t)id * sh->stride;
+    return w->in + (size_t)id * sh->stride;
 }
 
 static inline float *
@@ -89,7 +89,7 @@ out_row(const worker *w, uint32_t id)
         if (s >= 0)
             return w->rep_out + (size_t)s * sh->stride;
     }
-    return sh->out + (size_t)id * sh->stride;
+    return w->out + (size_t)id * sh->stride;
 }
 
 /* Fold this thread's changes to its hot rows into the shared rows, then start again from the
@@ -292,11 +292,19 @@ publish(worker *w, bool last_epoch)
     sh->pairs += w->pairs;
     sh->loss_sum += w->loss;
     sh->loss_n += w->loss_n;
-    if (last_epoch) {
+    if (last_epoch && sh->copies) {
+        w->own_loss += w->loss;
+        w->own_loss_n += w->loss_n;
+    } else if (last_epoch) {
         sh->last_epoch_loss += w->loss;
         sh->last_epoch_n += w->loss_n;
     }
-    lr = ist_sgns_current_lr(sh, sh->words_done);
+    if (sh->copies) {
+        w->slice_words += w->words;
+        lr = ist_sgns_current_lr(sh, sh->words_at_slice + w->slice_words * sh->nthreads);
+    } else {
+        lr = ist_sgns_current_lr(sh, sh->words_done);
+    }
     pthread_mutex_unlock(&sh->lock);
     w->words = w->trained = w->pairs = w->loss_n = 0;
     w->loss = 0.0;

@@ -2,18 +2,20 @@
  * reference loop, in one run on one machine (docs/performance.md, section "Training").
  *
  * Usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] [--repeat R]
- *                   [--only fast|reference DIM THREADS] [--designs] [--fast-only]
+ *                   [--only fast|reference DIM THREADS] [--parallel copies|shared]
+ *                   [--designs] [--fast-only]
  *   --corpus F    a prepared corpus (isthmus prepare; $ISTHMUS_BENCH_CORPUS), e.g. the English
  *                 Bible from tools/dev/extract-bible.py; its stream is repeated to N tokens
  *   --text FILE   words separated by spaces, one line per sentence, vocabulary pruned at
  *                 count 5 ($ISTHMUS_BENCH_TEXT). Without either, a synthetic Zipfian stream.
  *   --tokens N    stream length [default 10000000]
  *   --repeat R    interleaved repetitions; medians are printed [default 1]
- *   --designs     also, for the fast kernel on 2 threads: private copies of the hottest rows
- *                 in each thread (256 or 1024 rows merged every 10,000 words, 1024 merged
- *                 every 100,000) against the default (lock-free updates of the shared rows),
- *                 and the control: two independent one-thread runs at the same time (what the
- *                 machine gives two processes that share nothing)
+ *   --parallel P  how the threads share the work in every row (default: the library's
+ *                 default, which is own copies of the vectors on 2 threads here)
+ *   --designs     also, for the fast kernel on 2 threads: lock-free updates of the shared
+ *                 rows, the same with private copies of the 1024 hottest rows merged every
+ *                 100,000 words, and the control: two independent one-thread runs at the
+ *                 same time (what the machine gives two processes that share nothing)
  *   --fast-only   leave out the reference kernel's rows
  * The load average (/proc/loadavg) is printed before every repetition and at the end.
  * Prints words/s (stream words, counted before subsampling), the useful flop rate against
@@ -278,6 +280,7 @@ typedef struct row {
     int procs;                               /* 2: the control, two one-thread processes */
     long hot;                                /* ISTHMUS_SGNS_HOT for the run, -1: default */
     long merge;                              /* ISTHMUS_SGNS_MERGE, 0: default */
+    ist_sgns_parallel parallel;
     int n;                                   /* repetitions done */
     double wps[MAX_REPEAT], cpu_wps[MAX_REPEAT], flops[MAX_REPEAT], cpu_flops[MAX_REPEAT];
     double peak, added, floor_;
@@ -342,6 +345,7 @@ child_train(const stream *s, const row *r, int fd)
     o.threads = r->threads;
     o.epochs = 1;
     o.kernel = r->fast ? IST_SGNS_FAST : IST_SGNS_REFERENCE;
+    o.parallel = r->parallel;
     out.base = rss_now();
     double u0 = cpu_seconds();
     if (ist_sgns_train(s->ids, s->n, s->counts, s->vocab, &o, &m, NULL, &res, &err) == IST_OK) {
@@ -459,13 +463,16 @@ row_label(const row *r, char *buf, size_t cap)
 {
     if (r->procs > 1)
         snprintf(buf, cap, "control: 2 one-thread processes");
-    else if (r->hot == 0)
-        snprintf(buf, cap, "shared rows only");
+    else if (r->threads < 2)
+        snprintf(buf, cap, "-");
     else if (r->hot > 0)
-        snprintf(buf, cap, "%ld private hot rows, merged /%ldk words", r->hot,
+        snprintf(buf, cap, "shared rows, %ld private hot rows merged /%ldk words", r->hot,
                  10 * (r->merge > 0 ? r->merge : 1));
+    else if (r->parallel == IST_SGNS_PARALLEL_SHARED)
+        snprintf(buf, cap, "shared rows, lock-free");
     else
-        snprintf(buf, cap, r->threads > 1 ? "default (shared rows only)" : "-");
+        snprintf(buf, cap, "own copies, combined 4 times a pass%s",
+                 r->parallel == IST_SGNS_PARALLEL_AUTO ? " (default)" : "");
     return buf;
 }
 
@@ -477,6 +484,7 @@ main(int argc, char **argv)
     stream s = {0};
     row rows[16];
     int nr = 0, only_kernel = -1, repeat = 1, designs = 0, fast_only = 0;
+    ist_sgns_parallel parallel = IST_SGNS_PARALLEL_AUTO;
     size_t only_dim = 0, only_threads = 0;
 
     for (int i = 1; i < argc; i++) {
@@ -492,13 +500,19 @@ main(int argc, char **argv)
             only_kernel = strcmp(argv[++i], "fast") == 0 ? 0 : 1;
             only_dim = strtoull(argv[++i], NULL, 10);
             only_threads = strtoull(argv[++i], NULL, 10);
+        } else if (strcmp(argv[i], "--parallel") == 0 && i + 1 < argc) {
+            i++;
+            parallel = strcmp(argv[i], "shared") == 0 ? IST_SGNS_PARALLEL_SHARED
+                       : strcmp(argv[i], "copies") == 0 ? IST_SGNS_PARALLEL_COPIES
+                                                        : IST_SGNS_PARALLEL_AUTO;
         } else if (strcmp(argv[i], "--designs") == 0) {
             designs = 1;
         } else if (strcmp(argv[i], "--fast-only") == 0) {
             fast_only = 1;
         } else {
             fprintf(stderr, "usage: bench-sgns [--corpus PREPARED | --text FILE] [--tokens N] "
-                            "[--repeat R] [--only fast|reference DIM THREADS] [--designs] [--fast-only]\n");
+                            "[--repeat R] [--only fast|reference DIM THREADS] "
+                            "[--parallel copies|shared] [--designs] [--fast-only]\n");
             return 2;
         }
     }
@@ -546,20 +560,22 @@ main(int argc, char **argv)
                 r->threads = nthr[ti];
                 r->procs = 1;
                 r->hot = -1;
+                r->parallel = parallel;
             }
     int n_main = nr, step = fast_only ? 1 : 2;   /* rows from 1 to 2 threads */
     if (designs && only_kernel < 0)
         for (int di = 0; di < 2; di++) {
-            long hots[3] = {256, 1024, 1024}, merges[3] = {1, 1, 10};
-            for (int v = 0; v < 4; v++) {
+            long hots[2] = {-1, 1024}, merges[2] = {0, 10};
+            for (int v = 0; v < 3; v++) {
                 row *r = &rows[nr++];
                 memset(r, 0, sizeof *r);
                 r->fast = 1;
                 r->dim = dims[di];
-                r->threads = v < 3 ? 2 : 1;
-                r->procs = v < 3 ? 1 : 2;
-                r->hot = v < 3 ? hots[v] : -1;
-                r->merge = v < 3 ? merges[v] : 0;
+                r->threads = v < 2 ? 2 : 1;
+                r->procs = v < 2 ? 1 : 2;
+                r->hot = v < 2 ? hots[v] : -1;
+                r->merge = v < 2 ? merges[v] : 0;
+                r->parallel = v < 2 ? IST_SGNS_PARALLEL_SHARED : IST_SGNS_PARALLEL_AUTO;
             }
         }
     print_load("at the start");

@@ -46,13 +46,20 @@ help(FILE *out)
           "      --subsample=T       frequent-word threshold t: a word of frequency f is kept\n"
           "                          with probability min(1, sqrt(t/f)); 0 = off [default: 1e-4]\n"
           CLI_HELP_THREADS
-          "                          (only 1 gives bit-identical reruns)\n"
+          "      --thread-vectors=HOW  copies (each thread trains a copy of its own; the\n"
+          "                          copies are combined --exchanges times a pass, in thread\n"
+          "                          order, so reruns with the same seed and thread count\n"
+          "                          are bit-identical), shared (all threads update one copy\n"
+          "                          without locks; reruns differ) or auto (copies while they\n"
+          "                          fit in 1 GiB, else shared); used from 2 threads on\n"
+          "                          [default: auto]\n"
           "      --seed=N            random seed [default: 1]\n"
-          "      --exchanges=N       under mpirun: times per pass the ranks average their\n"
-          "                          vectors, 1..1000 (docs/cluster.md) [default: 4]\n"
-          "      --merge=HOW         under mpirun: changes (add up every rank's changes since\n"
-          "                          the last exchange) or mean (average the vectors)\n"
-          "                          [default: changes]\n"
+          "      --exchanges=N       times per pass the threads' copies are combined, and\n"
+          "                          under mpirun the ranks' vectors, 1..1000\n"
+          "                          (docs/cluster.md) [default: 4]\n"
+          "      --merge=HOW         how they are combined: changes (add up every copy's\n"
+          "                          changes since the last exchange) or mean (average the\n"
+          "                          vectors) [default: changes]\n"
           "      --kernel=K          fast (shared noise words per window, vector kernels) or\n"
           "                          reference (plain per-pair loop) [default: fast]\n"
           "      --keep-context=FILE also write the output (context) vectors to FILE\n"
@@ -196,6 +203,7 @@ parse(int argc, char **argv, train_args *a)
         {"subsample", required_argument, NULL, 's'},
         {"seed", required_argument, NULL, 'S'},
         {"exchanges", required_argument, NULL, 'X'},
+        {"thread-vectors", required_argument, NULL, 1012},
         {"merge", required_argument, NULL, 'G'},
         {"kernel", required_argument, NULL, 'k'},
         {"keep-context", required_argument, NULL, 'K'},
@@ -223,6 +231,7 @@ parse(int argc, char **argv, train_args *a)
     };
     static const char *const kernels[] = {"fast", "reference", NULL};
     static const char *const merges[] = {"changes", "mean", NULL};
+    static const char *const sharings[] = {"auto", "copies", "shared", NULL};
     static const char *const methods[] = {"skip-gram", "ppmi", "skip-gram+ppmi", NULL};
     static const char *const weightings[] = {"linear", "flat", NULL};
     const char *cmd = "train";
@@ -257,6 +266,12 @@ parse(int argc, char **argv, train_args *a)
             break;
         case 'S': ok = cli_parse_u64(cmd, "--seed", optarg, 0, UINT64_MAX, &a->so.seed); break;
         case 'X': ok = cli_parse_size(cmd, "--exchanges", optarg, 1, 1000, &a->so.exchanges); break;
+        case 1012:
+            ok = cli_parse_choice(cmd, "--thread-vectors", optarg, sharings, &k);
+            a->so.parallel = k == 1   ? IST_SGNS_PARALLEL_COPIES
+                             : k == 2 ? IST_SGNS_PARALLEL_SHARED
+                                      : IST_SGNS_PARALLEL_AUTO;
+            break;
         case 'G':
             ok = cli_parse_choice(cmd, "--merge", optarg, merges, &k);
             a->so.merge = k == 1 ? IST_SGNS_MERGE_MEAN : IST_SGNS_MERGE_CHANGES;
@@ -611,6 +626,10 @@ run(int argc, char **argv)
         cli_wrote(a.ctx_out, "%zu context vectors, native", types);
     if (a.text_out)
         cli_wrote(a.text_out, "%zu x %zu %s vectors, text table", types, dim, kind);
+    if (res.thread_copies)
+        cli_info("isthmus train: %zu threads trained copies of their own, combined %llu times "
+                 "(%.2f s combining)\n", a.so.threads, (unsigned long long)res.exchange_count,
+                 res.exchange_seconds);
     if (res.ranks > 1)
         cli_info("isthmus train: %u ranks, %llu exchanges of %.1f MB per rank, %.2f s "
                  "exchanging (%.1f ms each), %.2f s waiting for other ranks\n", res.ranks,
