@@ -608,7 +608,8 @@ spilled_stream_same_file(void **state)
 }
 
 /* Segmenting on several threads gives the same corpus as one thread: same stream, same
- * vocabulary and counts, same statistics; an invalid byte in strict mode is reported at the
+ * vocabulary and counts (each chunk's words numbered on a worker, the corpus ids given in the
+ * reading thread), same statistics; an invalid byte in strict mode is reported at the
  * same file, line and offset, and cancelling works. */
 static void
 threads_same_corpus(void **state)
@@ -625,8 +626,16 @@ threads_same_corpus(void **state)
         for (int w = 0; w < words; w++)
             len += (size_t)snprintf(text + len, cap - len, "%s%s%u", w ? " " : "",
                                     w % 3 ? "Caf\xc3\xa9" : "X", (unsigned)(harness_rand(&rng) % 700));
+        if (harness_rand(&rng) % 4 == 0)   /* rare words: once in a chunk, or not at all */
+            len += (size_t)snprintf(text + len, cap - len, " r%u",
+                                    (unsigned)(harness_rand(&rng) % 20000));
         if (line == 31234)                 /* one invalid byte, deep into the file */
             text[len++] = (char)0xff;
+        if (line == 77 || line == 20001) { /* a word too long to be a word: left out */
+            text[len++] = ' ';
+            memset(text + len, 'q', IST_WORD_MAX_BYTES + 1);
+            len += IST_WORD_MAX_BYTES + 1;
+        }
         text[len++] = '\n';
     }
     harness_write(p, text, len);

@@ -1,10 +1,14 @@
 /* corpus_par.c - segmentation on several threads while a corpus is built (corpus.c).
  *
  * The reading thread cuts the text into chunks of whole lines; worker threads normalise and
- * segment each chunk into a list of words (each with its own normaliser); the reading thread
- * then takes the chunks back in order and does what depends on order: de-duplication,
- * counting and numbering (ist_corpus_on_word), the line ends. The ids, the counts and so the
- * prepared file are the same as on one thread. */
+ * segment each chunk (each with its own normaliser) and number its words in a table of the
+ * chunk's own, so that the text of a word is hashed and compared on a worker, once a token.
+ * The reading thread then takes the chunks back in order and does what depends on order:
+ * de-duplication, the corpus-wide number of each of the chunk's words at its first kept
+ * occurrence (one lookup a distinct word of the chunk, not a token), the id stream, the line
+ * ends, and the counts, added once a chunk. Ids are given in first-seen order and the counts
+ * are the same sums, so the ids, the counts and the prepared file are the same as on one
+ * thread. */
 
 #include "corpus_build_int.h"
 
@@ -18,6 +22,7 @@
 #include "corpus_int.h"
 #include "error_int.h"
 #include "hash_int.h"
+#include "wordtab_int.h"
 
 #define PAR_CHUNK_BYTES ((size_t)1 << 20)
 #define PAR_CHUNK_LINES 16384
@@ -26,8 +31,8 @@
 typedef struct pline {
     uint64_t lineno, offset;       /* in the file, for messages */
     size_t text_off, text_len;     /* the raw line in the chunk's text */
-    size_t words_off;              /* its words in the chunk's word list */
-    uint32_t n_words;
+    size_t ids_off;                /* its words in the chunk's id list */
+    uint32_t n_ids;
     bool empty;                    /* normalised to nothing */
     uint64_t hash;                 /* of the normalised line, when de-duplicating */
 } pline;
@@ -37,8 +42,10 @@ typedef struct chunk {
     size_t text_len, text_cap;
     pline *lines;
     size_t n_lines, lines_cap;
-    unsigned char *words;          /* u32 length + bytes, word after word */
-    size_t words_len, words_cap;
+    ist_wordtab local;             /* the chunk's distinct words, numbered from 0 */
+    bool local_ready;
+    uint32_t *ids;                 /* the chunk's tokens as numbers of `local` */
+    size_t ids_len, ids_cap;
     uint64_t replaced;
     ist_status rc;                 /* failure at line err_line (lines before it are fine) */
     size_t err_line;
@@ -64,7 +71,12 @@ typedef struct pool {
     ist_normalizer *nz[PAR_MAX_WORKERS];
     worker_arg args[PAR_MAX_WORKERS];
     size_t started;
+    uint32_t *gid;                 /* merging: a chunk word's corpus id, or NO_ID */
+    uint64_t *cnt;                 /* merging: its kept occurrences in the chunk */
+    size_t map_cap;
 } pool;
+
+#define NO_ID UINT32_MAX
 
 static bool
 grow(void **p, size_t *cap, size_t need, size_t elem)
@@ -84,7 +96,8 @@ grow(void **p, size_t *cap, size_t need, size_t elem)
 
 typedef struct wctx {
     chunk *ch;
-    bool nomem;
+    ist_status rc;
+    ist_error *err;
 } wctx;
 
 static int
@@ -92,14 +105,18 @@ collect_word(void *ctx, const char *word, size_t len)
 {
     wctx *x = ctx;
     chunk *ch = x->ch;
-    uint32_t l = (uint32_t)len;
-    if (!grow((void **)&ch->words, &ch->words_cap, ch->words_len + 4 + len, 1)) {
-        x->nomem = true;
+    uint32_t l;
+
+    if (len > IST_WORD_MAX_BYTES)
+        return 0;   /* no vector file could hold it (vocab.h): not a word, as on one thread */
+    if (!grow((void **)&ch->ids, &ch->ids_cap, ch->ids_len + 1, sizeof *ch->ids)) {
+        x->rc = ist_error_nomem(x->err);
         return 1;
     }
-    memcpy(ch->words + ch->words_len, &l, 4);
-    memcpy(ch->words + ch->words_len + 4, word, len);
-    ch->words_len += 4 + len;
+    x->rc = ist_wordtab_add_n(&ch->local, word, len, 0, &l, x->err);
+    if (x->rc != IST_OK)
+        return 1;
+    ch->ids[ch->ids_len++] = l;
     return 0;
 }
 
@@ -108,8 +125,16 @@ static void
 chunk_segment(const pool *pl, ist_normalizer *nz, chunk *ch)
 {
     uint64_t repl0 = ist_normalizer_replaced(nz);
-    ch->words_len = 0;
+    ch->ids_len = 0;
     ch->rc = IST_OK;
+    if (ch->local_ready) {
+        ist_wordtab_reset(&ch->local);
+    } else if ((ch->rc = ist_wordtab_init(&ch->local, &ch->err)) == IST_OK) {
+        ch->local_ready = true;
+    } else {
+        ch->err_line = 0;
+        return;
+    }
     for (size_t i = 0; i < ch->n_lines; i++) {
         pline *ln = &ch->lines[i];
         const char *norm;
@@ -134,25 +159,18 @@ chunk_segment(const pool *pl, ist_normalizer *nz, chunk *ch)
         }
         ln->empty = nlen == 0;
         ln->hash = pl->b->o->dedup_lines && nlen > 0 ? ist_hash_bytes(norm, nlen) : 0;
-        ln->words_off = ch->words_len;
-        size_t before = ch->words_len;
-        wctx x = {ch, false};
+        ln->ids_off = ch->ids_len;
+        wctx x = {ch, IST_OK, err};
         rc = ist_segment_words_opts(norm, nlen, &pl->b->o->text, collect_word, &x, err);
-        if (rc == IST_OK && x.nomem)
-            rc = ist_error_nomem(err);
+        if (rc == IST_OK)
+            rc = x.rc;
         if (rc != IST_OK) {
             ist_error_prefix(err, "%s:%llu", pl->path, (unsigned long long)ln->lineno);
             ch->rc = rc;
             ch->err_line = i;
             break;
         }
-        uint32_t n = 0;
-        for (size_t q = before; q < ch->words_len; n++) {
-            uint32_t l;
-            memcpy(&l, ch->words + q, 4);
-            q += 4 + l;
-        }
-        ln->n_words = n;
+        ln->n_ids = (uint32_t)(ch->ids_len - ln->ids_off);
     }
     ch->replaced = ist_normalizer_replaced(nz) - repl0;
 }
@@ -196,8 +214,12 @@ ist_corpus_pool_stop(pool *pl)
     for (size_t i = 0; pl->ring && i < pl->n_ring; i++) {
         ist_free(pl->ring[i].text);
         ist_free(pl->ring[i].lines);
-        ist_free(pl->ring[i].words);
+        ist_free(pl->ring[i].ids);
+        if (pl->ring[i].local_ready)
+            ist_wordtab_free(&pl->ring[i].local);
     }
+    ist_free(pl->gid);
+    ist_free(pl->cnt);
     ist_free(pl->ring);
     pthread_mutex_destroy(&pl->lock);
     pthread_cond_destroy(&pl->work);
@@ -242,13 +264,43 @@ ist_corpus_pool_start(build *b, size_t workers, pool **out, ist_error *err)
     return IST_OK;
 }
 
-/* In order: the chunk's lines through de-duplication, counting and numbering. */
+/* The corpus id of the chunk's word l, given at its first kept occurrence. */
+static ist_status
+merge_word(build *b, pool *pl, const chunk *ch, uint32_t l, ist_error *err)
+{
+    if (pl->gid[l] != NO_ID)
+        return IST_OK;
+    return ist_wordtab_add_n(&b->words, ist_wordtab_word(&ch->local, l),
+                             ist_wordtab_len(&ch->local, l), 0, &pl->gid[l], err);
+}
+
+/* In order: the chunk's lines through de-duplication, numbering and counting. */
 static ist_status
 chunk_merge(build *b, chunk *ch, ist_error *err)
 {
+    pool *pl = b->pool;
     size_t upto = ch->rc == IST_OK ? ch->n_lines : ch->err_line;
+    size_t n_local = ch->local_ready ? ch->local.n : 0;
     ist_status rc = IST_OK;
 
+    if (n_local > pl->map_cap) {
+        size_t nc = pl->map_cap ? pl->map_cap : 4096;
+        while (nc < n_local)
+            nc *= 2;
+        uint32_t *g = ist_realloc(pl->gid, nc * sizeof *g);
+        if (g)
+            pl->gid = g;
+        uint64_t *c = ist_realloc(pl->cnt, nc * sizeof *c);
+        if (c)
+            pl->cnt = c;
+        if (!g || !c)
+            return ist_error_nomem(err);
+        pl->map_cap = nc;
+    }
+    for (size_t l = 0; l < n_local; l++) {
+        pl->gid[l] = NO_ID;
+        pl->cnt[l] = 0;
+    }
     b->replaced_par += ch->replaced;
     for (size_t i = 0; i < upto && rc == IST_OK; i++) {
         const pline *ln = &ch->lines[i];
@@ -263,21 +315,27 @@ chunk_merge(build *b, chunk *ch, ist_error *err)
                 continue;
             }
         }
-        const unsigned char *w = ch->words + ln->words_off;
-        b->cb_rc = IST_OK;
-        for (uint32_t k = 0; k < ln->n_words; k++) {
-            uint32_t len;
-            memcpy(&len, w, 4);
-            if (ist_corpus_on_word(b, (const char *)w + 4, len) != 0)
-                break;
-            w += 4 + len;
+        const uint32_t *ids = ch->ids + ln->ids_off;
+        for (uint32_t k = 0; k < ln->n_ids && rc == IST_OK; k++) {
+            uint32_t l = ids[k];
+            rc = merge_word(b, pl, ch, l, err);
+            if (rc == IST_OK)
+                rc = ist_corpus_push_id(b, pl->gid[l], err);
+            pl->cnt[l]++;
         }
-        rc = b->cb_rc;
         if (rc != IST_OK) {
-            ist_error_prefix(err, "%s:%llu", b->pool->path, (unsigned long long)ln->lineno);
+            ist_error_prefix(err, "%s:%llu", pl->path, (unsigned long long)ln->lineno);
             break;
         }
+        b->c->st.tokens_in += ln->n_ids;
         rc = ist_corpus_push_id(b, IST_CORPUS_EOL, err);
+    }
+    for (size_t l = 0; l < n_local && rc == IST_OK; l++) {
+        if (pl->cnt[l] > 0) {
+            uint32_t id;
+            rc = ist_wordtab_add_n(&b->words, ist_wordtab_word(&ch->local, l),
+                                   ist_wordtab_len(&ch->local, l), pl->cnt[l], &id, err);
+        }
     }
     if (rc == IST_OK && ch->rc != IST_OK) {
         if (err)

@@ -115,6 +115,21 @@ store_word(ist_wordtab *t, const char *w, size_t len, ist_error *err)
 ist_status
 ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id, ist_error *err)
 {
+    return ist_wordtab_add_n(t, w, len, 1, id, err);
+}
+
+void
+ist_wordtab_reset(ist_wordtab *t)
+{
+    memset(t->slot, 0, t->cap * sizeof *t->slot);
+    t->n = 0;
+    t->pool_used = 0;
+}
+
+ist_status
+ist_wordtab_add_n(ist_wordtab *t, const char *w, size_t len, uint64_t n, uint32_t *id,
+                  ist_error *err)
+{
     uint64_t h = fast_hash(w, len);
     uint32_t tag = (uint32_t)(h >> 32);
     size_t mask = t->cap - 1, i = (size_t)h & mask;
@@ -129,7 +144,7 @@ ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id, ist_err
         const char *cand = len <= IST_WORDTAB_INLINE ? s->w : t->pool + t->off[s->id_plus1 - 1];
         if (memcmp(cand, w, len) == 0) {
             *id = s->id_plus1 - 1;
-            s->count++;
+            s->count += n;
             return IST_OK;
         }
     }
@@ -140,7 +155,7 @@ ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id, ist_err
     if (rc != IST_OK)
         return rc;
     ist_wslot *s = &t->slot[i];
-    s->count = 1;
+    s->count = n;
     s->tag = tag;
     s->id_plus1 = (uint32_t)t->n + 1;
     s->len = (uint32_t)len;

@@ -40,6 +40,12 @@ void ist_wordtab_free(ist_wordtab *t);
 ist_status ist_wordtab_add(ist_wordtab *t, const char *w, size_t len, uint32_t *id,
                            ist_error *err);
 
+/* Count n occurrences at once (n may be 0: the word gets its id, its count stays). */
+ist_status ist_wordtab_add_n(ist_wordtab *t, const char *w, size_t len, uint64_t n,
+                             uint32_t *id, ist_error *err);
+/* Forget every word, keeping the memory (ids start from 0 again). */
+void ist_wordtab_reset(ist_wordtab *t);
+
 /* Counts by id into out[n] (allocated by the caller). */
 void ist_wordtab_counts(const ist_wordtab *t, uint64_t *out);
 
@@ -47,6 +53,14 @@ static inline const char *
 ist_wordtab_word(const ist_wordtab *t, uint32_t id)
 {
     return t->pool + t->off[id];
+}
+
+/* Length in bytes of word `id` (its bytes are NUL-terminated in the pool). */
+static inline size_t
+ist_wordtab_len(const ist_wordtab *t, uint32_t id)
+{
+    uint64_t end = id + 1 < t->n ? t->off[id + 1] : t->pool_used;
+    return (size_t)(end - t->off[id] - 1);
 }
 
 #endif
