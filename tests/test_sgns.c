@@ -6,6 +6,8 @@
 #include <isthmus/cancel.h>
 #include <isthmus/testing.h>
 
+#include <time.h>
+
 #include "sgns_int.h"
 
 /* ---- Levy & Goldberg 2014: w . c -> PMI(w, c) - log k ----------------------------------- */
@@ -350,6 +352,71 @@ progress_can_cancel(void **state)
     corpus_free(&c);
 }
 
+/* Progress over slices: with copies combined between slices each slice is a run of its own,
+ * but the rate shown is the whole training's (words done over the time since it began), so
+ * words_done / words_per_sec is the time since the start, not since the slice began. */
+typedef struct {
+    double t_before, worst;   /* worst: the least (elapsed by the rate) / (elapsed here) */
+    int calls, late;          /* late: calls after the first quarter of the words */
+} rate_watch;
+
+static double
+mono_sec(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + (double)ts.tv_nsec * 1e-9;
+}
+
+static int
+watch_rate(void *ctx, const ist_sgns_progress *p)
+{
+    rate_watch *w = ctx;
+    double here = mono_sec() - w->t_before;
+    w->calls++;
+    if (p->fraction > 0.25 && p->words_per_sec > 0) {
+        double by_rate = (double)p->words_done / p->words_per_sec;
+        w->late++;
+        if (by_rate / here < w->worst)
+            w->worst = by_rate / here;
+    }
+    return 0;
+}
+
+static void
+progress_rate_spans_slices(void **state)
+{
+    corpus c;
+    ist_sgns_opts o;
+    ist_matrix *in, *ctx;
+    ist_sgns_result res;
+    ist_error err;
+    rate_watch w = {0, 1.0, 0, 0};
+    (void)state;
+    make_clusters(&c, 20, 10, 20000, 0.1, 9);
+    ist_sgns_opts_init(&o);
+    o.dim = 100;
+    o.epochs = 24;
+    o.threads = 2;
+    o.parallel = IST_SGNS_PARALLEL_COPIES;
+    o.exchanges = 4;          /* 96 slices: a 0.25 s report lands in a late one */
+    o.keep_context = true;
+    o.progress = watch_rate;
+    o.progress_ctx = &w;
+    w.t_before = mono_sec();
+    assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &in, &ctx, &res, &err),
+                     IST_OK);
+    printf("# %d progress reports (%d late), %.2f s, worst elapsed-by-rate / elapsed %.2f\n",
+           w.calls, w.late, res.seconds, w.worst);
+    ist_matrix_free(in), ist_matrix_free(ctx);
+    corpus_free(&c);
+    assert_true(res.thread_copies);
+    if (w.late == 0)
+        skip();               /* a machine this fast trains it before a report is due */
+    /* the setup before the training (noise table, first vectors) is a small part of it */
+    assert_true(w.worst > 0.6);
+}
+
 static void
 bad_options(void **state)
 {
@@ -470,6 +537,7 @@ main(void)
         cmocka_unit_test(kernels_match_double_sums),
         cmocka_unit_test(windows_stop_at_line_ends),
         cmocka_unit_test(progress_can_cancel),
+        cmocka_unit_test(progress_rate_spans_slices),
         cmocka_unit_test(bad_options),
         cmocka_unit_test(every_failed_allocation_is_clean),
     };

@@ -202,7 +202,7 @@ ist_file_kind_use(ist_file_kind k)
         return "written by 'isthmus score' or 'isthmus align' with --json-out; read by "
                "'isthmus gate' and 'isthmus report'";
     case IST_FILE_VERDICT:
-        return "written by 'isthmus gate --verdict-out'";
+        return "written by 'isthmus gate --verdict-out'; read with --verdict by 'isthmus report'";
     case IST_FILE_JSON:
         return "with no \"format\" key of isthmus";
     case IST_FILE_CANDIDATES:

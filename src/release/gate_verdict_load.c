@@ -1,5 +1,6 @@
 /* gate_verdict_load.c - a verdict JSON read back (docs/formats.md "Verdict JSON"): its
  * schema, that it belongs to a result, and the typed verdict the report shows. */
+#include <isthmus/filekind.h>
 #include <isthmus/gate.h>
 
 #include <math.h>
@@ -117,11 +118,23 @@ check_root(const char *path, const ist_jv *root, const ist_result *res, ist_erro
     return rc;
 }
 
+/* A vector file, a map or a corpus named as the verdict is told by its kind; other text
+ * and JSON (a result among them) get the parser's and the schema's own messages. */
+static ist_status
+parse_verdict_file(const char *path, ist_jv **root, ist_error *err)
+{
+    ist_status rc = ist_file_expect(path, IST_FILE_BIT(IST_FILE_VERDICT) |
+                                              IST_FILE_BIT(IST_FILE_RESULT) |
+                                              IST_FILE_BIT(IST_FILE_JSON) | IST_FILE_ANY_TEXT,
+                                    1, "a verdict file", err);
+    return rc == IST_OK ? ist_json_parse_file(path, root, err) : rc;
+}
+
 ist_status
 ist_verdict_check_file(const char *path, const ist_result *res, ist_error *err)
 {
     ist_jv *root = NULL;
-    ist_status rc = ist_json_parse_file(path, &root, err);
+    ist_status rc = parse_verdict_file(path, &root, err);
 
     if (rc == IST_OK)
         rc = check_root(path, root, res, err);
@@ -298,7 +311,7 @@ ist_verdict_load(const char *path, const ist_result *result, ist_verdict **out, 
     ist_status rc;
 
     *out = NULL;
-    if ((rc = ist_json_parse_file(path, &root, err)) == IST_OK &&
+    if ((rc = parse_verdict_file(path, &root, err)) == IST_OK &&
         (rc = check_root(path, root, result, err)) == IST_OK)
         rc = build(path, root, out, err);
     ist_jv_free(root);

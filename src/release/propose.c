@@ -516,7 +516,7 @@ write_header(ist_ofile *f, const ist_proposals *p, const ist_store *src, const i
         "# isthmus candidate list: statistical suggestions, to be reviewed by a speaker of the "
         "language before use; write accept, reject or 'use WORD' in the decision column\n"
         "# source=%s fingerprint=%016llx target=%s fingerprint=%016llx map=%s "
-        "seeds=%016llx order=%s retrieval=csls neighbourhood=%zu top-sources=%zu "
+        "seeds=%016llx order=%s rank-by=csls csls-k=%zu top-sources=%zu "
         "candidates=%zu skip-gold-targets=%s numbers=%s stop-share=%g min-score=%g "
         "variants=%s same-spelling-block=%s",
         base_or_dash(in ? in->source_path : NULL), (unsigned long long)ist_store_fingerprint(src),

@@ -302,7 +302,6 @@ set_parts(shared *sh, worker *ws, size_t lo, size_t hi)
 static ist_status
 run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_error *err)
 {
-    double t0 = ist_sgns_now();
     ist_status rc = IST_OK;
 
     (void)n_ids;
@@ -320,7 +319,7 @@ run_threads(shared *sh, worker *ws, const ist_sgns_opts *o, size_t n_ids, ist_er
         }
         ws[t].started = true;
     }
-    ist_sgns_monitor(sh, o, t0);
+    ist_sgns_monitor(sh, o);
     for (size_t t = 0; t < sh->nthreads; t++)
         if (ws[t].started)
             pthread_join(ws[t].thread, NULL);
@@ -595,6 +594,7 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
         (rc = ist_matrix_new(vocab_size, o->dim, &out, err)) != IST_OK)
         goto fail;
     shared_setup(sh, ids, o, in, out, keep, words);
+    sh->t_start = t0;
     sh->copies = copies_wanted(o, vocab_size, in->stride);
     init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
     if ((rc = hot_setup(sh, counts, vocab_size,

@@ -32,6 +32,8 @@ typedef struct shared {
     bool final_pass;                 /* the pass being run is the last one */
     double lr_start;                 /* the rate the threads of a run start with, set before
                                       * they start (they must not read words_done unlocked) */
+    double t_start;                  /* when the training began: the progress rate is
+                                      * words_done over the time since, as in the result */
     /* Own copies (IST_SGNS_PARALLEL_COPIES): each thread trains its own matrices; the
      * learning rate of a thread follows words_at_slice + its own words x nthreads, so that
      * it does not depend on how the threads are scheduled. */
@@ -98,8 +100,8 @@ double ist_sgns_current_lr(const shared *sh, uint64_t done);
 void *ist_sgns_worker_main(void *arg);
 
 /* The calling thread waits for the workers, reports progress every 0.25 s and passes on a
- * stop request. */
-void ist_sgns_monitor(shared *sh, const ist_sgns_opts *o, double t0);
+ * stop request. A run may be one slice of several: the rate counts from sh->t_start. */
+void ist_sgns_monitor(shared *sh, const ist_sgns_opts *o);
 
 /* Monotonic clock in seconds. */
 double ist_sgns_now(void);

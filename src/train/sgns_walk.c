@@ -393,12 +393,17 @@ ist_sgns_now(void)
 
 /* The calling thread waits, reports progress every 0.25 s and passes on a stop request. */
 void
-ist_sgns_monitor(shared *sh, const ist_sgns_opts *o, double t0)
+ist_sgns_monitor(shared *sh, const ist_sgns_opts *o)
 {
-    uint64_t last_done = 0, last_n = 0;
-    double last_loss = 0.0, last_t = t0;
+    const double t0 = sh->t_start;
+    uint64_t last_done, last_n;
+    double last_loss, last_t = ist_sgns_now();
 
     pthread_mutex_lock(&sh->lock);
+    /* this run may be one slice of several: the recent rate and loss start from here */
+    last_done = sh->words_done;
+    last_n = sh->loss_n;
+    last_loss = sh->loss_sum;
     while (sh->finished < sh->nthreads) {
         struct timespec ts;
         clock_gettime(CLOCK_REALTIME, &ts);

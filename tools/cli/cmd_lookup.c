@@ -7,6 +7,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <isthmus/filekind.h>
+
 #include "eval_cli.h"
 #include "spell.h"
 
@@ -109,7 +111,12 @@ read_words(const char *path, wordlist *l)
     FILE *f = in ? stdin : fopen(path, "r");
     char line[4096];
     size_t lineno = 0;
+    ist_error err;
 
+    if (f && !in && ist_file_expect(path, IST_FILE_ANY_TEXT, 0, "a word list", &err) != IST_OK) {
+        fclose(f);
+        return cli_report(CMD, &err);
+    }
     if (!f) {
         fprintf(stderr, "isthmus %s: %s: cannot open for reading (%s)\n", CMD, path,
                 strerror(errno));
