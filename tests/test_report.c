@@ -247,6 +247,59 @@ answer_first_and_figures_for_people(void **state)
     harness_rmdir(dir);
 }
 
+/* Two series side by side leave each bar about 28 px on the k-occurrence chart: a value
+ * label wider than its bar ran into its neighbour's ("36.8%37.3%"), so such labels are
+ * whole percents, "<1%" for a share above zero that rounds to none. The first bin holds
+ * the targets found by no query: "0", not "0+". */
+static void
+narrow_bars_get_whole_percent_labels(void **state)
+{
+    (void)state;
+    char *dir = harness_tmpdir(), *in = harness_path(dir, "r.json"),
+         *out = harness_path(dir, "r.html");
+    static const unsigned cos[] = {104, 129, 115, 330, 977, 1033, 120, 0, 0, 0},
+                          csls[] = {14, 25, 39, 157, 1499, 1047, 27, 0, 0, 0},
+                          from[] = {0, 1, 2, 3, 5, 10, 20, 50, 100, 200};
+    char json[4096], dist[2][1024];
+    for (int m = 0; m < 2; m++) {
+        size_t o = 0;
+        for (int i = 0; i < 10; i++) {
+            char to[16] = "null";
+            if (i < 9)
+                snprintf(to, sizeof to, "%u", from[i + 1] - 1);
+            o += (size_t)snprintf(dist[m] + o, sizeof dist[m] - o,
+                                  "%s{\"from\": %u, \"to\": %s, \"targets\": %u}", i ? ", " : "",
+                                  from[i], to, m ? csls[i] : cos[i]);
+        }
+    }
+    snprintf(json, sizeof json,
+             "{\"format\": \"isthmus result\", \"version\": 1, \"command\": \"score\",\n"
+             " \"runs\": [],\n"
+             " \"diagnostics\": {\"hubness\": {\"k\": 10, \"queries\": 2482, \"targets\": 2808,\n"
+             "   \"neighbourhood\": 10, \"cosine\": {\"skewness\": 0.83, \"distribution\": [%s]},\n"
+             "   \"csls\": {\"skewness\": 0.6, \"distribution\": [%s]}}}}\n",
+             dist[0], dist[1]);
+    put(in, json);
+    ist_error err;
+    if (report_file(in, NULL, out, &err) != IST_OK)
+        fail_msg("%s:%llu: %s", err.file, (unsigned long long)err.line, err.msg);
+    char *h = slurp(out);
+    const char *chart = strstr(h, "Distribution of the k-occurrence");
+    assert_non_null(chart);
+    assert_non_null(strstr(chart, "font-size=\"10\">37%</text>"));   /* 36.8% and 37.3% */
+    assert_non_null(strstr(chart, "font-size=\"10\">&lt;1%</text>")); /* 14 of 2808 */
+    assert_non_null(strstr(chart, "font-size=\"10\">0%</text>"));
+    assert_null(strstr(chart, "font-size=\"10\">36.8%</text>"));
+    assert_non_null(strstr(chart, ": 36.8%</title>"));               /* the tooltip keeps it */
+    assert_non_null(strstr(chart, "font-size=\"11\">0</text>"));   /* the first bin: 0 alone */
+    assert_null(strstr(chart, ">0+</text>"));
+    assert_non_null(strstr(chart, "font-size=\"11\">200+</text>"));
+    free(h);
+    free(in);
+    free(out);
+    harness_rmdir(dir);
+}
+
 /* Every allocation of the report can fail: IST_ERR_NOMEM, nothing leaked, no page left. */
 static void
 report_survives_every_failed_allocation(void **state)
@@ -288,6 +341,7 @@ main(void)
         cmocka_unit_test(shows_a_verdict_and_tolerates_a_bare_result),
         cmocka_unit_test(bad_input_names_file_and_line),
         cmocka_unit_test(answer_first_and_figures_for_people),
+        cmocka_unit_test(narrow_bars_get_whole_percent_labels),
         cmocka_unit_test(report_survives_every_failed_allocation),
     };
     HARNESS_RUN("report", tests);

@@ -122,6 +122,33 @@ test_filters(void **state)
     ist_store_free(tgt);
 }
 
+/* Misspellings are one character from a far more frequent word, not one byte: a swap with
+ * an accented letter (áfcil, fcáil) and the loss of one (fcil) count, as does a changed
+ * accent (fécil); a word two edits away (frágil) or one at a common ratio (fáciles) does
+ * not. */
+static void
+test_variants_by_character(void **state)
+{
+    (void)state;
+    static const char *const w[] = {"f\xc3\xa1" "cil", "fr\xc3\xa1gil", "f\xc3\xa1" "ciles",
+                                    "\xc3\xa1" "fcil", "fc\xc3\xa1il", "fcil", "f\xc3\xa9" "cil"};
+    static const uint64_t c[] = {8000, 100, 400, 12, 14, 7, 9};
+    static const float v[][8] = {{1}, {1}, {1}, {1}, {1}, {1}, {1}};
+    ist_store *s = named_store(w, c, v, 7);
+    ist_word_filter f;
+    unsigned char flags[7] = {0};
+    size_t n[3];
+    ist_error err;
+    ist_word_filter_init(&f);
+    f.stop_share = 0;
+    assert_int_equal(ist_word_filter_mark(&f, s, flags, 0, n, &err), IST_OK);
+    assert_int_equal(n[2], 4);
+    assert_int_equal(flags[0] | flags[1] | flags[2], 0);
+    for (int i = 3; i < 7; i++)
+        assert_int_equal(flags[i], IST_FILTER_VARIANT);
+    ist_store_free(s);
+}
+
 /* The same-spelling block in the file: a comment line before it, the block column. */
 static void
 test_write_same_block(void **state)
@@ -377,6 +404,7 @@ main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_filters),
+        cmocka_unit_test(test_variants_by_character),
         cmocka_unit_test(test_write_same_block),
         cmocka_unit_test(test_merge_basic),
         cmocka_unit_test(test_merge_errors),

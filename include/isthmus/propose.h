@@ -55,9 +55,10 @@ typedef struct ist_word_filter {
                            * are left out, as source words and as candidates [0.005];
                            * 0 or 1 or more = no stop list; ignored without counts */
     bool variants;        /* leave out likely misspellings: a word of 4 or more bytes one
-                           * edit (two neighbours swapped, or one byte changed, added or
-                           * removed) from a word of the same file at least 50 times as
-                           * frequent: ewll (well), tilwlick (tillwick); an inflection is
+                           * edit (two neighbouring characters swapped, or one character
+                           * changed, added or removed) from a word of the same file at
+                           * least 50 times as frequent: ewll (well), tilwlick (tillwick),
+                           * áfcil (fácil); an inflection is
                            * rarely that much rarer than its base form [true]; ignored
                            * without counts */
 } ist_word_filter;

@@ -9,6 +9,7 @@
 #include <isthmus/text.h>
 
 #include "error_int.h"
+#include "text_int.h"
 
 void
 ist_word_filter_init(ist_word_filter *f)
@@ -20,26 +21,54 @@ ist_word_filter_init(ist_word_filter *f)
     f->variants = true;
 }
 
-/* One edit apart, as ist_word_filter.variants says: a (la bytes) is the rare word. */
+/* The code points of the UTF-8 word w (n bytes) into cp[0..cap); an ill-formed sequence
+ * counts as one unit. Returns their number, or cap + 1 when the word has more. */
+static size_t
+code_points(const char *w, size_t n, uint32_t *cp, size_t cap)
+{
+    size_t k = 0;
+    for (size_t i = 0; i < n; k++) {
+        if (k == cap)
+            return cap + 1;
+        size_t len = ist_utf8_decode((const unsigned char *)w + i, n - i, &cp[k]);
+        if (len == 0) {            /* cp[k] holds the length of the ill-formed unit */
+            len = cp[k];
+            cp[k] = 0xfffd;
+        }
+        i += len;
+    }
+    return k;
+}
+
+#define EDIT_MAX_CHARS 64   /* longer words are not compared */
+
+/* One edit apart, as ist_word_filter.variants says: a (la bytes) is the rare word. The
+ * edit is one character, not one byte, so a swap with an accented letter (áfcil, fácil)
+ * or its loss (fcil) counts as one. */
 static bool
 one_edit(const char *a, size_t la, const char *b, size_t lb)
 {
-    size_t i = 0;
-    if (la < 4 || (la > lb ? la - lb : lb - la) > 1)
+    uint32_t x[EDIT_MAX_CHARS], y[EDIT_MAX_CHARS];
+    if (la < 4)
         return false;
-    while (i < la && i < lb && a[i] == b[i])
+    size_t nx = code_points(a, la, x, EDIT_MAX_CHARS), ny = code_points(b, lb, y,
+                                                                         EDIT_MAX_CHARS);
+    if (nx > EDIT_MAX_CHARS || ny > EDIT_MAX_CHARS || (nx > ny ? nx - ny : ny - nx) > 1)
+        return false;
+    size_t i = 0;
+    while (i < nx && i < ny && x[i] == y[i])
         i++;
-    if (la == lb) {
-        if (i == la)
+    if (nx == ny) {
+        if (i == nx)
             return false;                               /* the same word */
-        if (i + 1 < la && a[i] == b[i + 1] && a[i + 1] == b[i] &&
-            memcmp(a + i + 2, b + i + 2, la - i - 2) == 0)
+        if (i + 1 < nx && x[i] == y[i + 1] && x[i + 1] == y[i] &&
+            memcmp(x + i + 2, y + i + 2, (nx - i - 2) * sizeof *x) == 0)
             return true;                                /* two neighbours swapped */
-        return memcmp(a + i + 1, b + i + 1, la - i - 1) == 0;   /* one byte changed */
+        return memcmp(x + i + 1, y + i + 1, (nx - i - 1) * sizeof *x) == 0;  /* one changed */
     }
-    if (la > lb)   /* a byte added to b */
-        return memcmp(a + i + 1, b + i, lb - i) == 0;
-    return memcmp(a + i, b + i + 1, la - i) == 0;   /* a byte removed */
+    if (nx > ny)   /* a character added to b */
+        return memcmp(x + i + 1, y + i, (ny - i) * sizeof *x) == 0;
+    return memcmp(x + i, y + i + 1, (nx - i) * sizeof *x) == 0;   /* a character removed */
 }
 
 /* Is row r a likely misspelling of a more frequent row? Rows are in frequency order,

@@ -98,8 +98,9 @@ hub_table(rbuf *b, const ist_diag *d, const ist_diag_summary *s)
 static void
 occ_label(const ist_diag_summary *s, size_t i, char *buf, size_t cap)
 {
-    size_t from = s->occ_from[i], to = i + 1 == IST_DIAG_OCC_BINS ? 0 : s->occ_from[i + 1] - 1;
-    if (to && to == from)
+    bool last = i + 1 == IST_DIAG_OCC_BINS;   /* only the last bin is open-ended */
+    size_t from = s->occ_from[i], to = last ? 0 : s->occ_from[i + 1] - 1;
+    if (!last && to == from)                  /* the first bin is 0 alone, not "0+" */
         snprintf(buf, cap, "%zu", from);
     else
         ist_band_label(from, to, EN_DASH, buf, cap);

@@ -165,6 +165,22 @@ value_text(char *buf, size_t cap, double v, bool percent)
         snprintf(buf, cap, "%.3g", v);
 }
 
+/* The label printed above a bar of width bw. Beside another series, a label wider than
+ * its bar runs into its neighbour's ("36.8%37.3%"), so a percent too wide for the bar is
+ * given in whole percents ("37%", "<1%" for a share above zero that rounds to none); the
+ * bar's tooltip keeps the decimal. Width estimate: 0.6 em a character at 10 px. */
+static void
+bar_label(char *buf, size_t cap, double v, bool percent, double bw)
+{
+    value_text(buf, cap, v, percent);
+    if (!percent || 6.0 * (double)strlen(buf) <= bw - 2)
+        return;
+    if (v > 0 && 100 * v < 0.5)
+        snprintf(buf, cap, "<1%%");
+    else
+        snprintf(buf, cap, "%.0f%%", 100 * v);
+}
+
 static void
 axes(rbuf *b, const rchart *c, double ymax, double step, double mt)
 {
@@ -272,9 +288,14 @@ rs_bars(rbuf *b, const rchart *c)
             if (c->s[s].lo && c->s[s].hi && !isnan(c->s[s].lo[i]) && !isnan(c->s[s].hi[i]))
                 interval(b, x + bw / 2, mt + ph * (1 - c->s[s].lo[i] / ymax),
                          mt + ph * (1 - c->s[s].hi[i] / ymax));
-            else if (c->labels)
+            else if (c->labels) {
+                char lab[32];
+                bar_label(lab, sizeof lab, v, c->percent, ns > 1 ? bw : gw);
                 rb_printf(b, "<text x=\"%.1f\" y=\"%.1f\" text-anchor=\"middle\" "
-                             "font-size=\"10\">%s</text>", x + bw / 2, mt + ph - h - 4, t);
+                             "font-size=\"10\">", x + bw / 2, mt + ph - h - 4);
+                rb_esc(b, lab);
+                rb_put(b, "</text>");
+            }
         }
         bool show = c->ncat <= 20 || i % 2 == 0;
         if (show) {
