@@ -472,6 +472,16 @@ bad_options(void **state)
     o.exchanges = 1001;
     assert_int_equal(ist_sgns_train(ids, 6, counts, 3, &o, &m, NULL, NULL, &err), IST_ERR_INVALID);
     assert_non_null(strstr(err.msg, "found 1001"));
+    /* the measured hot-row design is an option now (the library reads no environment) */
+    ist_sgns_opts_init(&o);
+    o.hot_rows = 65537;
+    assert_int_equal(ist_sgns_train(ids, 6, counts, 3, &o, &m, NULL, NULL, &err), IST_ERR_INVALID);
+    assert_null(m);
+    assert_non_null(strstr(err.msg, "hot rows: expected 0 to 65536 words"));
+    ist_sgns_opts_init(&o);
+    o.hot_merge = 1001;
+    assert_int_equal(ist_sgns_train(ids, 6, counts, 3, &o, &m, NULL, NULL, &err), IST_ERR_INVALID);
+    assert_non_null(strstr(err.msg, "found 0 every 1001"));
 }
 
 /* In a fault-injection build (-Dfault_injection=true): fail allocation k for k = 0, 1, ...

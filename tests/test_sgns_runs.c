@@ -242,21 +242,17 @@ two_threads_learn(void **state)
     o.epochs = 3;
     o.subsample = 0;
     o.threads = 2;
-    const char *hot[5] = {NULL, "60", "60", NULL, NULL}, *merge[5] = {NULL, NULL, "3", NULL, NULL};
+    const size_t hot[5] = {0, 60, 60, 0, 0}, merge[5] = {0, 0, 3, 0, 0};
     const ist_sgns_parallel par[5] = {IST_SGNS_PARALLEL_SHARED, IST_SGNS_PARALLEL_SHARED,
                                       IST_SGNS_PARALLEL_SHARED, IST_SGNS_PARALLEL_COPIES,
                                       IST_SGNS_PARALLEL_COPIES};
     for (int v = 0; v < 5; v++) {
-        if (hot[v])
-            setenv("ISTHMUS_SGNS_HOT", hot[v], 1);
-        if (merge[v])
-            setenv("ISTHMUS_SGNS_MERGE", merge[v], 1);
+        o.hot_rows = hot[v];
+        o.hot_merge = merge[v];
         o.parallel = par[v];
         o.merge = v == 4 ? IST_SGNS_MERGE_MEAN : IST_SGNS_MERGE_CHANGES;
         assert_int_equal(ist_sgns_train(c.ids, c.n, c.counts, c.vocab, &o, &m, NULL, &res, NULL),
                          IST_OK);
-        unsetenv("ISTHMUS_SGNS_HOT");
-        unsetenv("ISTHMUS_SGNS_MERGE");
         assert_int_equal(res.words_seen, 3 * 4000 * 12);
         assert_true(res.final_loss > 0 && res.final_loss < 1.0);
         assert_int_equal(res.thread_copies, par[v] == IST_SGNS_PARALLEL_COPIES);
@@ -267,9 +263,9 @@ two_threads_learn(void **state)
             printf("# two threads, own copies combined 4 times a pass (%s): nearest-neighbour "
                    "accuracy %.3f\n", v == 4 ? "mean" : "changes added up", acc);
         else
-            printf("# two threads, shared rows, private hot rows %s, merged every %s "
+            printf("# two threads, shared rows, private hot rows %zu, merged every %zu "
                    "publication(s): nearest-neighbour accuracy %.3f\n",
-                   hot[v] ? hot[v] : "none", merge[v] ? merge[v] : "1", acc);
+                   hot[v], merge[v] ? merge[v] : 1, acc);
         assert_true(acc >= 0.6);
         ist_matrix_free(m);
     }

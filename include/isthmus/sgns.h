@@ -119,6 +119,12 @@ typedef struct ist_sgns_opts {
     int (*progress)(void *ctx, const struct ist_sgns_progress *p);
     void *progress_ctx;
     ist_sgns_parallel parallel; /* how the threads share the matrices [default AUTO] */
+    /* A design kept for measurement (docs/performance.md, "Threads"): with parallel =
+     * SHARED and two threads or more, each thread trains the hot_rows most frequent words
+     * on private copies of their rows, merged into the shared rows every hot_merge
+     * publications (0..65536 words; 0 = none [default 0]; hot_merge 1..1000, 0 = 1). */
+    size_t hot_rows;
+    size_t hot_merge;
 } ist_sgns_opts;
 
 /** Fill o with the defaults above. */

@@ -50,7 +50,7 @@ struct ist_diag {
 ist_status ist_diag_csls_topk(const ist_diag *d, ist_cmatview q, ist_cmatview zt, size_t k,
                               const ist_diag_opts *o, ist_topk **out, ist_error *err);
 
-/* Worst misses and the gold/random similarity histograms (diag_test.c). */
+/* Worst misses and the gold/random similarity histograms (diag_gold.c). */
 ist_status ist_diag_fill_test(ist_diag *d, ist_cmatview xs, ist_cmatview zt, const ist_store *tgt,
                               const ist_pairs *test, const ist_diag_opts *o, ist_error *err);
 

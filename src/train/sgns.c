@@ -23,10 +23,9 @@
 #define MAX_DIM 10000
 #define MAX_WINDOW 1000
 #define MAX_NEGATIVES 1000
-#define HOT_ROWS 0             /* words whose rows each thread keeps a private copy of: none by
-                                * default, measured slower here (docs/performance.md) */
-#define MAX_HOT_ROWS 65536
-#define MERGE_EVERY 1          /* publications between merges of the private rows */
+#define MAX_HOT_ROWS 65536     /* words whose rows each thread may keep a private copy of
+                                * (none by default: measured slower here, docs/performance.md) */
+#define MAX_HOT_MERGE 1000     /* publications between merges of the private rows */
 
 void
 ist_sgns_opts_init(ist_sgns_opts *o)
@@ -82,6 +81,10 @@ check_opts(const ist_sgns_opts *o, size_t n_ids, size_t vocab_size, ist_error *e
         o->parallel != IST_SGNS_PARALLEL_SHARED)
         return ist_error_set(err, IST_ERR_INVALID, "unknown way of sharing the threads' work %d",
                              (int)o->parallel);
+    if (o->hot_rows > MAX_HOT_ROWS || o->hot_merge > MAX_HOT_MERGE)
+        return ist_error_set(err, IST_ERR_INVALID, "hot rows: expected 0 to %d words merged "
+                             "every 0 to %d publications, found %zu every %zu", MAX_HOT_ROWS,
+                             MAX_HOT_MERGE, o->hot_rows, o->hot_merge);
     if (o->exchanges > 1000)
         return ist_error_set(err, IST_ERR_INVALID, "exchanges per pass: expected 1 to 1000, "
                              "found %zu", o->exchanges);
@@ -128,35 +131,21 @@ by_count_desc(const void *a, const void *b)
     return (x->id > y->id) - (x->id < y->id);
 }
 
-/* A count from the environment (for measurements), or def when unset or not a number. */
-static size_t
-env_count(const char *name, size_t def, size_t max)
-{
-    const char *e = getenv(name);
-    if (e && *e) {
-        char *end;
-        unsigned long long v = strtoull(e, &end, 10);
-        if (*end == '\0')
-            return v > max ? max : (size_t)v;
-    }
-    return def;
-}
-
 /* How many hot words get private rows: none on one thread (so that a one-thread run is the
- * plain algorithm, bit for bit), else HOT_ROWS or what ISTHMUS_SGNS_HOT asks for (0: plain
+ * plain algorithm, bit for bit) or with copies, else what hot_rows asks for (0: plain
  * lock-free updates of the shared rows). */
 static size_t
-hot_rows_wanted(size_t threads, size_t vocab, bool copies)
+hot_rows_wanted(size_t threads, size_t vocab, bool copies, size_t hot_rows)
 {
-    size_t n = env_count("ISTHMUS_SGNS_HOT", HOT_ROWS, MAX_HOT_ROWS);
     if (threads < 2 || copies)
         return 0;
-    return n < vocab ? n : vocab;
+    return hot_rows < vocab ? hot_rows : vocab;
 }
 
 /* The n_hot most frequent words (ties: lower id first) and their slots. */
 static ist_status
-hot_setup(shared *sh, const uint64_t *counts, size_t vocab, size_t n_hot, ist_error *err)
+hot_setup(shared *sh, const uint64_t *counts, size_t vocab, size_t n_hot, size_t merge,
+          ist_error *err)
 {
     ranked *r;
 
@@ -182,9 +171,7 @@ hot_setup(shared *sh, const uint64_t *counts, size_t vocab, size_t n_hot, ist_er
     }
     ist_free(r);
     sh->n_hot = n_hot;
-    sh->merge_every = env_count("ISTHMUS_SGNS_MERGE", MERGE_EVERY, 1000);
-    if (sh->merge_every == 0)
-        sh->merge_every = 1;
+    sh->merge_every = merge ? merge : 1;
     return IST_OK;
 }
 
@@ -598,7 +585,8 @@ ist_sgns_train(const uint32_t *ids, size_t n_ids, const uint64_t *counts, size_t
     sh->copies = copies_wanted(o, vocab_size, in->stride);
     init_vectors(in->data, vocab_size, o->dim, in->stride, o->seed);
     if ((rc = hot_setup(sh, counts, vocab_size,
-                        hot_rows_wanted(o->threads, vocab_size, sh->copies), err)) != IST_OK)
+                        hot_rows_wanted(o->threads, vocab_size, sh->copies, o->hot_rows),
+                        o->hot_merge, err)) != IST_OK)
         goto fail_sync;
     for (size_t t = 0; t < o->threads; t++) {
         ws[t].sh = sh;

@@ -48,7 +48,7 @@ typedef struct shared {
     uint64_t loss_n, last_epoch_n;
     size_t finished;
     ist_status fail;
-    /* Optional, with two threads or more (ISTHMUS_SGNS_HOT): the hot words (the most frequent
+    /* Optional, with two threads or more (ist_sgns_opts.hot_rows): the hot words (the most frequent
      * ones) are trained on private copies of their input and output rows in each thread,
      * merged into the shared matrices every merge_every x PUBLISH_EVERY stream words
      * (docs/performance.md, "Threads"). */

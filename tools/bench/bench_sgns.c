@@ -278,8 +278,8 @@ typedef struct row {
     int fast;
     size_t dim, threads;
     int procs;                               /* 2: the control, two one-thread processes */
-    long hot;                                /* ISTHMUS_SGNS_HOT for the run, -1: default */
-    long merge;                              /* ISTHMUS_SGNS_MERGE, 0: default */
+    long hot;                                /* ist_sgns_opts.hot_rows, -1: default */
+    long merge;                              /* ist_sgns_opts.hot_merge, 0: default */
     ist_sgns_parallel parallel;
     int n;                                   /* repetitions done */
     double wps[MAX_REPEAT], cpu_wps[MAX_REPEAT], flops[MAX_REPEAT], cpu_flops[MAX_REPEAT];
@@ -331,16 +331,11 @@ child_train(const stream *s, const row *r, int fd)
     ist_matrix *m = NULL;
     ist_error err;
     outcome out = {0};
-    char hot[32];
-    if (r->hot >= 0) {
-        snprintf(hot, sizeof hot, "%ld", r->hot);
-        setenv("ISTHMUS_SGNS_HOT", hot, 1);
-    }
-    if (r->merge > 0) {
-        snprintf(hot, sizeof hot, "%ld", r->merge);
-        setenv("ISTHMUS_SGNS_MERGE", hot, 1);
-    }
     ist_sgns_opts_init(&o);
+    if (r->hot >= 0)
+        o.hot_rows = (size_t)r->hot;
+    if (r->merge > 0)
+        o.hot_merge = (size_t)r->merge;
     o.dim = r->dim;
     o.threads = r->threads;
     o.epochs = 1;

@@ -56,7 +56,10 @@ typedef struct cli_command {
 /* Rows that several getopt tables share, each written once here. */
 #define CLI_OPT_HELP {"help", no_argument, NULL, 'h'}
 #define CLI_OPT_OUTPUT {"output", required_argument, NULL, 'o'}
-/* Preparing a corpus from raw text (prepare, train): the rows whose short values agree. */
+/* Preparing a corpus from raw text (prepare, train); cli_corpus_option() handles every row
+ * but --threads (each command keeps its thread count). */
+enum { CLI_OPT_STRIP_MARKS = 910, CLI_OPT_NUMBERS, CLI_OPT_STRICT_UTF8, CLI_OPT_DEDUP_LINES,
+       CLI_OPT_SEED, CLI_OPT_BLOCK_WEIGHTS };
 #define CLI_OPTS_CORPUS                                                                           \
     {"min-freq", required_argument, NULL, 'm'},                                                   \
     {"vocab-limit", required_argument, NULL, 'V'},                                                \
@@ -64,7 +67,26 @@ typedef struct cli_command {
     {"no-nfkc", no_argument, NULL, 'N'},                                                          \
     {"no-casefold", no_argument, NULL, 'C'},                                                      \
     {"mask-digits", no_argument, NULL, 'D'},                                                      \
+    {"strip-marks", no_argument, NULL, CLI_OPT_STRIP_MARKS},                                      \
+    {"numbers", required_argument, NULL, CLI_OPT_NUMBERS},                                        \
+    {"strict-utf8", no_argument, NULL, CLI_OPT_STRICT_UTF8},                                      \
+    {"dedup-lines", no_argument, NULL, CLI_OPT_DEDUP_LINES},                                      \
     {"threads", required_argument, NULL, 't'}
+/* A random generator's seed (train: the training run; gate: the bootstrap), parsed by
+ * cli_parse_u64(cmd, "--seed", ...), any 64-bit value. */
+#define CLI_OPT_SEED_ROW {"seed", required_argument, NULL, CLI_OPT_SEED}
+/* Weights of the blocks of combined vectors (train: skip-gram and PPMI; stack: one per
+ * input), read by cli_parse_weights(). */
+#define CLI_OPT_BLOCK_WEIGHTS_ROW {"block-weights", required_argument, NULL, CLI_OPT_BLOCK_WEIGHTS}
+
+/* When c is one of the corpus rows other than --threads, apply arg to *o, set *ok (false
+ * after a usage error was printed) and return true; else return false. */
+bool cli_corpus_option(const char *cmd, int c, const char *arg, ist_corpus_opts *o, bool *ok);
+
+/* "W1,W2,...": exactly n positive weights up to 1000 into w. False after the usage error
+ * "--block-weights: EXPECTED, found 'S'" was printed (expected: what the command takes). */
+bool cli_parse_weights(const char *cmd, const char *s, double *w, size_t n,
+                       const char *expected);
 
 /* Apply a global option (c is 'q', 'v' or CLI_OPT_PROGRESS); false after a usage error. */
 bool cli_global_option(const char *cmd, int c, const char *arg);

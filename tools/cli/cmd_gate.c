@@ -48,7 +48,7 @@ help(FILE *out)
           out);
 }
 
-enum { OPT_THRESHOLDS = 1, OPT_BASELINE, OPT_VERDICT, OPT_RESAMPLES, OPT_SEED, OPT_MAP, OPT_TEST,
+enum { OPT_THRESHOLDS = 1, OPT_BASELINE, OPT_VERDICT, OPT_RESAMPLES, OPT_MAP, OPT_TEST,
        OPT_JUNIT };
 
 typedef struct args {
@@ -111,7 +111,7 @@ parse_args(int argc, char **argv, args *a)
         {"verdict-out", required_argument, NULL, OPT_VERDICT},
         {"junit-out", required_argument, NULL, OPT_JUNIT},
         {"resamples", required_argument, NULL, OPT_RESAMPLES},
-        {"seed", required_argument, NULL, OPT_SEED},
+        CLI_OPT_SEED_ROW,
         EV_OPT_MAP_ROW(OPT_MAP),
         EV_OPT_TEST_ROW(OPT_TEST),
         EV_OPTS_SEARCH,
@@ -135,7 +135,7 @@ parse_args(int argc, char **argv, args *a)
             if (!cli_parse_size(CMD, "--resamples", optarg, 1, 1000000, &a->gate.ci.resamples))
                 return CLI_EXIT_USAGE;
             break;
-        case OPT_SEED:
+        case CLI_OPT_SEED:
             if (!cli_parse_u64(CMD, "--seed", optarg, 0, UINT64_MAX, &a->gate.ci.seed))
                 return CLI_EXIT_USAGE;
             break;

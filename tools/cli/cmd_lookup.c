@@ -71,7 +71,7 @@ help(FILE *out)
 }
 
 enum {
-    OPT_MAP = 1, OPT_WORDS, OPT_TOP, OPT_NUMBERS, OPT_VARIANTS, OPT_STOP, OPT_MIN, OPT_REVERSE,
+    OPT_MAP = 1, OPT_WORDS, OPT_TOP, OPT_REVERSE,
     OPT_NEAR, OPT_VECTOR
 };
 
@@ -414,10 +414,7 @@ run(int argc, char **argv)
         {"vector", no_argument, NULL, OPT_VECTOR},
         {"words", required_argument, NULL, OPT_WORDS},
         {"top", required_argument, NULL, OPT_TOP},
-        {"with-numbers", no_argument, NULL, OPT_NUMBERS},
-        {"with-variants", no_argument, NULL, OPT_VARIANTS},
-        {"stop-share", required_argument, NULL, OPT_STOP},
-        {"min-score", required_argument, NULL, OPT_MIN},
+        EV_OPTS_FILTER,
         EV_OPTS_SEARCH,
         EV_OPTS_RANK,
         CLI_OPT_HELP,
@@ -430,15 +427,12 @@ run(int argc, char **argv)
     ist_map *map = NULL;
     ist_error err;
     ev_common c;
-    ist_word_filter wf;
     job jb = {.mode = MODE_TRANSLATE, .top = 10};
     bool rank_given = false;
     int nmodes = 0, nfiles;
-    double v;
     int rc;
 
     ev_common_init(&c, EV_CSLS);
-    ist_word_filter_init(&wf);
     while ((rc = getopt_long(argc, argv, "h" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (rc) {
         case OPT_MAP: mpath = optarg; break;
@@ -449,18 +443,6 @@ run(int argc, char **argv)
         case OPT_TOP:
             if (!cli_parse_size(CMD, "--top", optarg, 1, 1000, &jb.top))
                 return CLI_EXIT_USAGE;
-            break;
-        case OPT_NUMBERS: wf.numbers = true; break;
-        case OPT_VARIANTS: wf.variants = false; break;
-        case OPT_STOP:
-            if (!cli_parse_double(CMD, "--stop-share", optarg, 0, 100, &v))
-                return CLI_EXIT_USAGE;
-            wf.stop_share = v / 100;
-            break;
-        case OPT_MIN:
-            if (!cli_parse_double(CMD, "--min-score", optarg, -4, 4, &v))
-                return CLI_EXIT_USAGE;
-            wf.min_score = (float)v;
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
@@ -521,7 +503,7 @@ run(int argc, char **argv)
     jb.method = c.methods == EV_COSINE || (jb.mode == MODE_NEAR && !rank_given)
                     ? IST_RETRIEVAL_COSINE : IST_RETRIEVAL_CSLS;
     jb.c = &c;
-    jb.wf = &wf;
+    jb.wf = &c.filter;
     jb.map = map;
     jb.s = s;
     jb.t = t;

@@ -120,10 +120,6 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
     static const struct option opts[] = {
         CLI_OPT_OUTPUT,
         CLI_OPTS_CORPUS,
-        {"strip-marks", no_argument, NULL, 'S'},
-        {"numbers", required_argument, NULL, 'n'},
-        {"strict-utf8", no_argument, NULL, 'U'},
-        {"dedup-lines", no_argument, NULL, 'd'},
         CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
@@ -134,40 +130,19 @@ parse_args(int argc, char **argv, ist_corpus_opts *o, const char **out)
     while ((c = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'o': *out = optarg; break;
-        case 'm':
-            if (!cli_parse_u64("prepare", "--min-freq", optarg, 1, UINT64_MAX, &o->min_count))
-                return CLI_EXIT_USAGE;
-            break;
-        case 'V':
-            if (!cli_parse_size("prepare", "--vocab-limit", optarg, 0, UINT32_MAX - 2,
-                                &o->max_vocab))
-                return CLI_EXIT_USAGE;
-            break;
-        case 'L':
-            if (!cli_parse_size("prepare", "--max-line-bytes", optarg, 1, (size_t)1 << 30,
-                                &o->max_line))
-                return CLI_EXIT_USAGE;
-            break;
-        case 'N': o->text.nfkc = false; break;
-        case 'C': o->text.casefold = false; break;
-        case 'S': o->text.strip_marks = true; break;
-        case 'D': o->text.mask_digits = true; break;
-        case 'n':
-            if (!ist_numbers_policy_parse(optarg, &o->text.numbers))
-                return cli_usage_error("prepare", "--numbers: expected keep, mask or drop, "
-                                       "found '%s'", optarg);
-            break;
-        case 'U': o->text.strict_utf8 = true; break;
-        case 'd': o->dedup_lines = true; break;
         case 't':
             if (!cli_parse_threads("prepare", optarg, &threads))
                 return CLI_EXIT_USAGE;
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default:
-            if (!cli_other_option("prepare", c, opts, argv))
+        default: {
+            bool ok;
+            if (!cli_corpus_option("prepare", c, optarg, o, &ok))
+                ok = cli_other_option("prepare", c, opts, argv);
+            if (!ok)
                 return CLI_EXIT_USAGE;
             break;
+        }
         }
     }
     o->threads = threads ? threads : cli_processors();

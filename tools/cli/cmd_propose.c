@@ -65,7 +65,7 @@ help(FILE *out)
 }
 
 enum { OPT_MAP = 1, OPT_EXCLUDE, OPT_TOP_SOURCES, OPT_CANDIDATES, OPT_ORDER, OPT_SKIP_GOLD,
-       OPT_WITH_NUMBERS, OPT_STOP_SHARE, OPT_MIN_SCORE, OPT_MIXED, OPT_WITH_VARIANTS };
+       OPT_MIXED };
 
 typedef struct args {
     const char *map, *out, *src, *tgt;
@@ -85,11 +85,8 @@ parse(int argc, char **argv, args *a)
         {"candidates", required_argument, NULL, OPT_CANDIDATES},
         {"order", required_argument, NULL, OPT_ORDER},
         {"skip-gold-targets", no_argument, NULL, OPT_SKIP_GOLD},
-        {"with-numbers", no_argument, NULL, OPT_WITH_NUMBERS},
-        {"stop-share", required_argument, NULL, OPT_STOP_SHARE},
-        {"min-score", required_argument, NULL, OPT_MIN_SCORE},
         {"mixed-order", no_argument, NULL, OPT_MIXED},
-        {"with-variants", no_argument, NULL, OPT_WITH_VARIANTS},
+        EV_OPTS_FILTER,
         EV_OPTS_SEARCH,
         CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
@@ -126,23 +123,7 @@ parse(int argc, char **argv, args *a)
             a->po.order = ord == 1 ? IST_PROPOSE_CERTAIN : IST_PROPOSE_INFORMATIVE;
             break;
         case OPT_SKIP_GOLD: a->po.skip_gold_targets = true; break;
-        case OPT_WITH_NUMBERS: a->po.filter.numbers = true; break;
-        case OPT_STOP_SHARE: {
-            double pct;
-            if (!cli_parse_double(CMD, "--stop-share", optarg, 0, 100, &pct))
-                return CLI_EXIT_USAGE;
-            a->po.filter.stop_share = pct / 100;
-            break;
-        }
-        case OPT_MIN_SCORE: {
-            double v;
-            if (!cli_parse_double(CMD, "--min-score", optarg, -4, 4, &v))
-                return CLI_EXIT_USAGE;
-            a->po.filter.min_score = (float)v;
-            break;
-        }
         case OPT_MIXED: a->po.same_block = false; break;
-        case OPT_WITH_VARIANTS: a->po.filter.variants = false; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (o >= 1000) {
@@ -164,6 +145,7 @@ parse(int argc, char **argv, args *a)
     a->src = argv[optind];
     a->tgt = argv[optind + 1];
     a->po.search = c.search;
+    a->po.filter = c.filter;
     return CLI_GO_ON;
 }
 

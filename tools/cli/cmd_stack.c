@@ -1,6 +1,5 @@
 /* cmd_stack.c - isthmus stack: one vector file from several files over the same words. */
 #include <getopt.h>
-#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -37,31 +36,12 @@ help(FILE *out)
           out);
 }
 
-/* "W1,W2,...": exactly n positive weights. */
-static bool
-parse_weights(const char *s, double *w, size_t n)
-{
-    const char *p = s;
-    for (size_t i = 0; i < n; i++) {
-        char *end;
-        w[i] = strtod(p, &end);
-        if (end == p || !(isfinite(w[i]) && w[i] > 0.0 && w[i] <= 1e3) ||
-            (i + 1 < n ? *end != ',' : *end != '\0')) {
-            cli_usage_error("stack", "--block-weights: expected %zu positive numbers up to 1000 "
-                                     "separated by commas, one per input, found '%s'", n, s);
-            return false;
-        }
-        p = end + 1;
-    }
-    return true;
-}
-
 static int
 run(int argc, char **argv)
 {
     static const struct option opts[] = {
         CLI_OPT_OUTPUT,
-        {"block-weights", required_argument, NULL, 'w'},
+        CLI_OPT_BLOCK_WEIGHTS_ROW,
         CLI_OPT_HELP,
         CLI_OPTS_GLOBAL,
         {NULL, 0, NULL, 0},
@@ -71,7 +51,7 @@ run(int argc, char **argv)
     while ((c = getopt_long(argc, argv, "ho:" CLI_SHORT_GLOBAL, opts, NULL)) != -1) {
         switch (c) {
         case 'o': out = optarg; break;
-        case 'w': wspec = optarg; break;
+        case CLI_OPT_BLOCK_WEIGHTS: wspec = optarg; break;
         case 'h': help(stdout); return CLI_EXIT_OK;
         default:
             if (!cli_other_option("stack", c, opts, argv))
@@ -88,9 +68,12 @@ run(int argc, char **argv)
     if (n < 2 || n > MAX_BLOCKS)
         return cli_usage_error("stack", "expected 2 to %d vector files, got %zu", MAX_BLOCKS, n);
     double w[MAX_BLOCKS];
+    char expected[96];
+    snprintf(expected, sizeof expected, "expected %zu positive numbers up to 1000 separated "
+             "by commas, one per input", n);
     for (size_t i = 0; i < n; i++)
         w[i] = 1.0;
-    if (wspec && !parse_weights(wspec, w, n))
+    if (wspec && !cli_parse_weights("stack", wspec, w, n, expected))
         return CLI_EXIT_USAGE;
     const char *const *ins = (const char *const *)argv + optind;
     int fc = cli_check_files("stack", ins, n, &out, 1);

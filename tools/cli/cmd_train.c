@@ -168,27 +168,6 @@ on_build_progress(void *ctx, uint64_t done, uint64_t total)
                         total ? 100.0 * (double)done / (double)total : 100.0, total / 1e6);
 }
 
-/* "A,B": the two block weights, each a positive number. */
-static bool
-parse_weights(const char *cmd, const char *s, double w[2])
-{
-    char *end;
-    double a = strtod(s, &end), b = 0.0;
-    bool ok = end != s && *end == ',';
-    if (ok) {
-        const char *t = end + 1;
-        b = strtod(t, &end);
-        ok = end != t && *end == '\0';
-    }
-    if (!ok || !(a > 0.0 && a <= 1e3) || !(b > 0.0 && b <= 1e3)) {
-        cli_usage_error(cmd, "--block-weights: expected two positive numbers up to 1000 "
-                             "separated by a comma (skip-gram,PPMI), found '%s'", s);
-        return false;
-    }
-    w[0] = a, w[1] = b;
-    return true;
-}
-
 /* Parse argv into a; CLI_GO_ON or the exit status. */
 static int
 parse(int argc, char **argv, train_args *a)
@@ -201,7 +180,7 @@ parse(int argc, char **argv, train_args *a)
         {"passes", required_argument, NULL, 'p'},
         {"rate", required_argument, NULL, 'r'},
         {"subsample", required_argument, NULL, 's'},
-        {"seed", required_argument, NULL, 'S'},
+        CLI_OPT_SEED_ROW,
         {"exchanges", required_argument, NULL, 'X'},
         {"thread-vectors", required_argument, NULL, 1012},
         {"merge", required_argument, NULL, 'G'},
@@ -209,13 +188,9 @@ parse(int argc, char **argv, train_args *a)
         {"keep-context", required_argument, NULL, 'K'},
         {"text-copy", required_argument, NULL, 'T'},
         CLI_OPTS_CORPUS,
-        {"strip-marks", no_argument, NULL, 'M'},
-        {"numbers", required_argument, NULL, 'B'},
-        {"strict-utf8", no_argument, NULL, 'U'},
-        {"dedup-lines", no_argument, NULL, 'u'},
         {"rate-floor", required_argument, NULL, 1011},
         {"method", required_argument, NULL, 1000},
-        {"block-weights", required_argument, NULL, 1001},
+        CLI_OPT_BLOCK_WEIGHTS_ROW,
         {"ppmi-dimension", required_argument, NULL, 1002},
         {"ppmi-context", required_argument, NULL, 1003},
         {"ppmi-weighting", required_argument, NULL, 1004},
@@ -264,7 +239,9 @@ parse(int argc, char **argv, train_args *a)
         case 't':
             ok = cli_parse_threads(cmd, optarg, &threads);
             break;
-        case 'S': ok = cli_parse_u64(cmd, "--seed", optarg, 0, UINT64_MAX, &a->so.seed); break;
+        case CLI_OPT_SEED:
+            ok = cli_parse_u64(cmd, "--seed", optarg, 0, UINT64_MAX, &a->so.seed);
+            break;
         case 'X': ok = cli_parse_size(cmd, "--exchanges", optarg, 1, 1000, &a->so.exchanges); break;
         case 1012:
             ok = cli_parse_choice(cmd, "--thread-vectors", optarg, sharings, &k);
@@ -282,32 +259,6 @@ parse(int argc, char **argv, train_args *a)
             break;
         case 'K': a->ctx_out = optarg; a->so.keep_context = true; break;
         case 'T': a->text_out = optarg; break;
-        case 'm':
-            ok = cli_parse_u64(cmd, "--min-freq", optarg, 1, UINT64_MAX, &a->co.min_count);
-            a->text_opts_given = true;
-            break;
-        case 'V':
-            ok = cli_parse_size(cmd, "--vocab-limit", optarg, 0, UINT32_MAX - 2, &a->co.max_vocab);
-            a->text_opts_given = true;
-            break;
-        case 'L':
-            ok = cli_parse_size(cmd, "--max-line-bytes", optarg, 1, (size_t)1 << 30,
-                                &a->co.max_line);
-            a->text_opts_given = true;
-            break;
-        case 'N': a->co.text.nfkc = false; a->text_opts_given = true; break;
-        case 'C': a->co.text.casefold = false; a->text_opts_given = true; break;
-        case 'M': a->co.text.strip_marks = true; a->text_opts_given = true; break;
-        case 'D': a->co.text.mask_digits = true; a->text_opts_given = true; break;
-        case 'B':
-            ok = ist_numbers_policy_parse(optarg, &a->co.text.numbers);
-            if (!ok)
-                cli_usage_error(cmd, "--numbers: expected keep, mask or drop, found '%s'",
-                                optarg);
-            a->text_opts_given = true;
-            break;
-        case 'U': a->co.text.strict_utf8 = true; a->text_opts_given = true; break;
-        case 'u': a->co.dedup_lines = true; a->text_opts_given = true; break;
         case 1011:
             ok = cli_parse_double(cmd, "--rate-floor", optarg, 1e-9, 1, &a->so.lr_floor);
             break;
@@ -315,7 +266,10 @@ parse(int argc, char **argv, train_args *a)
             ok = cli_parse_choice(cmd, "--method", optarg, methods, &a->method);
             a->method_given = true;
             break;
-        case 1001: ok = parse_weights(cmd, optarg, a->weights); break;
+        case CLI_OPT_BLOCK_WEIGHTS:
+            ok = cli_parse_weights(cmd, optarg, a->weights, 2, "expected two positive numbers "
+                                   "up to 1000 separated by a comma (skip-gram,PPMI)");
+            break;
         case 1002:
             ok = cli_parse_size(cmd, "--ppmi-dimension", optarg, 1, 10000, &a->po.dim);
             break;
@@ -343,7 +297,12 @@ parse(int argc, char **argv, train_args *a)
             ok = cli_parse_size(cmd, "--pair-buffer", optarg, 1, 1048576, &a->po.buffer_mb);
             break;
         case 'h': help(stdout); return CLI_EXIT_OK;
-        default: ok = cli_other_option(cmd, c, opts, argv); break;
+        default:
+            if (cli_corpus_option(cmd, c, optarg, &a->co, &ok))
+                a->text_opts_given = true;
+            else
+                ok = cli_other_option(cmd, c, opts, argv);
+            break;
         }
         if (!ok)
             return CLI_EXIT_USAGE;

@@ -16,6 +16,7 @@ ev_common_init(ev_common *c, ev_methods dflt)
     ist_eval_opts_init(&c->eval);
     c->diagnostics = true;
     ist_diag_opts_init(&c->diag);
+    ist_word_filter_init(&c->filter);
 }
 
 static bool
@@ -47,6 +48,7 @@ ev_common_option(const char *cmd, ev_common *c, int opt, const char *arg)
 {
     static const char *const methods[] = {"cosine", "csls", "both", NULL};
     size_t v;
+    double x;
     int m;
 
     switch (opt) {
@@ -82,6 +84,22 @@ ev_common_option(const char *cmd, ev_common *c, int opt, const char *arg)
         return cli_parse_size(cmd, "--isometry-words", arg, 0, 4000, &c->diag.isometry_words);
     case EV_OPT_HUB_NUMBERS:
         c->diag.hub_numbers = true;
+        return true;
+    case EV_OPT_WITH_NUMBERS:
+        c->filter.numbers = true;
+        return true;
+    case EV_OPT_WITH_VARIANTS:
+        c->filter.variants = false;
+        return true;
+    case EV_OPT_STOP_SHARE:
+        if (!cli_parse_double(cmd, "--stop-share", arg, 0, 100, &x))
+            return false;
+        c->filter.stop_share = x / 100;   /* given in percent */
+        return true;
+    case EV_OPT_MIN_SCORE:
+        if (!cli_parse_double(cmd, "--min-score", arg, -4, 4, &x))
+            return false;
+        c->filter.min_score = (float)x;
         return true;
     default:
         return false;

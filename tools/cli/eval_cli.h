@@ -19,6 +19,10 @@ enum {
     EV_OPT_DIAG_WORDS,
     EV_OPT_ISO_WORDS,
     EV_OPT_HUB_NUMBERS,
+    EV_OPT_WITH_NUMBERS,
+    EV_OPT_WITH_VARIANTS,
+    EV_OPT_STOP_SHARE,
+    EV_OPT_MIN_SCORE,
 };
 
 /* The rows of the shared options, one fragment per group, written once: a command's
@@ -26,7 +30,8 @@ enum {
  *   EV_OPTS_SEARCH   the neighbour search (align, score, gate, lookup, propose)
  *   EV_OPTS_RANK     the ranking method (align, score, gate, lookup)
  *   EV_OPTS_SCORING  scoring a test list (align, score, gate)
- *   EV_OPTS_DIAG     diagnostics in the JSON result (align, score) */
+ *   EV_OPTS_DIAG     diagnostics in the JSON result (align, score)
+ *   EV_OPTS_FILTER   the review filters of candidate words (lookup, propose) */
 /* The map and test-list rows, with the command's own option value. */
 #define EV_OPT_MAP_ROW(val) {"map", required_argument, NULL, val}
 #define EV_OPT_TEST_ROW(val) {"test", required_argument, NULL, val}
@@ -44,6 +49,11 @@ enum {
     {"diagnostics-words", required_argument, NULL, EV_OPT_DIAG_WORDS},                            \
     {"isometry-words", required_argument, NULL, EV_OPT_ISO_WORDS},                                \
     {"hubs-with-numbers", no_argument, NULL, EV_OPT_HUB_NUMBERS}
+#define EV_OPTS_FILTER                                                                            \
+    {"with-numbers", no_argument, NULL, EV_OPT_WITH_NUMBERS},                                     \
+    {"with-variants", no_argument, NULL, EV_OPT_WITH_VARIANTS},                                   \
+    {"stop-share", required_argument, NULL, EV_OPT_STOP_SHARE},                                   \
+    {"min-score", required_argument, NULL, EV_OPT_MIN_SCORE}
 
 /* Groups for ev_common_help(). */
 enum { EV_HELP_SEARCH = 1, EV_HELP_RANK = 2, EV_HELP_SCORING = 4, EV_HELP_DIAG = 8 };
@@ -59,6 +69,7 @@ typedef struct ev_common {
     const char *json_out;
     bool diagnostics;             /* compute them for the JSON result [true] */
     ist_diag_opts diag;
+    ist_word_filter filter;       /* the review filters (EV_OPTS_FILTER) */
 } ev_common;
 
 void ev_common_init(ev_common *c, ev_methods dflt);
